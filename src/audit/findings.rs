@@ -1,0 +1,144 @@
+//! Findings: what the rules flag, each with a stable code, the cell, the numbers and an action.
+
+use serde::Serialize;
+
+use super::{Audit, Rules};
+use crate::error::{CellRef, Severity};
+use crate::ingest::{FittingRow, Input, Service, TableKind};
+use crate::physics::friction::Regime;
+
+/// One flagged item.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Finding {
+    /// How serious.
+    pub severity: Severity,
+    /// Stable kebab-case code.
+    pub code: &'static str,
+    /// Line id, when the finding concerns a line.
+    pub line: Option<String>,
+    /// Fitting tag, when it concerns a fitting.
+    pub tag: Option<String>,
+    /// The input cell it is about.
+    pub cell: Option<CellRef>,
+    /// What was found, with the numbers.
+    pub message: String,
+    /// What to do.
+    pub action: String,
+}
+
+/// Every finding code the tool can raise, with its meaning (for docs and the Basis sheet).
+pub const CODES: &[(&str, &str)] = &[
+    ("velocity-high", "a run's mean velocity is above its service's band"),
+    ("velocity-low", "a run's mean velocity is below its service's band"),
+    ("steep-gradient", "a run loses more head per 100 m than the gradient rule allows"),
+    ("high-loss-fitting", "one item takes too large a share of its line's loss, or its K is high"),
+    ("transition-regime", "a run's Reynolds number lies between laminar and turbulent (2000–4000)"),
+    ("size-mismatch", "a fitting's size matches no run of its line"),
+    ("valve-closed", "a valve is 0 % open on a line that carries flow"),
+    ("zero-flow", "a line's flow is zero, so it has no losses"),
+];
+
+fn push(audit: &mut Audit, severity: Severity, code: &'static str, line: &str, tag: Option<&str>, cell: CellRef, message: String, action: &str) {
+    audit.findings.push(Finding {
+        severity,
+        code,
+        line: Some(line.to_string()),
+        tag: tag.filter(|t| !t.is_empty()).map(str::to_string),
+        cell: Some(cell),
+        message,
+        action: action.to_string(),
+    });
+}
+
+fn col(input: &Input, table: TableKind, key: &str) -> Option<u32> {
+    input.layout(table).and_then(|l| l.column(key)).map(|c| c.col)
+}
+
+/// Raise the rule findings and sort all findings (worst first, then by cell).
+pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
+    let size_col = col(input, TableKind::Pipes, "size").or(col(input, TableKind::Pipes, "inner_diameter")).unwrap_or(0);
+    let flow_col = col(input, TableKind::Lines, "flow").unwrap_or(0);
+    let lines = audit.lines.clone();
+    for line in &lines {
+        if line.flow_m3_s == 0.0 {
+            let cell = match line.row {
+                Some(r) => CellRef::new(TableKind::Lines.sheet_name(), r, flow_col),
+                None => audit.runs[line.runs[0]].cell.clone(),
+            };
+            let cell = input.layout(TableKind::Lines).filter(|_| line.row.is_some()).map(|l| CellRef::new(&l.sheet, cell.row, cell.col)).unwrap_or(cell);
+            push(audit, Severity::Info, "zero-flow", &line.line, None, cell, format!("line {} carries no flow: no losses computed", line.line), "check the line's duty flow");
+            continue;
+        }
+        let band = rules.band(line.service);
+        for &i in &line.runs {
+            let run = audit.runs[i].clone();
+            let cell = CellRef::new(&run.cell.sheet, run.row, size_col);
+            let v = run.velocity_m_s;
+            if let Some(max) = band.max_m_s
+                && v > max
+            {
+                push(audit, Severity::Warning, "velocity-high", &line.line, None, cell.clone(),
+                    format!("velocity {v:.2} m/s is above the {} limit of {max:.2} m/s", line.service.id()),
+                    "consider a larger bore or a lower flow; check erosion, noise and surge");
+            }
+            if let Some(min) = band.min_m_s
+                && v < min
+            {
+                push(audit, Severity::Warning, "velocity-low", &line.line, None, cell.clone(),
+                    format!("velocity {v:.2} m/s is below the {} minimum of {min:.2} m/s", line.service.id()),
+                    if line.service == Service::Gravity { "check self-cleansing: solids may settle" } else { "the line may be oversized; check air clearing and sediment" });
+            }
+            let gradient = run.head_m / run.length_m * 100.0;
+            if gradient > rules.gradient.max_m_per_100m {
+                push(audit, Severity::Warning, "steep-gradient", &line.line, None, cell.clone(),
+                    format!("friction loss {gradient:.2} m per 100 m exceeds {:.2} m per 100 m", rules.gradient.max_m_per_100m),
+                    "a larger bore or smoother pipe would cut the loss and the pumping energy");
+            }
+            if run.regime == Regime::Transition {
+                push(audit, Severity::Info, "transition-regime", &line.line, None, cell,
+                    format!("Reynolds number {:.0} is in the transition band 2000–4000: friction factor interpolated", run.reynolds),
+                    "results here are less certain; confirm by measurement if the line matters");
+            }
+        }
+    }
+    let fittings = audit.fittings.clone();
+    for f in &fittings {
+        let Some(line) = lines.iter().find(|l| l.line == f.line) else { continue };
+        let share = if line.total_head_m > 0.0 { f.head_m / line.total_head_m } else { 0.0 };
+        let share_hit = share > rules.fitting.max_share;
+        let k_hit = f.k > rules.fitting.max_k;
+        if share_hit || k_hit {
+            let mut why = Vec::new();
+            if share_hit {
+                why.push(format!("takes {:.0} % of line {}'s loss (limit {:.0} %)", share * 100.0, f.line, rules.fitting.max_share * 100.0));
+            }
+            if k_hit {
+                why.push(format!("K {:.2} is above {:.2}", f.k, rules.fitting.max_k));
+            }
+            push(audit, Severity::Warning, "high-loss-fitting", &f.line, Some(&f.tag), f.cell.clone(),
+                format!("{} ({}): head {:.3} m; {}", f.item, f.kind, f.head_m, why.join("; ")),
+                "check the item's type and position; a lower-loss alternative may pay back");
+        }
+    }
+    audit.findings.sort_by(|a, b| b.severity.cmp(&a.severity).then_with(|| a.cell.cmp(&b.cell)).then(a.code.cmp(b.code)));
+}
+
+/// A fitting whose size matches no run of its line.
+pub fn size_mismatch(input: &Input, audit: &mut Audit, f: &FittingRow, run: usize) {
+    let c = col(input, TableKind::Fittings, "size").unwrap_or(0);
+    let cell = CellRef::new(&f.origin.sheet, f.origin.row, c);
+    let run_cell = audit.runs[run].cell.clone();
+    let what = if f.size.is_some() { "its size matches no run of line" } else { "it has no size and line has runs of several sizes:" };
+    push(audit, Severity::Warning, "size-mismatch", &f.line, Some(&f.tag), cell,
+        format!("{}: {what} {}; computed on the run at {run_cell}", super::lines::fitting_label(f), f.line),
+        "correct the fitting's size or the line's runs");
+}
+
+/// A closed valve on a line that carries flow.
+pub fn closed_valve(input: &Input, audit: &mut Audit, f: &FittingRow) {
+    let c = col(input, TableKind::Fittings, "opening").unwrap_or(0);
+    let cell = CellRef::new(&f.origin.sheet, f.origin.row, c);
+    push(audit, Severity::Error, "valve-closed", &f.line, Some(&f.tag), cell,
+        format!("{} is 0 % open but line {} is given a flow: its loss is unbounded and is left out of the totals", super::lines::fitting_label(f), f.line),
+        "correct the valve position or the line's flow");
+}

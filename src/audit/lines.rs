@@ -1,0 +1,445 @@
+//! Per-run, per-fitting and per-line hydraulics.
+
+use std::collections::HashMap;
+
+use super::{Audit, FittingResult, FluidUsed, LineResult, Rules, RunResult};
+use crate::error::{CellRef, Diagnostic, Severity};
+use crate::ingest::parse::SizeSpec;
+use crate::ingest::{FittingRow, Input, PipeRow, Service, TableKind};
+use crate::physics::fitting::{self, FittingInput};
+use crate::physics::friction::{self, Regime};
+use crate::physics::{G, fluid, pipe};
+use crate::table;
+
+/// What a size names, for matching fittings to runs: a nominal DN, or a bore/OD in tenths of a mm.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+pub enum SizeKey {
+    /// Nominal size.
+    Dn(u16),
+    /// Outside diameter, 0.1 mm.
+    Od(u32),
+    /// Bore, 0.1 mm.
+    Bore(u32),
+}
+
+/// The key of a written size (NPS is converted to its DN).
+pub fn size_key(size: &SizeSpec) -> Option<SizeKey> {
+    let tenth = |m: f64| (m * 1e4).round() as u32;
+    Some(match *size {
+        SizeSpec::Dn(dn) => SizeKey::Dn(dn),
+        SizeSpec::Nps(n) => SizeKey::Dn(pipe::nps_to_dn(n)?),
+        SizeSpec::OuterDiameter { od_m } | SizeSpec::OdWall { od_m, .. } => SizeKey::Od(tenth(od_m)),
+        SizeSpec::InnerDiameter { id_m } => SizeKey::Bore(tenth(id_m)),
+    })
+}
+
+struct LineState {
+    service: Service,
+    row: Option<u32>,
+    flow_m3_s: f64,
+    fluid: String,
+    temperature_c: f64,
+    props: fluid::FluidProps,
+    elevation_change_m: f64,
+}
+
+struct Ctx<'a> {
+    input: &'a Input,
+    errors: Vec<Diagnostic>,
+}
+
+impl Ctx<'_> {
+    fn cell(&self, table: TableKind, sheet: &str, row: u32, key: &str) -> CellRef {
+        let col = self.input.layout(table).and_then(|l| l.column(key)).map(|c| c.col).unwrap_or(0);
+        CellRef::new(sheet, row, col)
+    }
+
+    fn error(&mut self, cell: CellRef, message: String, hint: Option<String>) {
+        self.errors.push(Diagnostic {
+            severity: Severity::Error,
+            file: self.input.file.clone(),
+            cell: Some(cell),
+            message,
+            hint,
+        });
+    }
+}
+
+fn is_water(name: &str) -> bool {
+    name.split(|c: char| !c.is_alphanumeric()).any(|w| w == "water")
+}
+
+/// Fluid state of every line: Lines rows, plus lines only Pipes names (with flow on their runs).
+fn line_states(ctx: &mut Ctx<'_>, fluids_used: &mut Vec<FluidUsed>) -> (Vec<String>, HashMap<String, LineState>) {
+    let input = ctx.input;
+    let mut order = Vec::new();
+    let mut states = HashMap::new();
+    let mut run_flow: HashMap<&str, f64> = HashMap::new();
+    for p in &input.pipes {
+        if let Some(q) = p.flow_m3_s {
+            run_flow.entry(p.line.as_str()).or_insert(q);
+        }
+    }
+    let mut add = |ctx: &mut Ctx<'_>, line: &str, service, row: Option<u32>, sheet: &str, flow: f64, fluid_name: &str, t: f64, dz: f64| {
+        let props = match input.fluids.iter().find(|f| f.fluid == fluid_name) {
+            Some(f) => Ok((fluid::FluidProps {
+                density_kg_m3: f.density_kg_m3,
+                viscosity_pa_s: f.viscosity_pa_s,
+                vapour_pressure_pa: f.vapour_pressure_pa.unwrap_or(f64::NAN),
+            }, format!("Fluids sheet row {}", f.origin.row + 1))),
+            None if is_water(fluid_name) => fluid::water(t).map(|p| (p, "IAPWS-IF97 (density, saturation pressure) and IAPWS 2008 viscosity via seuif97, at 101.325 kPa".to_string())).map_err(|e| (format!("{e}"), "temperature", Some(format!("the water model covers {}–{} °C", fluid::WATER_T_MIN_C, fluid::WATER_T_MAX_C)))),
+            None => Err((format!("fluid '{fluid_name}' is not water and is not listed in a Fluids sheet"), "fluid", Some("add a Fluids sheet with Fluid, Density and Viscosity for it".to_string()))),
+        };
+        match props {
+            Ok((props, basis)) => {
+                if !fluids_used.iter().any(|u| u.fluid == fluid_name && u.temperature_c == t) {
+                    fluids_used.push(FluidUsed { fluid: fluid_name.to_string(), temperature_c: t, props, basis });
+                }
+                order.push(line.to_string());
+                states.insert(line.to_string(), LineState { service, row, flow_m3_s: flow, fluid: fluid_name.to_string(), temperature_c: t, props, elevation_change_m: dz });
+            }
+            Err((message, key, hint)) => {
+                let cell = ctx.cell(TableKind::Lines, sheet, row.unwrap_or(0), key);
+                ctx.error(cell, message, hint);
+            }
+        }
+    };
+    for l in &input.lines {
+        let Some(flow) = l.flow_m3_s.or_else(|| run_flow.get(l.line.as_str()).copied()) else { continue };
+        add(ctx, &l.line, l.service, Some(l.origin.row), &l.origin.sheet, flow, &l.fluid, l.temperature_c, l.elevation_change_m.unwrap_or(0.0));
+    }
+    let mut implicit: Vec<&PipeRow> = Vec::new();
+    for p in &input.pipes {
+        if !input.lines.iter().any(|l| l.line == p.line) && !implicit.iter().any(|q| q.line == p.line) {
+            implicit.push(p);
+        }
+    }
+    for p in implicit {
+        if let Some(&flow) = run_flow.get(p.line.as_str()) {
+            add(ctx, &p.line, Service::General, None, &p.origin.sheet, flow, "water", 20.0, 0.0);
+        }
+    }
+    (order, states)
+}
+
+struct ResolvedRun {
+    dn: Option<u16>,
+    nps: Option<f64>,
+    key: Option<SizeKey>,
+    d_m: f64,
+    basis: String,
+    eps_m: f64,
+    eps_basis: String,
+}
+
+fn resolve_run(ctx: &mut Ctx<'_>, p: &PipeRow) -> Option<ResolvedRun> {
+    let key = p.size.as_ref().and_then(size_key);
+    let dn = match key {
+        Some(SizeKey::Dn(dn)) => Some(dn),
+        _ => None,
+    };
+    let nps = dn.and_then(pipe::dn_to_nps);
+    let size_cell = ctx.cell(TableKind::Pipes, &p.origin.sheet, p.origin.row, "size");
+    let (d_m, basis) = if let Some(d) = p.inner_diameter_m {
+        (d, "Inner diameter given".to_string())
+    } else {
+        match p.size? {
+            SizeSpec::InnerDiameter { id_m } => (id_m, "bore written in Size".to_string()),
+            SizeSpec::OdWall { od_m, wall_m } => {
+                if 2.0 * wall_m >= od_m {
+                    ctx.error(size_cell, format!("wall {:.2} mm is too thick for OD {:.1} mm", wall_m * 1e3, od_m * 1e3), None);
+                    return None;
+                }
+                (od_m - 2.0 * wall_m, "OD and wall written in Size".to_string())
+            }
+            SizeSpec::OuterDiameter { od_m } => match pipe::bore_from_od(p.material, od_m, p.schedule) {
+                Ok(b) => (b.inner_diameter_m, format!("{} OD {:.1} mm {}", b.standard, od_m * 1e3, p.schedule.map(|s| s.label()).unwrap_or_default())),
+                Err(e) => {
+                    ctx.error(size_cell, e.to_string(), Some("give the bore in an Inner diameter column".into()));
+                    return None;
+                }
+            },
+            SizeSpec::Dn(_) | SizeSpec::Nps(_) => {
+                let Some(dn) = dn else {
+                    ctx.error(size_cell, "size has no DN equivalent in ASME B36.10M".into(), Some("give the bore in an Inner diameter column".into()));
+                    return None;
+                };
+                match pipe::bore(p.material, dn, p.schedule) {
+                    Ok(b) => {
+                        let sch = p.schedule.or_else(|| pipe::default_schedule(p.material, dn)).map(|s| s.label()).unwrap_or_default();
+                        (b.inner_diameter_m, format!("{} DN{dn} {sch}", b.standard).trim_end().to_string())
+                    }
+                    Err(e) => {
+                        ctx.error(size_cell, e.to_string(), Some("check the size and schedule, or give the bore in an Inner diameter column".into()));
+                        return None;
+                    }
+                }
+            }
+        }
+    };
+    let (eps_m, eps_basis) = match p.roughness_m {
+        Some(e) => (e, "Roughness given".to_string()),
+        None => {
+            let r = pipe::roughness(p.material);
+            match p.age_years.and_then(|a| pipe::aged_roughness(p.material, a).map(|e| (a, e))) {
+                Some((a, e)) => (e, format!("{} new, aged {a} years (linear growth)", r.source)),
+                None => (r.epsilon_m, r.source.to_string()),
+            }
+        }
+    };
+    Some(ResolvedRun { dn, nps, key, d_m, basis, eps_m, eps_basis })
+}
+
+/// Compute runs, fittings and line totals.
+pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
+    let mut ctx = Ctx { input, errors: Vec::new() };
+    let mut fluids_used = Vec::new();
+    let (line_order, states) = line_states(&mut ctx, &mut fluids_used);
+
+    // Runs of each line in sequence order (then row order).
+    let mut pipes: Vec<&PipeRow> = input.pipes.iter().filter(|p| states.contains_key(&p.line)).collect();
+    let pos: HashMap<&str, usize> = line_order.iter().enumerate().map(|(i, l)| (l.as_str(), i)).collect();
+    pipes.sort_by(|a, b| {
+        pos[a.line.as_str()]
+            .cmp(&pos[b.line.as_str()])
+            .then(a.seq.unwrap_or(f64::INFINITY).total_cmp(&b.seq.unwrap_or(f64::INFINITY)))
+            .then(a.origin.row.cmp(&b.origin.row))
+    });
+    let resolved: Vec<Option<ResolvedRun>> = pipes.iter().map(|p| resolve_run(&mut ctx, p)).collect();
+    if !ctx.errors.is_empty() {
+        return Err(ctx.errors);
+    }
+    let resolved: Vec<ResolvedRun> = resolved.into_iter().flatten().collect();
+
+    // Vectorised velocity and Reynolds number (polars), then friction per run.
+    let records: Vec<table::RunRecord<'_>> = pipes
+        .iter()
+        .zip(&resolved)
+        .map(|(p, r)| table::RunRecord { line: &p.line, sheet: &p.origin.sheet, row: p.origin.row, inner_diameter_m: r.d_m, length_m: p.length_m })
+        .collect();
+    let line_records: Vec<table::LineRecord<'_>> = line_order
+        .iter()
+        .map(|l| {
+            let s = &states[l];
+            table::LineRecord { line: l, flow_m3_s: s.flow_m3_s, density_kg_m3: s.props.density_kg_m3, viscosity_pa_s: s.props.viscosity_pa_s }
+        })
+        .collect();
+    let internal = |e: polars::error::PolarsError| vec![Diagnostic { severity: Severity::Error, file: input.file.clone(), cell: None, message: format!("internal table error: {e}"), hint: None }];
+    let runs_df = table::runs_frame(&records).and_then(|r| table::lines_frame(&line_records).and_then(|l| table::run_hydraulics(&r, &l))).map_err(internal)?;
+    let velocity: Vec<f64> = runs_df.column(table::col::VELOCITY).and_then(|c| c.f64().map(|c| c.iter().map(|v| v.unwrap_or(0.0)).collect())).map_err(internal)?;
+    let reynolds: Vec<f64> = runs_df.column(table::col::REYNOLDS).and_then(|c| c.f64().map(|c| c.iter().map(|v| v.unwrap_or(0.0)).collect())).map_err(internal)?;
+
+    let mut runs = Vec::with_capacity(pipes.len());
+    for (i, (p, r)) in pipes.iter().zip(&resolved).enumerate() {
+        let s = &states[&p.line];
+        let (v, re) = (velocity[i], reynolds[i]);
+        let (factor, regime, method, head) = match p.c_factor {
+            Some(c) => (0.0, friction::darcy_friction(re, r.eps_m / r.d_m).regime, "Hazen–Williams", friction::hazen_williams_head(p.length_m, s.flow_m3_s, c, r.d_m)),
+            None => {
+                let f = friction::darcy_friction(re, r.eps_m / r.d_m);
+                (f.factor, f.regime, "Darcy–Weisbach with Colebrook–White", friction::darcy_weisbach_head(f.factor, p.length_m, r.d_m, v))
+            }
+        };
+        runs.push(RunResult {
+            cell: ctx.cell(TableKind::Pipes, &p.origin.sheet, p.origin.row, "line"),
+            line: p.line.clone(),
+            row: p.origin.row,
+            dn: r.dn,
+            bore_basis: r.basis.clone(),
+            inner_diameter_m: r.d_m,
+            length_m: p.length_m,
+            roughness_m: r.eps_m,
+            roughness_basis: r.eps_basis.clone(),
+            flow_m3_s: s.flow_m3_s,
+            velocity_m_s: v,
+            reynolds: re,
+            friction_factor: factor,
+            regime,
+            method,
+            head_m: head,
+            dp_pa: head * s.props.density_kg_m3 * G,
+        });
+    }
+
+    // Fittings on the run of their line with the same size.
+    let mut fittings = Vec::new();
+    let mut kinds_used: Vec<&'static str> = Vec::new();
+    let mut mismatches = Vec::new();
+    let mut closed = Vec::new();
+    for f in &input.fittings {
+        let Some(state) = states.get(&f.line) else { continue };
+        let line_runs: Vec<usize> = (0..runs.len()).filter(|&i| pipes[i].line == f.line).collect();
+        let Some(&first) = line_runs.first() else { continue };
+        let key = f.size.as_ref().and_then(size_key);
+        let matched = match key {
+            Some(k) => line_runs.iter().copied().find(|&i| resolved[i].key == Some(k)),
+            None => {
+                let distinct = line_runs.iter().filter(|&&i| resolved[i].key != resolved[first].key).count();
+                (distinct == 0).then_some(first)
+            }
+        };
+        let run = match matched {
+            Some(i) => i,
+            None => {
+                mismatches.push((f, first));
+                first
+            }
+        };
+        let r = &resolved[run];
+        let d_in = match (matched, key) {
+            (None, Some(k)) => bore_of_key(k, &pipes[run], r).unwrap_or(r.d_m),
+            _ => r.d_m,
+        };
+        let d_out = f.size_out.as_ref().and_then(size_key).map(|k| {
+            line_runs.iter().find(|&&i| resolved[i].key == Some(k)).map(|&i| resolved[i].d_m).or_else(|| bore_of_key(k, &pipes[run], r))
+        });
+        let d_out = match d_out {
+            Some(Some(d)) => Some(d),
+            Some(None) => {
+                let cell = ctx.cell(TableKind::Fittings, &f.origin.sheet, f.origin.row, "size_out");
+                ctx.error(cell, "the outlet size has no bore on this line and none can be looked up".into(), Some("list a run of that size on the line, or write the outlet as ID in mm".into()));
+                continue;
+            }
+            None => None,
+        };
+        let area = |d: f64| std::f64::consts::PI * d * d / 4.0;
+        let v_in = state.flow_m3_s / area(d_in);
+        let re_in = state.props.density_kg_m3 * v_in * d_in / state.props.viscosity_pa_s;
+        let nps_in = match (matched, key) {
+            (None, Some(SizeKey::Dn(dn))) => pipe::dn_to_nps(dn),
+            _ => r.nps,
+        };
+        let fin = FittingInput {
+            nps_in,
+            d_in_m: d_in,
+            d_out_m: d_out,
+            re_in,
+            relative_roughness: r.eps_m / d_in,
+            opening: f.opening,
+            k_given: f.k,
+            kv_given: f.kv,
+            cv_given: f.cv,
+            le_d: f.le_d,
+            bend_radius_d: f.bend_radius_d,
+            angle_deg: f.angle_deg,
+            fouling: f.fouling,
+            beta: f.beta,
+            ..FittingInput::default()
+        };
+        match fitting::evaluate(f.kind, &fin) {
+            Ok(k) => {
+                let v = state.flow_m3_s / area(k.reference_diameter_m);
+                let re = state.props.density_kg_m3 * v * k.reference_diameter_m / state.props.viscosity_pa_s;
+                let dyn_head = v * v / (2.0 * G);
+                if !kinds_used.contains(&f.kind.id) {
+                    kinds_used.push(f.kind.id);
+                }
+                fittings.push(FittingResult {
+                    tag: f.tag.clone(),
+                    line: f.line.clone(),
+                    item: f.item.clone(),
+                    kind: f.kind.id,
+                    cell: ctx.cell(TableKind::Fittings, &f.origin.sheet, f.origin.row, "item"),
+                    row: f.origin.row,
+                    qty: f.qty,
+                    k: k.k,
+                    k_low: k.k_low,
+                    k_high: k.k_high,
+                    reference_diameter_m: k.reference_diameter_m,
+                    velocity_m_s: v,
+                    reynolds: re,
+                    head_m: k.k * dyn_head * f.qty,
+                    head_low_m: k.k_low * dyn_head * f.qty,
+                    head_high_m: k.k_high * dyn_head * f.qty,
+                    dp_pa: k.k * dyn_head * f.qty * state.props.density_kg_m3 * G,
+                    model: k.model,
+                    source: k.source,
+                    opening: f.opening,
+                    replacement_cost: f.replacement_cost,
+                });
+            }
+            Err(fitting::FittingError::Closed { .. }) => closed.push(f),
+            Err(e) => {
+                let cell = ctx.cell(TableKind::Fittings, &f.origin.sheet, f.origin.row, "item");
+                ctx.error(cell, format!("{}: {e}", f.item), None);
+            }
+        }
+    }
+    if !ctx.errors.is_empty() {
+        return Err(ctx.errors);
+    }
+
+    // Line totals by polars group-by and join.
+    let fit_df = table::heads_frame(
+        fittings.iter().map(|f| f.line.as_str()).collect(),
+        fittings.iter().map(|f| f.head_m).collect(),
+        fittings.iter().map(|f| f.head_low_m).collect(),
+        fittings.iter().map(|f| f.head_high_m).collect(),
+    );
+    let run_heads: Vec<f64> = runs.iter().map(|r| r.head_m).collect();
+    let totals = fit_df
+        .and_then(|fit| {
+            let mut df = runs_df.clone();
+            df.with_column(polars::prelude::Column::new(table::col::HEAD.into(), run_heads))?;
+            table::line_totals(&df, &fit)
+        })
+        .map_err(internal)?;
+    let totals: HashMap<String, table::LineTotals> = totals.into_iter().collect();
+
+    let mut lines = Vec::with_capacity(line_order.len());
+    for l in &line_order {
+        let s = &states[l];
+        let t = totals.get(l).cloned().unwrap_or_default();
+        let total = t.friction_head_m + t.fittings_head_m;
+        lines.push(LineResult {
+            line: l.clone(),
+            service: s.service,
+            row: s.row,
+            flow_m3_s: s.flow_m3_s,
+            fluid: s.fluid.clone(),
+            temperature_c: s.temperature_c,
+            density_kg_m3: s.props.density_kg_m3,
+            viscosity_pa_s: s.props.viscosity_pa_s,
+            vapour_pressure_pa: s.props.vapour_pressure_pa.is_finite().then_some(s.props.vapour_pressure_pa),
+            elevation_change_m: s.elevation_change_m,
+            length_m: t.length_m,
+            friction_head_m: t.friction_head_m,
+            fittings_head_m: t.fittings_head_m,
+            total_head_m: total,
+            total_head_low_m: t.friction_head_m + t.fittings_head_low_m,
+            total_head_high_m: t.friction_head_m + t.fittings_head_high_m,
+            total_dp_pa: total * s.props.density_kg_m3 * G,
+            max_velocity_m_s: t.max_velocity_m_s,
+            runs: (0..runs.len()).filter(|&i| runs[i].line == *l).collect(),
+        });
+    }
+    kinds_used.sort_unstable();
+
+    let mut audit = Audit { lines, runs, fittings, findings: Vec::new(), fluids: fluids_used, kinds_used, rules: rules.clone(), notes: Vec::new() };
+    for (f, run) in mismatches {
+        super::findings::size_mismatch(input, &mut audit, f, run);
+    }
+    for f in closed {
+        super::findings::closed_valve(input, &mut audit, f);
+    }
+    Ok(audit)
+}
+
+/// Bore of a size written on a fitting that matches no run: looked up with the run's material and schedule.
+fn bore_of_key(key: SizeKey, p: &PipeRow, r: &ResolvedRun) -> Option<f64> {
+    match key {
+        SizeKey::Dn(dn) => pipe::bore(p.material, dn, p.schedule).ok().map(|b| b.inner_diameter_m),
+        SizeKey::Od(od) => pipe::bore_from_od(p.material, od as f64 * 1e-4, p.schedule).ok().map(|b| b.inner_diameter_m),
+        SizeKey::Bore(b) => Some(b as f64 * 1e-4).filter(|d| *d > 0.0 && r.d_m > 0.0),
+    }
+}
+
+/// A fitting row's description for messages: tag, else item.
+pub fn fitting_label(f: &FittingRow) -> String {
+    if f.tag.is_empty() { f.item.clone() } else { format!("{} ({})", f.tag, f.item) }
+}
+
+/// Whether a regime is the transition band.
+pub fn is_transition(r: Regime) -> bool {
+    r == Regime::Transition
+}

@@ -1,0 +1,134 @@
+//! The built-in demo: a fictional pumping station of our own invention, written as an input
+//! workbook and then audited like any other input.
+//!
+//! Kestrel Ridge booster station does not exist; its tags, flows and lengths are invented to show
+//! a realistic mix: two pump sets of different sizes, an expansion after a pump, a part-open valve
+//! with a datasheet K, a formula cell, and one suction line above its velocity limit.
+
+use rust_xlsxwriter::{DocProperties, ExcelDateTime, Format, Formula, Workbook, Worksheet, XlsxError};
+use std::path::Path;
+
+use crate::audit::Rules;
+
+const NOTE: &str = "INVENTED DATA for demonstration: Kestrel Ridge booster station is fictional.";
+
+enum C {
+    S(&'static str),
+    N(f64),
+    F(&'static str, f64),
+    E,
+}
+
+fn sheet(ws: &mut Worksheet, name: &str, title: &str, headers: &[&str], rows: &[Vec<C>]) -> Result<(), XlsxError> {
+    ws.set_name(name)?;
+    let bold = Format::new().set_bold();
+    ws.write_string_with_format(0, 0, title, &bold)?;
+    ws.write_string(1, 0, NOTE)?;
+    for (c, h) in headers.iter().enumerate() {
+        ws.write_string_with_format(3, c as u16, *h, &bold)?;
+        ws.set_column_width(c as u16, 16)?;
+    }
+    for (r, row) in rows.iter().enumerate() {
+        let r = r as u32 + 4;
+        for (c, v) in row.iter().enumerate() {
+            let c = c as u16;
+            match v {
+                C::S(s) => ws.write_string(r, c, *s).map(|_| ())?,
+                C::N(x) => ws.write_number(r, c, *x).map(|_| ())?,
+                C::F(f, cached) => ws.write_formula(r, c, Formula::new(*f).set_result(cached.to_string())).map(|_| ())?,
+                C::E => {}
+            }
+        }
+    }
+    Ok(())
+}
+
+/// Build the demo input workbook.
+pub fn input_workbook() -> Result<Vec<u8>, XlsxError> {
+    use C::*;
+    let mut wb = Workbook::new();
+    wb.set_properties(&DocProperties::new().set_creation_datetime(&ExcelDateTime::from_ymd(2000, 1, 1)?).set_title("Kestrel Ridge booster station (fictional)"));
+    sheet(
+        wb.add_worksheet(),
+        "Lines",
+        "Kestrel Ridge booster station — line list",
+        &["Line", "Service", "Flow [m3/h]", "Temperature [°C]", "From", "To", "Hours per year", "System"],
+        &[
+            vec![S("KR-S1"), S("pump-suction"), N(180.0), N(12.0), S("Wet well A"), S("Pump P-101"), N(6000.0), S("Duty A")],
+            vec![S("KR-D1"), S("pump-discharge"), N(180.0), N(12.0), S("Pump P-101"), S("Header H-1"), N(6000.0), S("Duty A")],
+            vec![S("KR-S2"), S("pump-suction"), N(65.0), N(12.0), S("Wet well B"), S("Pump P-102"), N(2500.0), S("Duty B")],
+            vec![S("KR-D2"), S("pump-discharge"), N(65.0), N(12.0), S("Pump P-102"), S("Header H-1"), N(2500.0), S("Duty B")],
+            vec![S("KR-M1"), S("distribution"), N(245.0), N(12.0), S("Header H-1"), S("Reservoir R-7"), N(6000.0), E],
+        ],
+    )?;
+    sheet(
+        wb.add_worksheet(),
+        "Pipes",
+        "Kestrel Ridge booster station — pipe takeoff",
+        &["Line", "Seq", "Size", "Schedule", "Material", "Length [m]", "Inner diameter [mm]", "Remarks"],
+        &[
+            vec![S("KR-S1"), N(1.0), S("DN200"), S("40"), S("carbon steel"), N(8.5), E, S("wet well to pump")],
+            vec![S("KR-D1"), N(1.0), S("DN150"), S("40"), S("carbon steel"), N(4.0), E, S("pump to expansion")],
+            vec![S("KR-D1"), N(2.0), S("DN200"), S("40"), S("carbon steel"), F("=2*18.5", 37.0), E, S("length from two 18.5 m spools")],
+            vec![S("KR-S2"), N(1.0), S("NPS 4"), S("40"), S("carbon steel"), N(6.0), E, S("undersized suction")],
+            vec![S("KR-D2"), N(1.0), S("4\""), S("40"), S("carbon steel"), N(22.0), E, E],
+            vec![S("KR-M1"), N(1.0), S("DN300"), E, S("ductile iron"), N(1450.0), N(308.0), S("cement-lined, bore from as-built record")],
+        ],
+    )?;
+    sheet(
+        wb.add_worksheet(),
+        "Fittings",
+        "Kestrel Ridge booster station — fitting and valve schedule",
+        &["Tag", "Line", "Item", "Size", "Size out", "Qty", "Opening [%]", "K", "Remarks"],
+        &[
+            vec![S("KR-S1-EN"), S("KR-S1"), S("entrance-sharp"), S("DN200"), E, N(1.0), E, E, S("bellmouth missing")],
+            vec![S("KR-S1-V1"), S("KR-S1"), S("valve-gate"), S("DN200"), E, N(1.0), E, E, E],
+            vec![S("KR-S1-ST"), S("KR-S1"), S("strainer-y"), S("DN200"), E, N(1.0), E, E, E],
+            vec![S("KR-S1-E1"), S("KR-S1"), S("elbow-90"), S("DN200"), E, N(2.0), E, E, E],
+            vec![S("KR-D1-NR"), S("KR-D1"), S("check-swing"), S("DN150"), E, N(1.0), E, E, E],
+            vec![S("KR-D1-X1"), S("KR-D1"), S("expansion"), S("DN150"), S("DN200"), N(1.0), E, E, S("concentric, abrupt")],
+            vec![S("KR-D1-E1"), S("KR-D1"), S("elbow-90-long"), S("DN200"), E, N(3.0), E, E, E],
+            vec![S("KR-D1-CV"), S("KR-D1"), S("valve-globe"), S("DN200"), E, N(1.0), N(40.0), N(22.0), S("flow control, K from datasheet at 40 % open")],
+            vec![S("KR-S2-EN"), S("KR-S2"), S("entrance-projecting"), S("NPS 4"), E, N(1.0), E, E, E],
+            vec![S("KR-S2-E1"), S("KR-S2"), S("elbow-90"), S("NPS 4"), E, N(1.0), E, E, E],
+            vec![S("KR-D2-NR"), S("KR-D2"), S("check-swing"), S("4\""), E, N(1.0), E, E, E],
+            vec![S("KR-D2-BV"), S("KR-D2"), S("valve-butterfly"), S("4\""), E, N(1.0), E, E, E],
+            vec![S("KR-D2-T1"), S("KR-D2"), S("tee-branch"), S("4\""), E, N(1.0), E, E, S("into header")],
+            vec![S("KR-M1-V1"), S("KR-M1"), S("valve-butterfly"), S("DN300"), E, N(2.0), E, E, E],
+            vec![S("KR-M1-E1"), S("KR-M1"), S("elbow-45"), S("DN300"), E, N(6.0), E, E, E],
+            vec![S("KR-M1-EX"), S("KR-M1"), S("exit"), S("DN300"), E, N(1.0), E, E, S("into reservoir")],
+        ],
+    )?;
+    wb.save_to_buffer()
+}
+
+/// `lossledger demo`: write the demo input and its audit into `dir`, print the summary.
+pub fn run(dir: &Path) -> u8 {
+    if let Err(e) = std::fs::create_dir_all(dir) {
+        eprintln!("error: {}: {e}", dir.display());
+        return 2;
+    }
+    let input = dir.join("kestrel-ridge.xlsx");
+    let bytes = match input_workbook() {
+        Ok(b) => b,
+        Err(e) => {
+            eprintln!("internal error: building the demo workbook failed: {e}");
+            return 3;
+        }
+    };
+    if let Err(e) = crate::report::write_atomic(&input, &bytes) {
+        eprintln!("error: {e}");
+        return 2;
+    }
+    let out = crate::report::default_output(&input);
+    let json = dir.join("kestrel-ridge.audit.json");
+    match crate::cli::audit_to_files(&input, &out, json.to_str(), &Rules::default()) {
+        Ok(audit) => {
+            println!("{NOTE}");
+            print!("{}", crate::report::console::summary(&audit));
+            println!("Wrote {}, {} and {}", input.display(), out.display(), json.display());
+            0
+        }
+        Err(code) => code,
+    }
+}

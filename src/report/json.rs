@@ -1,0 +1,59 @@
+//! The JSON contract: SI field names, stable.
+
+use serde::Serialize;
+
+use crate::audit::{Audit, FittingResult, Finding, LineResult, RunResult};
+use crate::ingest::Input;
+
+/// Top-level JSON document.
+#[derive(Serialize)]
+pub struct Document<'a> {
+    /// Tool version.
+    pub lossledger: &'static str,
+    /// Input file and hash.
+    pub input: InputRef<'a>,
+    /// Lines with their runs.
+    pub lines: Vec<JsonLine<'a>>,
+    /// Fittings.
+    pub fittings: &'a [FittingResult],
+    /// Findings.
+    pub findings: &'a [Finding],
+    /// The caution that applies to every figure.
+    pub caution: &'static str,
+}
+
+/// Input identification.
+#[derive(Serialize)]
+pub struct InputRef<'a> {
+    /// File name as given.
+    pub file: &'a str,
+    /// SHA-256, hex.
+    pub sha256: &'a str,
+}
+
+/// A line with its runs.
+#[derive(Serialize)]
+pub struct JsonLine<'a> {
+    /// Line fields.
+    #[serde(flatten)]
+    pub line: &'a LineResult,
+    /// Runs of the line.
+    pub runs: Vec<&'a RunResult>,
+}
+
+/// Build the JSON document.
+pub fn document<'a>(input: &'a Input, audit: &'a Audit) -> Document<'a> {
+    Document {
+        lossledger: env!("CARGO_PKG_VERSION"),
+        input: InputRef { file: &input.file, sha256: &input.sha256 },
+        lines: audit.lines.iter().map(|l| JsonLine { line: l, runs: l.runs.iter().map(|&i| &audit.runs[i]).collect() }).collect(),
+        fittings: &audit.fittings,
+        findings: &audit.findings,
+        caution: super::CAUTION,
+    }
+}
+
+/// Serialise to pretty JSON.
+pub fn to_string(input: &Input, audit: &Audit) -> serde_json::Result<String> {
+    serde_json::to_string_pretty(&document(input, audit))
+}

@@ -1,0 +1,470 @@
+//! The annotated workbook: Summary, Findings, every input sheet kept cell for cell with computed
+//! columns appended, and Basis.
+
+use calamine::Data;
+use rust_xlsxwriter::{
+    Color, DocProperties, ExcelDateTime, Format, FormatAlign, FormatBorder, Formula, Note, Table, TableColumn, Workbook,
+    Worksheet, XlsxError,
+};
+use std::collections::{BTreeMap, HashSet};
+
+use crate::audit::Audit;
+use crate::error::{Severity, quote_sheet};
+use crate::ingest::{Input, SheetGrid, TableKind};
+use crate::physics::fitting;
+
+/// Palette of our own: deep slate for computed headers, soft tints for severities.
+struct Styles {
+    title: Format,
+    bold: Format,
+    computed_header: Format,
+    number: Format,
+    number3: Format,
+    wrap: Format,
+    severity: [Format; 3],
+    assumed: Format,
+    link: Format,
+    date: Format,
+}
+
+impl Styles {
+    fn new() -> Self {
+        let sev = |c: u32| Format::new().set_background_color(Color::RGB(c)).set_border(FormatBorder::Thin).set_border_color(Color::RGB(0x7A7A7A));
+        Styles {
+            title: Format::new().set_bold().set_font_size(14),
+            bold: Format::new().set_bold(),
+            computed_header: Format::new()
+                .set_bold()
+                .set_font_color(Color::RGB(0xFFFFFF))
+                .set_background_color(Color::RGB(0x34495E))
+                .set_text_wrap()
+                .set_align(FormatAlign::Center),
+            number: Format::new().set_num_format("0.00"),
+            number3: Format::new().set_num_format("0.000"),
+            wrap: Format::new().set_text_wrap().set_align(FormatAlign::Top),
+            severity: [sev(0xDCE8F0), sev(0xF7E1A1), sev(0xEFB1AB)],
+            assumed: Format::new().set_italic().set_background_color(Color::RGB(0xEDEDED)).set_font_color(Color::RGB(0x555555)),
+            link: Format::new().set_font_color(Color::RGB(0x1F4E79)).set_underline(rust_xlsxwriter::FormatUnderline::Single),
+            date: Format::new().set_num_format("yyyy-mm-dd hh:mm"),
+        }
+    }
+
+    fn severity(&self, s: Severity) -> &Format {
+        &self.severity[s as usize]
+    }
+}
+
+/// Marks on input cells: worst severity and the note text.
+#[derive(Default)]
+struct Mark {
+    severity: Option<Severity>,
+    assumed: bool,
+    note: Vec<String>,
+}
+
+fn unique_name(wanted: &str, taken: &HashSet<String>) -> String {
+    if !taken.contains(&wanted.to_lowercase()) {
+        return wanted.to_string();
+    }
+    (2..).map(|i| format!("{wanted} ({i})")).find(|n| !taken.contains(&n.to_lowercase())).unwrap_or_default()
+}
+
+/// Build the annotated workbook in memory and return its bytes.
+pub fn build(input: &Input, audit: &Audit) -> Result<Vec<u8>, XlsxError> {
+    let mut wb = Workbook::new();
+    // Fixed creation time: the same input gives a byte-identical workbook.
+    let created = ExcelDateTime::from_ymd(2000, 1, 1)?;
+    wb.set_properties(&DocProperties::new().set_creation_datetime(&created).set_title("lossledger audit").set_comment("Screening estimate; see the Basis sheet"));
+    let st = Styles::new();
+    let taken: HashSet<String> = input.sheets.iter().map(|s| s.name.to_lowercase()).collect();
+    let summary_name = unique_name("Summary", &taken);
+    let findings_name = unique_name("Findings", &taken);
+    let basis_name = unique_name("Basis", &taken);
+
+    let ws = wb.add_worksheet();
+    ws.set_name(&summary_name)?;
+    write_summary(ws, input, audit, &st)?;
+
+    let ws = wb.add_worksheet();
+    ws.set_name(&findings_name)?;
+    write_findings(ws, audit, &st)?;
+
+    let marks = collect_marks(input, audit);
+    for (i, sheet) in input.sheets.iter().enumerate() {
+        let ws = wb.add_worksheet();
+        ws.set_name(&sheet.name)?;
+        copy_sheet(ws, sheet, marks.get(&sheet.name), &st)?;
+        if sheet.hidden {
+            ws.set_hidden(true);
+        }
+        for layout in input.layouts.iter().filter(|l| l.sheet_index == i) {
+            append_computed(ws, input, audit, layout.table, &st)?;
+        }
+    }
+
+    let ws = wb.add_worksheet();
+    ws.set_name(&basis_name)?;
+    write_basis(ws, input, audit, &st)?;
+    wb.save_to_buffer()
+}
+
+fn collect_marks(input: &Input, audit: &Audit) -> BTreeMap<String, BTreeMap<(u32, u32), Mark>> {
+    let mut marks: BTreeMap<String, BTreeMap<(u32, u32), Mark>> = BTreeMap::new();
+    for f in &audit.findings {
+        let Some(cell) = &f.cell else { continue };
+        let m = marks.entry(cell.sheet.clone()).or_default().entry((cell.row, cell.col)).or_default();
+        m.severity = m.severity.max(Some(f.severity));
+        m.note.push(format!("{} [{}]: {}", f.severity, f.code, f.message));
+    }
+    let assumed = input
+        .lines
+        .iter()
+        .flat_map(|l| &l.assumed)
+        .chain(input.pipes.iter().flat_map(|p| &p.assumed))
+        .chain(input.fittings.iter().flat_map(|f| &f.assumed));
+    for a in assumed {
+        let has_col = input.layouts.iter().any(|l| l.sheet == a.cell.sheet && l.columns.iter().any(|c| c.col == a.cell.col && c.spec.key == a.key));
+        if !has_col {
+            continue;
+        }
+        let m = marks.entry(a.cell.sheet.clone()).or_default().entry((a.cell.row, a.cell.col)).or_default();
+        m.assumed = true;
+        m.note.push(format!("assumed: {}", a.what));
+    }
+    marks
+}
+
+fn data_result(d: &Data) -> String {
+    match d {
+        Data::Int(i) => i.to_string(),
+        Data::Float(f) => f.to_string(),
+        Data::String(s) => s.clone(),
+        Data::Bool(b) => if *b { "TRUE".into() } else { "FALSE".into() },
+        Data::DateTime(dt) => dt.as_f64().to_string(),
+        Data::DateTimeIso(s) | Data::DurationIso(s) => s.clone(),
+        Data::Error(e) => e.to_string(),
+        Data::Empty => String::new(),
+    }
+}
+
+/// Copy every cell: values by type, formulas as formulas with their cached result, strings always
+/// as strings (a text starting with `=` stays text), merged ranges, marks as fill and note.
+fn copy_sheet(ws: &mut Worksheet, sheet: &SheetGrid, marks: Option<&BTreeMap<(u32, u32), Mark>>, st: &Styles) -> Result<(), XlsxError> {
+    let empty = BTreeMap::new();
+    let marks = marks.unwrap_or(&empty);
+    let fmt_of = |pos: &(u32, u32)| -> Option<&Format> {
+        marks.get(pos).map(|m| match m.severity {
+            Some(s) => st.severity(s),
+            None => &st.assumed,
+        })
+    };
+    for m in &sheet.merged {
+        let (r0, c0, r1, c1) = (m.start.0, m.start.1 as u16, m.end.0, m.end.1 as u16);
+        if (r0, c0) != (r1, c1) {
+            ws.merge_range(r0, c0, r1, c1, "", &Format::new())?;
+        }
+    }
+    let mut written: HashSet<(u32, u32)> = HashSet::new();
+    if let Some((r0, c0)) = sheet.formulas.start() {
+        for (r, c, f) in sheet.formulas.cells() {
+            if f.is_empty() {
+                continue;
+            }
+            let (row, col) = (r0 + r as u32, c0 + c as u32);
+            let cached = data_result(sheet.value(row, col));
+            let formula = Formula::new(f.as_str()).set_result(cached);
+            match fmt_of(&(row, col)) {
+                Some(fmt) => ws.write_formula_with_format(row, col as u16, formula, fmt)?,
+                None => ws.write_formula(row, col as u16, formula)?,
+            };
+            written.insert((row, col));
+        }
+    }
+    if let Some((r0, c0)) = sheet.values.start() {
+        for (r, c, d) in sheet.values.used_cells() {
+            let (row, col) = (r0 + r as u32, c0 + c as u32);
+            if written.contains(&(row, col)) {
+                continue;
+            }
+            let c16 = col as u16;
+            let fmt = fmt_of(&(row, col));
+            let plain = Format::new();
+            let f = fmt.unwrap_or(&plain);
+            match d {
+                Data::Int(i) => ws.write_number_with_format(row, c16, *i as f64, f)?,
+                Data::Float(x) => ws.write_number_with_format(row, c16, *x, f)?,
+                Data::String(s) => ws.write_string_with_format(row, c16, s, f)?,
+                Data::Bool(b) => ws.write_boolean_with_format(row, c16, *b, f)?,
+                Data::DateTime(dt) => ws.write_number_with_format(row, c16, dt.as_f64(), fmt.unwrap_or(&st.date))?,
+                Data::DateTimeIso(s) | Data::DurationIso(s) => ws.write_string_with_format(row, c16, s, f)?,
+                Data::Error(e) => ws.write_formula_with_format(row, c16, Formula::new(error_formula(e)).set_result(e.to_string()), f)?,
+                Data::Empty => continue,
+            };
+            written.insert((row, col));
+        }
+    }
+    for (&(row, col), m) in marks {
+        if !written.contains(&(row, col)) {
+            ws.write_blank(row, col as u16, fmt_of(&(row, col)).unwrap_or(&st.assumed))?;
+        }
+        let text: String = m.note.join("\n");
+        ws.insert_note(row, col as u16, &Note::new(truncate(&text, 2000)).set_author("lossledger").add_author_prefix(false))?;
+    }
+    Ok(())
+}
+
+/// A formula that evaluates to an error value, for error cells that had no formula of their own.
+fn error_formula(e: &calamine::CellErrorType) -> &'static str {
+    use calamine::CellErrorType::*;
+    match e {
+        Div0 => "1/0",
+        NA => "NA()",
+        Name => "_xlfn.NONEXISTENT()",
+        Null => "A1 A2",
+        Num => "SQRT(-1)",
+        Ref => "#REF!",
+        Value => "\"a\"+1",
+        GettingData => "NA()",
+    }
+}
+
+fn truncate(s: &str, max: usize) -> String {
+    if s.chars().count() <= max { s.to_string() } else { s.chars().take(max - 1).chain(['…']).collect() }
+}
+
+/// One computed column: header and a value per source row.
+struct Computed {
+    header: &'static str,
+    values: Vec<(u32, Value)>,
+}
+
+enum Value {
+    Num(f64, bool),
+    Text(String),
+}
+
+fn append_computed(ws: &mut Worksheet, input: &Input, audit: &Audit, table: TableKind, st: &Styles) -> Result<(), XlsxError> {
+    let Some(layout) = input.layout(table) else { return Ok(()) };
+    let grid = &input.sheets[layout.sheet_index];
+    let first = grid.end_col() + 1;
+    let num = |v: f64| Value::Num(v, false);
+    let num3 = |v: f64| Value::Num(v, true);
+    let cols: Vec<Computed> = match table {
+        TableKind::Pipes => {
+            let runs: Vec<_> = audit.runs.iter().filter(|r| r.cell.sheet == layout.sheet).collect();
+            let c = |header, f: &dyn Fn(&crate::audit::RunResult) -> Value| Computed { header, values: runs.iter().map(|r| (r.row, f(r))).collect() };
+            vec![
+                c("Bore [mm]", &|r| num(r.inner_diameter_m * 1e3)),
+                c("Bore from", &|r| Value::Text(r.bore_basis.clone())),
+                c("Roughness [mm]", &|r| num3(r.roughness_m * 1e3)),
+                c("Velocity [m/s]", &|r| num(r.velocity_m_s)),
+                c("Reynolds", &|r| Value::Num(r.reynolds.round(), false)),
+                c("Friction factor", &|r| Value::Num(r.friction_factor, true)),
+                c("Regime", &|r| Value::Text(format!("{:?}", r.regime).to_lowercase())),
+                c("Friction head [m]", &|r| num3(r.head_m)),
+                c("Friction loss [kPa]", &|r| num3(r.dp_pa / 1e3)),
+                c("Gradient [m/100 m]", &|r| num(r.head_m / r.length_m * 100.0)),
+            ]
+        }
+        TableKind::Fittings => {
+            let fs: Vec<_> = audit.fittings.iter().filter(|f| f.cell.sheet == layout.sheet).collect();
+            let c = |header, f: &dyn Fn(&crate::audit::FittingResult) -> Value| Computed { header, values: fs.iter().map(|x| (x.row, f(x))).collect() };
+            vec![
+                c("Kind", &|f| Value::Text(f.kind.to_string())),
+                c("Model", &|f| Value::Text(f.model.to_string())),
+                c("K", &|f| num3(f.k)),
+                c("K low", &|f| num3(f.k_low)),
+                c("K high", &|f| num3(f.k_high)),
+                c("K refers to bore [mm]", &|f| num(f.reference_diameter_m * 1e3)),
+                c("Velocity [m/s]", &|f| num(f.velocity_m_s)),
+                c("Head [m]", &|f| num3(f.head_m)),
+                c("Head low [m]", &|f| num3(f.head_low_m)),
+                c("Head high [m]", &|f| num3(f.head_high_m)),
+                c("Loss [kPa]", &|f| num3(f.dp_pa / 1e3)),
+                c("Source", &|f| Value::Text(f.source.to_string())),
+            ]
+        }
+        TableKind::Lines => {
+            let ls: Vec<_> = audit.lines.iter().filter_map(|l| l.row.map(|r| (r, l))).collect();
+            let c = |header, f: &dyn Fn(&crate::audit::LineResult) -> Value| Computed { header, values: ls.iter().map(|(r, l)| (*r, f(l))).collect() };
+            vec![
+                c("Length [m]", &|l| num(l.length_m)),
+                c("Friction head [m]", &|l| num3(l.friction_head_m)),
+                c("Fittings head [m]", &|l| num3(l.fittings_head_m)),
+                c("Total head [m]", &|l| num3(l.total_head_m)),
+                c("Total low [m]", &|l| num3(l.total_head_low_m)),
+                c("Total high [m]", &|l| num3(l.total_head_high_m)),
+                c("Total loss [kPa]", &|l| num3(l.total_dp_pa / 1e3)),
+                c("Max velocity [m/s]", &|l| num(l.max_velocity_m_s)),
+                c("Density [kg/m3]", &|l| num(l.density_kg_m3)),
+            ]
+        }
+        TableKind::Systems | TableKind::Fluids => Vec::new(),
+    };
+    for (i, c) in cols.iter().enumerate() {
+        let col = (first + i as u32) as u16;
+        ws.write_string_with_format(layout.header_row, col, c.header, &st.computed_header)?;
+        ws.set_column_width(col, 13)?;
+        for (row, v) in &c.values {
+            match v {
+                Value::Num(x, three) if x.is_finite() => {
+                    ws.write_number_with_format(*row, col, *x, if *three { &st.number3 } else { &st.number })?;
+                }
+                Value::Num(..) => {}
+                Value::Text(t) => {
+                    ws.write_string(*row, col, t)?;
+                }
+            }
+        }
+    }
+    Ok(())
+}
+
+fn write_summary(ws: &mut Worksheet, input: &Input, audit: &Audit, st: &Styles) -> Result<(), XlsxError> {
+    ws.write_string_with_format(0, 0, "lossledger audit: friction and fitting losses", &st.title)?;
+    ws.write_string(1, 0, format!("Input: {}  (SHA-256 {})", input.file, input.sha256))?;
+    ws.merge_range(2, 0, 4, 8, super::CAUTION, &st.wrap)?;
+    ws.set_row_height(2, 30)?;
+    let total: f64 = audit.lines.iter().map(|l| l.total_head_m).sum();
+    let mut r = 6;
+    for (label, value) in [
+        ("Lines audited", audit.lines.len().to_string()),
+        ("Pipe runs", audit.runs.len().to_string()),
+        ("Fittings", audit.fittings.len().to_string()),
+        ("Sum of line losses [m]", format!("{total:.3}")),
+        ("Findings (error / warning / info)", format!("{} / {} / {}", audit.count(Severity::Error), audit.count(Severity::Warning), audit.count(Severity::Info))),
+    ] {
+        ws.write_string_with_format(r, 0, label, &st.bold)?;
+        ws.write_string(r, 2, value)?;
+        r += 1;
+    }
+    r += 1;
+    let headers = ["Line", "Service", "Flow [m3/h]", "Length [m]", "Friction head [m]", "Fittings head [m]", "Total head [m]", "Total low [m]", "Total high [m]", "Total loss [kPa]", "Max velocity [m/s]"];
+    for (c, h) in headers.iter().enumerate() {
+        ws.write_string_with_format(r, c as u16, *h, &st.computed_header)?;
+    }
+    for l in &audit.lines {
+        r += 1;
+        ws.write_string(r, 0, &l.line)?;
+        ws.write_string(r, 1, l.service.id())?;
+        for (c, v) in [l.flow_m3_s * 3600.0, l.length_m, l.friction_head_m, l.fittings_head_m, l.total_head_m, l.total_head_low_m, l.total_head_high_m, l.total_dp_pa / 1e3, l.max_velocity_m_s].into_iter().enumerate() {
+            ws.write_number_with_format(r, c as u16 + 2, v, &st.number3)?;
+        }
+    }
+    ws.set_column_width(0, 18)?;
+    for c in 1..headers.len() as u16 {
+        ws.set_column_width(c, 13)?;
+    }
+    Ok(())
+}
+
+fn write_findings(ws: &mut Worksheet, audit: &Audit, st: &Styles) -> Result<(), XlsxError> {
+    let headers = ["Severity", "Code", "Line", "Tag", "Cell", "Message", "Action"];
+    let n = audit.findings.len() as u32;
+    for (i, f) in audit.findings.iter().enumerate() {
+        let r = i as u32 + 1;
+        ws.write_string_with_format(r, 0, f.severity.label(), st.severity(f.severity))?;
+        ws.write_string(r, 1, f.code)?;
+        ws.write_string(r, 2, f.line.as_deref().unwrap_or(""))?;
+        ws.write_string(r, 3, f.tag.as_deref().unwrap_or(""))?;
+        match &f.cell {
+            Some(c) => {
+                let target = format!("internal:{}!{}", quote_sheet(&c.sheet), c.a1());
+                ws.write_url_with_text(r, 4, rust_xlsxwriter::Url::new(target), c.to_string())?;
+                ws.set_cell_format(r, 4, &st.link)?;
+            }
+            None => {
+                ws.write_string(r, 4, "")?;
+            }
+        }
+        ws.write_string(r, 5, &f.message)?;
+        ws.write_string(r, 6, &f.action)?;
+    }
+    let columns: Vec<TableColumn> = headers.iter().map(|h| TableColumn::new().set_header(*h)).collect();
+    let table = Table::new().set_columns(&columns).set_name("Findings");
+    ws.add_table(0, 0, n.max(1), headers.len() as u16 - 1, &table)?;
+    for (c, w) in [10, 18, 12, 12, 14, 80, 60].into_iter().enumerate() {
+        ws.set_column_width(c as u16, w)?;
+    }
+    ws.set_freeze_panes(1, 0)?;
+    Ok(())
+}
+
+fn write_basis(ws: &mut Worksheet, input: &Input, audit: &Audit, st: &Styles) -> Result<(), XlsxError> {
+    let mut r = 0u32;
+    let mut line = |ws: &mut Worksheet, a: &str, b: &str, bold: bool| -> Result<(), XlsxError> {
+        if bold {
+            ws.write_string_with_format(r, 0, a, &st.bold)?;
+        } else {
+            ws.write_string(r, 0, a)?;
+        }
+        if !b.is_empty() {
+            ws.write_string(r, 1, b)?;
+        }
+        r += 1;
+        Ok(())
+    };
+    line(ws, "Basis of this audit", "", true)?;
+    line(ws, "Tool", &format!("lossledger {}", env!("CARGO_PKG_VERSION")), false)?;
+    line(ws, "Input file", &input.file, false)?;
+    line(ws, "Input SHA-256", &input.sha256, false)?;
+    line(ws, "Caution", super::CAUTION, false)?;
+    line(ws, "", "", false)?;
+    line(ws, "Fluid properties used", "", true)?;
+    for f in &audit.fluids {
+        line(ws, &format!("{} at {:.2} °C", f.fluid, f.temperature_c), &format!(
+            "density {:.3} kg/m3, viscosity {:.4e} Pa·s, vapour pressure {} — {}",
+            f.props.density_kg_m3,
+            f.props.viscosity_pa_s,
+            if f.props.vapour_pressure_pa.is_finite() { format!("{:.1} Pa", f.props.vapour_pressure_pa) } else { "not given".into() },
+            f.basis
+        ), false)?;
+    }
+    line(ws, "", "", false)?;
+    line(ws, "Methods", "", true)?;
+    for (a, b) in [
+        ("Friction", "Darcy–Weisbach h = f (L/D) v²/2g; f = 64/Re for Re ≤ 2000; Colebrook–White (1939) solved to 1e-12 relative for Re ≥ 4000; linear interpolation in Re between, flagged transition-regime."),
+        ("Hazen–Williams", "Where a C factor is given (water only): h = 10.67 L Q^1.852 / (C^1.852 D^4.8704), SI form."),
+        ("Fittings", "h = K v²/2g per item times quantity; v is the mean velocity in the bore K refers to (the smaller bore for area changes)."),
+        ("Pipe bores", "ASME B36.10M (carbon steel), ASME B36.19M (stainless); default schedule 40 (STD where 40 is not defined) for steel. 'Inner diameter' overrides."),
+        ("Gravity", "g = 9.80665 m/s²"),
+    ] {
+        line(ws, a, b, false)?;
+    }
+    line(ws, "", "", false)?;
+    line(ws, "Fitting kinds used", "", true)?;
+    for id in &audit.kinds_used {
+        if let Some(k) = fitting::find_kind(id) {
+            line(ws, id, &format!("{} — {}", k.model_name(), k.source), false)?;
+        }
+    }
+    line(ws, "", "", false)?;
+    line(ws, "Rules in force (common practice for water unless your rules file says otherwise)", "", true)?;
+    let rules = toml::to_string(&audit.rules).unwrap_or_default();
+    for l in rules.lines().filter(|l| !l.trim().is_empty()) {
+        line(ws, "", l, false)?;
+    }
+    line(ws, "", "", false)?;
+    line(ws, "Parse report", "", true)?;
+    for l in &input.layouts {
+        let mapping: Vec<String> = l.columns.iter().map(|c| format!("'{}' → {}{}", c.header, c.spec.key, c.unit.map(|u| format!(" [{}]", u.label)).unwrap_or_default())).collect();
+        line(ws, &format!("{} (sheet '{}')", l.table.sheet_name(), l.sheet), &format!("header row {}; {}", l.header_row + 1, mapping.join(", ")), false)?;
+        if !l.unknown.is_empty() {
+            let kept: Vec<&str> = l.unknown.iter().map(|(_, h)| h.as_str()).collect();
+            line(ws, "", &format!("kept as is: {}", kept.join(", ")), false)?;
+        }
+    }
+    let mut assumed: BTreeMap<(String, String), usize> = BTreeMap::new();
+    for a in input.lines.iter().flat_map(|l| &l.assumed).chain(input.pipes.iter().flat_map(|p| &p.assumed)).chain(input.fittings.iter().flat_map(|f| &f.assumed)) {
+        *assumed.entry((a.cell.sheet.clone(), a.what.clone())).or_default() += 1;
+    }
+    for ((sheet, what), n) in assumed {
+        line(ws, &format!("assumed on {sheet}"), &format!("{what}: {n} row(s)"), false)?;
+    }
+    for d in &audit.notes {
+        line(ws, d.severity.label(), &d.to_string(), false)?;
+    }
+    ws.set_column_width(0, 34)?;
+    ws.set_column_width(1, 120)?;
+    Ok(())
+}
