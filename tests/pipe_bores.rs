@@ -5,9 +5,8 @@
 
 use approx::assert_relative_eq;
 use lossledger::physics::pipe::{
-    AGEING_RATE_M_PER_YEAR, BoreError, Material, Schedule, aged_roughness, bore, bore_from_od,
-    default_schedule, dn_to_nps, material_from_text, nps_to_dn, parse_schedule, plastic_od_for_dn,
-    roughness,
+    BoreError, Material, Schedule, aged_roughness, bore, bore_from_od, default_schedule, dn_to_nps,
+    material_from_text, nps_to_dn, parse_schedule, plastic_od_for_dn, roughness,
 };
 
 const ASME_CSV: &str = include_str!(concat!(
@@ -110,7 +109,7 @@ fn asme_tables_match_fluids_every_pair() {
         assert!((b.inner_diameter_m - r.id_m).abs() < 1e-6, "ID {what}");
         checked += 1;
     }
-    assert!(checked >= 300, "only {checked} pairs checked");
+    assert_eq!(checked, 314, "pairs checked");
     assert!(sch5 > 10);
 }
 
@@ -152,7 +151,7 @@ fn asme_tables_define_nothing_beyond_fluids() {
             }
         }
     }
-    // 24 sizes; fluids 1.3.1 holds 247 B36.10M pairs (without schedule 5) and 97 B36.19M
+    // 24 sizes; fluids 1.3.1 holds 223 B36.10M pairs (without schedule 5) and 91 B36.19M
     // pairs up to NPS 24.
     assert_eq!(
         defined,
@@ -706,7 +705,6 @@ fn ageing() {
     let a10 = aged_roughness(Material::CastIron, 10.0).expect("aged");
     let a30 = aged_roughness(Material::CastIron, 30.0).expect("aged");
     assert!(a30 > a10);
-    assert!(AGEING_RATE_M_PER_YEAR > 0.0);
     for m in [
         Material::DuctileIron,
         Material::StainlessSteel,

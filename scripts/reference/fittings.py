@@ -10,6 +10,7 @@ Outputs (fixtures/reference/):
                         (fluids.fittings.Darby3K / Hooper2K by fluids' own entry names)
   fittings_methods.csv  bends, mitres, diffusers, contractions, entrances, exit, orifice
                         plate, each against the fluids function of the same published method
+  fittings_le_d.csv     Le/D -> K with the fully rough factor (fluids.friction.von_Karman)
   fittings_kv.csv       Kv->K and Cv->K (fluids.fittings.Kv_to_K / Cv_to_K)
 """
 import csv
@@ -209,6 +210,15 @@ def method_rows():
     return rows
 
 
+def le_d_rows():
+    from fluids.friction import von_Karman
+    rows = []
+    for ed in (1e-5, 1e-4, 4.5e-4, 1e-3, 5e-3):
+        for le_d in (8.0, 30.0, 340.0):
+            rows.append([ed, le_d, von_Karman(ed) * le_d, f"{V} friction.von_Karman(eD) * Le/D"])
+    return rows
+
+
 def kv_rows():
     rows = []
     for kv, dd in ((2.312, 0.015), (100.0, 0.1), (1500.0, 0.3), (35.0, 0.05)):
@@ -224,4 +234,5 @@ if __name__ == "__main__":
     write("fittings_methods.csv",
           ["case", "id", "d_in_m", "d_out_m", "re_in", "rel_rough", "bend_radius_d", "angle_deg",
            "length_ratio", "beta", "k_ref", "tol_rel", "source"], method_rows())
+    write("fittings_le_d.csv", ["rel_rough", "le_d", "k_ref", "source"], le_d_rows())
     write("fittings_kv.csv", ["coefficient", "value", "d_m", "k_ref", "source"], kv_rows())

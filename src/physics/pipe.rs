@@ -389,10 +389,10 @@ pub fn parse_schedule(text: &str) -> Option<Schedule> {
         _ => {}
     }
     for prefix in ["CLASSK", "CLASS", "K"] {
-        if let Some(rest) = words.strip_prefix(prefix) {
-            if let Ok(k) = rest.parse::<u8>() {
-                return (7..=12).contains(&k).then_some(Schedule::DuctileK(k));
-            }
+        if let Some(rest) = words.strip_prefix(prefix)
+            && let Ok(k) = rest.parse::<u8>()
+        {
+            return (7..=12).contains(&k).then_some(Schedule::DuctileK(k));
         }
     }
     let v: f64 = s.parse().ok()?;
@@ -591,7 +591,7 @@ fn steel_bore(
             return Err(BoreError::MissingSchedule {
                 material: material.name(),
                 hint: format!(
-                    "{standard} defines no default wall for DN{}; write one of: {}",
+                    "{standard} has no default wall (40S) at DN{}; write one of: {}",
                     row.dn,
                     labels(row.walls)
                 ),

@@ -15,12 +15,10 @@ fn canonical(tok: &str) -> &str {
         "bfv" | "bfly" | "btfly" | "bf" => "butterfly",
         "fb" | "fp" => "",
         "rb" | "rp" => "reduced",
-        "thd" | "thrd" | "thread" | "threaded" | "screwed" | "scrd" | "scr" | "npt" | "bsp" | "bspt" => {
-            "threaded"
-        }
-        "flgd" | "flg" | "flanged" | "flange" | "flgs" | "welded" | "bw" | "butt" | "buttweld" | "sw" => {
-            ""
-        }
+        "thd" | "thrd" | "thread" | "threaded" | "screwed" | "scrd" | "scr" | "npt" | "bsp"
+        | "bspt" => "threaded",
+        "flgd" | "flg" | "flanged" | "flange" | "flgs" | "welded" | "bw" | "butt" | "buttweld"
+        | "sw" => "",
         "welds" => "weld",
         "miter" | "mitred" | "mitered" | "mitre" | "segmented" => "mitre",
         "tees" | "t" => "tee",
@@ -35,20 +33,22 @@ fn canonical(tok: &str) -> &str {
         "diaph" => "diaphragm",
         "entry" | "intake" => "entrance",
         "square" => "sharp",
-        "edged" | "edge" | "flush" | "mouth" | "with" | "w" | "cw" | "and" | "the" | "a" | "an" | "of" => {
-            ""
-        }
+        "edged" | "edge" | "flush" | "mouth" | "with" | "w" | "cw" | "and" | "the" | "a" | "an"
+        | "of" => "",
         "radiused" | "bellmouth" | "bell" => "rounded",
         "reentrant" | "inward" | "protruding" | "borda" => "projecting",
         "bevelled" | "chamfered" | "chamfer" | "bevel" => "beveled",
-        "enlargement" | "expander" | "increaser" => "expansion",
+        "enlargement" => "expansion",
+        "expander" | "increaser" => "reducer",
         "sudden" | "abrupt" => "",
         "reducing" | "red" | "swage" | "concentric" | "conc" | "eccentric" | "ecc" => "reducer",
         "cone" | "tapered" | "taper" | "gradual" => "conical",
         "disc" => "disk",
         "piston" => "lift",
         "flap" => "swing",
-        "magflow" | "magmeter" | "mag" | "electromagnetic" | "ultrasonic" | "flowmeter" | "emf" => "meter",
+        "magflow" | "magmeter" | "mag" | "electromagnetic" | "ultrasonic" | "flowmeter" | "emf" => {
+            "meter"
+        }
         "orifices" => "orifice",
         "bends" => "bend",
         "valve" => "valve",
@@ -110,6 +110,14 @@ pub fn normalise_item(text: &str) -> Vec<String> {
         // "1.5d", "3d" (split into number + "d").
         if is_number(t) && next == Some("d") {
             toks.push(radius_token(t).to_string());
+            i += 2;
+            continue;
+        }
+        // "L.R." / "S.R." after punctuation is split into single letters.
+        if matches!(t, "l" | "s") && next == Some("r") {
+            if t == "l" {
+                toks.push("long".into());
+            }
             i += 2;
             continue;
         }
@@ -226,16 +234,20 @@ pub fn match_item(text: &str) -> Result<&'static Kind, Vec<&'static str>> {
     if best.len() > 1 {
         return Err(best.iter().take(3).map(|k| k.id).collect());
     }
-    Err(nearest(&toks.join(" "), &sets))
+    Err(nearest(&toks, &sets))
 }
 
-fn nearest(text: &str, sets: &[(&'static Kind, Vec<String>, String)]) -> Vec<&'static str> {
+/// Up to 3 nearest ids: kinds with an alias containing every word of the text come first,
+/// then by normalised Levenshtein similarity of the normalised text to aliases and ids.
+fn nearest(toks: &[String], sets: &[(&'static Kind, Vec<String>, String)]) -> Vec<&'static str> {
+    let text = toks.join(" ");
     let mut scored: Vec<(f64, &'static str)> = Vec::new();
     for (k, s, raw) in sets {
         let joined = s.join(" ");
-        let a = strsim::normalized_levenshtein(text, &joined);
-        let b = strsim::normalized_levenshtein(text, &raw.to_lowercase());
-        let score = a.max(b);
+        let a = strsim::normalized_levenshtein(&text, &joined);
+        let b = strsim::normalized_levenshtein(&text, &raw.to_lowercase());
+        let contains_all = toks.iter().all(|t| s.contains(t));
+        let score = a.max(b) + if contains_all { 1.0 } else { 0.0 };
         match scored.iter_mut().find(|(_, id)| *id == k.id) {
             Some(e) => e.0 = e.0.max(score),
             None => scored.push((score, k.id)),

@@ -365,7 +365,10 @@ fn check_finite_pos(what: &'static str, v: f64) -> Result<f64, FittingError> {
     }
 }
 
-fn check_opt_finite_nonneg(what: &'static str, v: Option<f64>) -> Result<Option<f64>, FittingError> {
+fn check_opt_finite_nonneg(
+    what: &'static str,
+    v: Option<f64>,
+) -> Result<Option<f64>, FittingError> {
     match v {
         Some(x) if !(x.is_finite() && x >= 0.0) => Err(FittingError::OutOfRange {
             what,
@@ -438,7 +441,13 @@ pub fn evaluate(kind: &Kind, input: &FittingInput) -> Result<FittingK, FittingEr
 
     // Given values override the model.
     if let Some(k) = check_opt_finite_nonneg("given K", input.k_given)? {
-        return Ok(banded(k, GIVEN_K_BAND, d_ref, "given K", "given in schedule"));
+        return Ok(banded(
+            k,
+            GIVEN_K_BAND,
+            d_ref,
+            "given K",
+            "given in schedule",
+        ));
     }
     let kv_cv = match (input.kv_given, input.cv_given) {
         (Some(kv), _) => Some((check_finite_pos("given Kv", kv)?, "given Kv")),
@@ -471,8 +480,13 @@ pub fn evaluate(kind: &Kind, input: &FittingInput) -> Result<FittingK, FittingEr
             let Some(curve) = kind.partial_opening else {
                 return Err(FittingError::OpeningNotModelled { id: kind.id });
             };
-            let k = curve.k_at(k_open, h).ok_or(FittingError::Closed { id: kind.id })?;
-            let band = (band.0.min(PARTLY_OPEN_BAND.0), band.1.max(PARTLY_OPEN_BAND.1));
+            let k = curve
+                .k_at(k_open, h)
+                .ok_or(FittingError::Closed { id: kind.id })?;
+            let band = (
+                band.0.min(PARTLY_OPEN_BAND.0),
+                band.1.max(PARTLY_OPEN_BAND.1),
+            );
             Ok(banded(k, band, d_ref, curve.model, curve.source))
         }
         _ => Ok(banded(k_open, band, d_ref, kind.model_name(), kind.source)),

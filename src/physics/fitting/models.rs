@@ -241,12 +241,15 @@ pub fn entrance_beveled_rennels(l_d: f64, angle_deg: f64) -> f64 {
 /// Discharge coefficient of a square-edged orifice plate with flange tappings.
 ///
 /// # Formula
-/// Reader-Harris/Gallagher:
-/// `C = 0.5961 + 0.0261β² − 0.216β⁸ + 0.000521(10⁶β/Re_D)^0.7
-///  + (0.0188 + 0.0063A)β^3.5 (10⁶/Re_D)^0.3
-///  + (0.043 + 0.080e^(−10L₁) − 0.123e^(−7L₁))(1 − 0.11A) β⁴/(1 − β⁴)
-///  − 0.031(M₂′ − 0.8M₂′^1.1)β^1.3` (+ 0.011(0.75 − β)(2.8 − D/25.4 mm) for D < 71.12 mm),
-/// `A = (19000β/Re_D)^0.8`, `M₂′ = 2L₂′/(1 − β)`, flange tappings L₁ = L₂′ = 25.4 mm/D.
+/// Reader-Harris/Gallagher (flange tappings L₁ = L₂′ = 25.4 mm/D):
+/// ```text
+/// C = 0.5961 + 0.0261β² − 0.216β⁸ + 0.000521(10⁶β/Re_D)^0.7
+///     + (0.0188 + 0.0063A)β^3.5 (10⁶/Re_D)^0.3
+///     + (0.043 + 0.080e^(−10L₁) − 0.123e^(−7L₁))(1 − 0.11A) β⁴/(1 − β⁴)
+///     − 0.031(M₂′ − 0.8M₂′^1.1)β^1.3
+///     [+ 0.011(0.75 − β)(2.8 − D/25.4 mm) when D < 71.12 mm]
+/// A = (19000β/Re_D)^0.8,  M₂′ = 2L₂′/(1 − β)
+/// ```
 /// # Source
 /// ISO 5167-2:2003, §5.3.2.1, Eq. (4).
 /// # Validity
@@ -296,11 +299,21 @@ fn angle_or(input: &FittingInput, default: f64) -> f64 {
     input.angle_deg.unwrap_or(default)
 }
 
-fn check_range(what: &'static str, v: f64, lo: f64, hi: f64, range: &'static str) -> Result<f64, FittingError> {
+fn check_range(
+    what: &'static str,
+    v: f64,
+    lo: f64,
+    hi: f64,
+    range: &'static str,
+) -> Result<f64, FittingError> {
     if v.is_finite() && v >= lo && v <= hi {
         Ok(v)
     } else {
-        Err(FittingError::OutOfRange { what, value: v, range })
+        Err(FittingError::OutOfRange {
+            what,
+            value: v,
+            range,
+        })
     }
 }
 
@@ -334,13 +347,25 @@ pub(super) fn model_k(kind: &Kind, input: &FittingInput) -> Result<f64, FittingE
             default_r_d,
             default_angle_deg,
         } => {
-            let a = check_range("bend angle", angle_or(input, default_angle_deg), 0.0, 180.0, "0..=180 deg")?;
+            let a = check_range(
+                "bend angle",
+                angle_or(input, default_angle_deg),
+                0.0,
+                180.0,
+                "0..=180 deg",
+            )?;
             let r = input.bend_radius_d.unwrap_or(default_r_d);
             let r = check_range("bend r/D", r, 0.5, 1e6, ">= 0.5")?;
             bend_rennels(a, r, f_turbulent(re, rr))
         }
         Model::Mitre { default_angle_deg } => {
-            let a = check_range("mitre angle", angle_or(input, default_angle_deg), 0.0, 150.0, "0..=150 deg")?;
+            let a = check_range(
+                "mitre angle",
+                angle_or(input, default_angle_deg),
+                0.0,
+                150.0,
+                "0..=150 deg",
+            )?;
             mitre_rennels(a)
         }
         Model::SuddenExpansion
@@ -362,8 +387,20 @@ pub(super) fn model_k(kind: &Kind, input: &FittingInput) -> Result<f64, FittingE
             default_l_d,
             default_angle_deg,
         } => {
-            let l = check_range("bevel l/d", input.length_ratio.unwrap_or(default_l_d), 0.0, 1.0, "0..=1")?;
-            let a = check_range("bevel angle", angle_or(input, default_angle_deg), 0.0, 90.0, "0..=90 deg")?;
+            let l = check_range(
+                "bevel l/d",
+                input.length_ratio.unwrap_or(default_l_d),
+                0.0,
+                1.0,
+                "0..=1",
+            )?;
+            let a = check_range(
+                "bevel angle",
+                angle_or(input, default_angle_deg),
+                0.0,
+                90.0,
+                "0..=90 deg",
+            )?;
             entrance_beveled_rennels(l, a)
         }
         Model::Strainer { k_clean } => {
@@ -375,7 +412,13 @@ pub(super) fn model_k(kind: &Kind, input: &FittingInput) -> Result<f64, FittingE
                 id: kind.id,
                 what: "beta (orifice d/D)",
             })?;
-            let b = check_range("orifice beta", b, 0.05, 0.9, "0.05..=0.9 (ISO 5167-2: 0.1..0.75)")?;
+            let b = check_range(
+                "orifice beta",
+                b,
+                0.05,
+                0.9,
+                "0.05..=0.9 (ISO 5167-2: 0.1..0.75)",
+            )?;
             orifice_k_iso5167(b, input.d_in_m, re)
         }
         Model::EquivalentLength => {
@@ -410,7 +453,15 @@ fn area_change_k(kind: &Kind, input: &FittingInput) -> Result<f64, FittingError>
         d_in_m: input.d_in_m,
         d_out_m: d_out,
     };
-    let cone = |default: f64| check_range("cone angle", angle_or(input, default), 1e-3, 180.0, "0..=180 deg");
+    let cone = |default: f64| {
+        check_range(
+            "cone angle",
+            angle_or(input, default),
+            1e-3,
+            180.0,
+            "0..=180 deg",
+        )
+    };
     let k = match kind.model {
         Model::SuddenExpansion => {
             if !expanding {
@@ -428,20 +479,34 @@ fn area_change_k(kind: &Kind, input: &FittingInput) -> Result<f64, FittingError>
             if expanding {
                 return Err(wrong());
             }
-            let r = check_range("r/d2", input.bend_radius_d.unwrap_or(default_r_d), 0.0, 1e6, ">= 0")?;
+            let r = check_range(
+                "r/d2",
+                input.bend_radius_d.unwrap_or(default_r_d),
+                0.0,
+                1e6,
+                ">= 0",
+            )?;
             contraction_round_rennels(beta, r)
         }
         Model::ConicalDiffuser { default_angle_deg } => {
             if !expanding {
                 return Err(wrong());
             }
-            diffuser_conical_rennels(beta, cone(default_angle_deg)?, f_turbulent(re_small, rr_small))
+            diffuser_conical_rennels(
+                beta,
+                cone(default_angle_deg)?,
+                f_turbulent(re_small, rr_small),
+            )
         }
         Model::ConicalContraction { default_angle_deg } => {
             if expanding {
                 return Err(wrong());
             }
-            contraction_conical_rennels(beta, cone(default_angle_deg)?, f_turbulent(re_small, rr_small))
+            contraction_conical_rennels(
+                beta,
+                cone(default_angle_deg)?,
+                f_turbulent(re_small, rr_small),
+            )
         }
         Model::Reducer { default_angle_deg } => {
             let a = cone(default_angle_deg)?;

@@ -50,7 +50,7 @@ impl OpeningCurve {
     /// # Validity
     /// 0 < h ≤ 1; h ≤ 0 → None (closed).
     pub fn k_at(&self, k_open: f64, h: f64) -> Option<f64> {
-        if !(h > 0.0) || !h.is_finite() {
+        if !h.is_finite() || h <= 0.0 {
             return None;
         }
         let k_open = k_open.max(1e-9);
