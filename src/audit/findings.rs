@@ -28,17 +28,69 @@ pub struct Finding {
 
 /// Every finding code the tool can raise, with its meaning (for docs and the Basis sheet).
 pub const CODES: &[(&str, &str)] = &[
-    ("velocity-high", "a run's mean velocity is above its service's band"),
-    ("velocity-low", "a run's mean velocity is below its service's band"),
-    ("steep-gradient", "a run loses more head per 100 m than the gradient rule allows"),
-    ("high-loss-fitting", "one item takes too large a share of its line's loss, or its K is high"),
-    ("transition-regime", "a run's Reynolds number lies between laminar and turbulent (2000–4000)"),
-    ("size-mismatch", "a fitting's size matches no run of its line"),
-    ("valve-closed", "a valve is 0 % open on a line that carries flow"),
+    (
+        "velocity-high",
+        "a run's mean velocity is above its service's band",
+    ),
+    (
+        "velocity-low",
+        "a run's mean velocity is below its service's band",
+    ),
+    (
+        "steep-gradient",
+        "a run loses more head per 100 m than the gradient rule allows",
+    ),
+    (
+        "high-loss-fitting",
+        "one item takes too large a share of its line's loss, or its K is high",
+    ),
+    (
+        "transition-regime",
+        "a run's Reynolds number lies between laminar and turbulent (2000–4000)",
+    ),
+    (
+        "size-mismatch",
+        "a fitting's size matches no run of its line",
+    ),
+    (
+        "valve-closed",
+        "a valve is 0 % open on a line that carries flow",
+    ),
     ("zero-flow", "a line's flow is zero, so it has no losses"),
+    (
+        "same-size-reducer",
+        "a reducer, expansion or contraction has equal inlet and outlet sizes",
+    ),
+    (
+        "throttled-valve",
+        "a valve on a pumped line is open less than the valve rule allows: it burns pump energy",
+    ),
+    (
+        "pump-head-short",
+        "a system's pump head at duty flow is below the head the system requires",
+    ),
+    (
+        "npsh-margin",
+        "NPSH available falls short of NPSH required plus the margin rule",
+    ),
+    (
+        "suction-layout",
+        "the schedule shows an elbow or reducer at the pump suction, or a suction bore smaller than the next run",
+    ),
 ];
 
-fn push(audit: &mut Audit, severity: Severity, code: &'static str, line: &str, tag: Option<&str>, cell: CellRef, message: String, action: &str) {
+/// Add a finding about a line (and optionally a fitting tag) at a cell.
+#[allow(clippy::too_many_arguments)]
+pub(crate) fn push(
+    audit: &mut Audit,
+    severity: Severity,
+    code: &'static str,
+    line: &str,
+    tag: Option<&str>,
+    cell: CellRef,
+    message: String,
+    action: &str,
+) {
     audit.findings.push(Finding {
         severity,
         code,
@@ -51,12 +103,17 @@ fn push(audit: &mut Audit, severity: Severity, code: &'static str, line: &str, t
 }
 
 fn col(input: &Input, table: TableKind, key: &str) -> Option<u32> {
-    input.layout(table).and_then(|l| l.column(key)).map(|c| c.col)
+    input
+        .layout(table)
+        .and_then(|l| l.column(key))
+        .map(|c| c.col)
 }
 
 /// Raise the rule findings and sort all findings (worst first, then by cell).
 pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
-    let size_col = col(input, TableKind::Pipes, "size").or(col(input, TableKind::Pipes, "inner_diameter")).unwrap_or(0);
+    let size_col = col(input, TableKind::Pipes, "size")
+        .or(col(input, TableKind::Pipes, "inner_diameter"))
+        .unwrap_or(0);
     let flow_col = col(input, TableKind::Lines, "flow").unwrap_or(0);
     let lines = audit.lines.clone();
     for line in &lines {
@@ -65,8 +122,21 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
                 Some(r) => CellRef::new(TableKind::Lines.sheet_name(), r, flow_col),
                 None => audit.runs[line.runs[0]].cell.clone(),
             };
-            let cell = input.layout(TableKind::Lines).filter(|_| line.row.is_some()).map(|l| CellRef::new(&l.sheet, cell.row, cell.col)).unwrap_or(cell);
-            push(audit, Severity::Info, "zero-flow", &line.line, None, cell, format!("line {} carries no flow: no losses computed", line.line), "check the line's duty flow");
+            let cell = input
+                .layout(TableKind::Lines)
+                .filter(|_| line.row.is_some())
+                .map(|l| CellRef::new(&l.sheet, cell.row, cell.col))
+                .unwrap_or(cell);
+            push(
+                audit,
+                Severity::Info,
+                "zero-flow",
+                &line.line,
+                None,
+                cell,
+                format!("line {} carries no flow: no losses computed", line.line),
+                "check the line's duty flow",
+            );
             continue;
         }
         let band = rules.band(line.service);
@@ -77,50 +147,163 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
             if let Some(max) = band.max_m_s
                 && v > max
             {
-                push(audit, Severity::Warning, "velocity-high", &line.line, None, cell.clone(),
-                    format!("velocity {v:.2} m/s is above the {} limit of {max:.2} m/s", line.service.id()),
-                    "consider a larger bore or a lower flow; check erosion, noise and surge");
+                push(
+                    audit,
+                    Severity::Warning,
+                    "velocity-high",
+                    &line.line,
+                    None,
+                    cell.clone(),
+                    format!(
+                        "velocity {v:.2} m/s is above the {} limit of {max:.2} m/s",
+                        line.service.id()
+                    ),
+                    "consider a larger bore or a lower flow; check erosion, noise and surge",
+                );
             }
             if let Some(min) = band.min_m_s
                 && v < min
             {
-                push(audit, Severity::Warning, "velocity-low", &line.line, None, cell.clone(),
-                    format!("velocity {v:.2} m/s is below the {} minimum of {min:.2} m/s", line.service.id()),
-                    if line.service == Service::Gravity { "check self-cleansing: solids may settle" } else { "the line may be oversized; check air clearing and sediment" });
+                push(
+                    audit,
+                    Severity::Warning,
+                    "velocity-low",
+                    &line.line,
+                    None,
+                    cell.clone(),
+                    format!(
+                        "velocity {v:.2} m/s is below the {} minimum of {min:.2} m/s",
+                        line.service.id()
+                    ),
+                    if line.service == Service::Gravity {
+                        "check self-cleansing: solids may settle"
+                    } else {
+                        "the line may be oversized; check air clearing and sediment"
+                    },
+                );
             }
             let gradient = run.head_m / run.length_m * 100.0;
             if gradient > rules.gradient.max_m_per_100m {
-                push(audit, Severity::Warning, "steep-gradient", &line.line, None, cell.clone(),
-                    format!("friction loss {gradient:.2} m per 100 m exceeds {:.2} m per 100 m", rules.gradient.max_m_per_100m),
-                    "a larger bore or smoother pipe would cut the loss and the pumping energy");
+                push(
+                    audit,
+                    Severity::Warning,
+                    "steep-gradient",
+                    &line.line,
+                    None,
+                    cell.clone(),
+                    format!(
+                        "friction loss {gradient:.2} m per 100 m exceeds {:.2} m per 100 m",
+                        rules.gradient.max_m_per_100m
+                    ),
+                    "a larger bore or smoother pipe would cut the loss and the pumping energy",
+                );
             }
             if run.regime == Regime::Transition {
-                push(audit, Severity::Info, "transition-regime", &line.line, None, cell,
-                    format!("Reynolds number {:.0} is in the transition band 2000–4000: friction factor interpolated", run.reynolds),
-                    "results here are less certain; confirm by measurement if the line matters");
+                push(
+                    audit,
+                    Severity::Info,
+                    "transition-regime",
+                    &line.line,
+                    None,
+                    cell,
+                    format!(
+                        "Reynolds number {:.0} is in the transition band 2000–4000: friction factor interpolated",
+                        run.reynolds
+                    ),
+                    "results here are less certain; confirm by measurement if the line matters",
+                );
             }
+        }
+    }
+    // An area change whose inlet and outlet sizes are equal changes nothing: most likely a typo.
+    const AREA_CHANGES: &[&str] = &[
+        "reducer",
+        "expansion",
+        "contraction",
+        "contraction-rounded",
+        "contraction-conical",
+        "diffuser-conical",
+    ];
+    for f in input
+        .fittings
+        .iter()
+        .filter(|f| AREA_CHANGES.contains(&f.kind.id))
+    {
+        let key = |s: &Option<crate::ingest::parse::SizeSpec>| {
+            s.as_ref().and_then(super::lines::size_key)
+        };
+        if key(&f.size).is_some() && key(&f.size) == key(&f.size_out) {
+            let c = col(input, TableKind::Fittings, "size_out").unwrap_or(0);
+            push(
+                audit,
+                Severity::Warning,
+                "same-size-reducer",
+                &f.line,
+                Some(&f.tag),
+                CellRef::new(&f.origin.sheet, f.origin.row, c),
+                format!(
+                    "{} ({}) has the same inlet and outlet size: no area change, K 0",
+                    super::lines::fitting_label(f),
+                    f.kind.id
+                ),
+                "correct Size or Size out, or remove the item",
+            );
         }
     }
     let fittings = audit.fittings.clone();
     for f in &fittings {
-        let Some(line) = lines.iter().find(|l| l.line == f.line) else { continue };
-        let share = if line.total_head_m > 0.0 { f.head_m / line.total_head_m } else { 0.0 };
+        let Some(line) = lines.iter().find(|l| l.line == f.line) else {
+            continue;
+        };
+        let share = if line.total_head_m > 0.0 {
+            f.head_m / line.total_head_m
+        } else {
+            0.0
+        };
         let share_hit = share > rules.fitting.max_share;
         let k_hit = f.k > rules.fitting.max_k;
         if share_hit || k_hit {
             let mut why = Vec::new();
             if share_hit {
-                why.push(format!("takes {:.0} % of line {}'s loss (limit {:.0} %)", share * 100.0, f.line, rules.fitting.max_share * 100.0));
+                why.push(format!(
+                    "takes {:.0} % of line {}'s loss (limit {:.0} %)",
+                    share * 100.0,
+                    f.line,
+                    rules.fitting.max_share * 100.0
+                ));
             }
             if k_hit {
                 why.push(format!("K {:.2} is above {:.2}", f.k, rules.fitting.max_k));
             }
-            push(audit, Severity::Warning, "high-loss-fitting", &f.line, Some(&f.tag), f.cell.clone(),
-                format!("{} ({}): head {:.3} m; {}", f.item, f.kind, f.head_m, why.join("; ")),
-                "check the item's type and position; a lower-loss alternative may pay back");
+            push(
+                audit,
+                Severity::Warning,
+                "high-loss-fitting",
+                &f.line,
+                Some(&f.tag),
+                f.cell.clone(),
+                format!(
+                    "{} ({}): head {:.3} m; {}",
+                    f.item,
+                    f.kind,
+                    f.head_m,
+                    why.join("; ")
+                ),
+                "check the item's type and position; a lower-loss alternative may pay back",
+            );
         }
     }
-    audit.findings.sort_by(|a, b| b.severity.cmp(&a.severity).then_with(|| a.cell.cmp(&b.cell)).then(a.code.cmp(b.code)));
+    sort(&mut audit.findings);
+}
+
+/// Order findings worst first, then by cell, then by code.
+pub fn sort(findings: &mut [Finding]) {
+    findings.sort_by(|a, b| {
+        b.severity
+            .cmp(&a.severity)
+            .then_with(|| a.cell.cmp(&b.cell))
+            .then(a.code.cmp(b.code))
+    });
 }
 
 /// A fitting whose size matches no run of its line.
@@ -128,17 +311,43 @@ pub fn size_mismatch(input: &Input, audit: &mut Audit, f: &FittingRow, run: usiz
     let c = col(input, TableKind::Fittings, "size").unwrap_or(0);
     let cell = CellRef::new(&f.origin.sheet, f.origin.row, c);
     let run_cell = audit.runs[run].cell.clone();
-    let what = if f.size.is_some() { "its size matches no run of line" } else { "it has no size and line has runs of several sizes:" };
-    push(audit, Severity::Warning, "size-mismatch", &f.line, Some(&f.tag), cell,
-        format!("{}: {what} {}; computed on the run at {run_cell}", super::lines::fitting_label(f), f.line),
-        "correct the fitting's size or the line's runs");
+    let what = if f.size.is_some() {
+        "its size matches no run of line"
+    } else {
+        "it has no size and line has runs of several sizes:"
+    };
+    push(
+        audit,
+        Severity::Warning,
+        "size-mismatch",
+        &f.line,
+        Some(&f.tag),
+        cell,
+        format!(
+            "{}: {what} {}; computed on the run at {run_cell}",
+            super::lines::fitting_label(f),
+            f.line
+        ),
+        "correct the fitting's size or the line's runs",
+    );
 }
 
 /// A closed valve on a line that carries flow.
 pub fn closed_valve(input: &Input, audit: &mut Audit, f: &FittingRow) {
     let c = col(input, TableKind::Fittings, "opening").unwrap_or(0);
     let cell = CellRef::new(&f.origin.sheet, f.origin.row, c);
-    push(audit, Severity::Error, "valve-closed", &f.line, Some(&f.tag), cell,
-        format!("{} is 0 % open but line {} is given a flow: its loss is unbounded and is left out of the totals", super::lines::fitting_label(f), f.line),
-        "correct the valve position or the line's flow");
+    push(
+        audit,
+        Severity::Error,
+        "valve-closed",
+        &f.line,
+        Some(&f.tag),
+        cell,
+        format!(
+            "{} is 0 % open but line {} is given a flow: its loss is unbounded and is left out of the totals",
+            super::lines::fitting_label(f),
+            f.line
+        ),
+        "correct the valve position or the line's flow",
+    );
 }

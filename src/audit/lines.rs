@@ -6,7 +6,7 @@ use super::{Audit, FittingResult, FluidUsed, LineResult, Rules, RunResult};
 use crate::error::{CellRef, Diagnostic, Severity};
 use crate::ingest::parse::SizeSpec;
 use crate::ingest::{FittingRow, Input, PipeRow, Service, TableKind};
-use crate::physics::fitting::{self, FittingInput};
+use crate::physics::fitting::{self, FittingError, FittingInput, FittingK, Kind};
 use crate::physics::friction::{self, Regime};
 use crate::physics::{G, fluid, pipe};
 use crate::table;
@@ -28,7 +28,9 @@ pub fn size_key(size: &SizeSpec) -> Option<SizeKey> {
     Some(match *size {
         SizeSpec::Dn(dn) => SizeKey::Dn(dn),
         SizeSpec::Nps(n) => SizeKey::Dn(pipe::nps_to_dn(n)?),
-        SizeSpec::OuterDiameter { od_m } | SizeSpec::OdWall { od_m, .. } => SizeKey::Od(tenth(od_m)),
+        SizeSpec::OuterDiameter { od_m } | SizeSpec::OdWall { od_m, .. } => {
+            SizeKey::Od(tenth(od_m))
+        }
         SizeSpec::InnerDiameter { id_m } => SizeKey::Bore(tenth(id_m)),
     })
 }
@@ -50,7 +52,12 @@ struct Ctx<'a> {
 
 impl Ctx<'_> {
     fn cell(&self, table: TableKind, sheet: &str, row: u32, key: &str) -> CellRef {
-        let col = self.input.layout(table).and_then(|l| l.column(key)).map(|c| c.col).unwrap_or(0);
+        let col = self
+            .input
+            .layout_on(table, sheet)
+            .and_then(|l| l.column(key))
+            .map(|c| c.col)
+            .unwrap_or(0);
         CellRef::new(sheet, row, col)
     }
 
@@ -66,11 +73,15 @@ impl Ctx<'_> {
 }
 
 fn is_water(name: &str) -> bool {
-    name.split(|c: char| !c.is_alphanumeric()).any(|w| w == "water")
+    name.split(|c: char| !c.is_alphanumeric())
+        .any(|w| w == "water")
 }
 
 /// Fluid state of every line: Lines rows, plus lines only Pipes names (with flow on their runs).
-fn line_states(ctx: &mut Ctx<'_>, fluids_used: &mut Vec<FluidUsed>) -> (Vec<String>, HashMap<String, LineState>) {
+fn line_states(
+    ctx: &mut Ctx<'_>,
+    fluids_used: &mut Vec<FluidUsed>,
+) -> (Vec<String>, HashMap<String, LineState>) {
     let input = ctx.input;
     let mut order = Vec::new();
     let mut states = HashMap::new();
@@ -80,7 +91,15 @@ fn line_states(ctx: &mut Ctx<'_>, fluids_used: &mut Vec<FluidUsed>) -> (Vec<Stri
             run_flow.entry(p.line.as_str()).or_insert(q);
         }
     }
-    let mut add = |ctx: &mut Ctx<'_>, line: &str, service, row: Option<u32>, sheet: &str, flow: f64, fluid_name: &str, t: f64, dz: f64| {
+    let mut add = |ctx: &mut Ctx<'_>,
+                   line: &str,
+                   service,
+                   row: Option<u32>,
+                   sheet: &str,
+                   flow: f64,
+                   fluid_name: &str,
+                   t: f64,
+                   dz: f64| {
         let props = match input.fluids.iter().find(|f| f.fluid == fluid_name) {
             Some(f) => Ok((fluid::FluidProps {
                 density_kg_m3: f.density_kg_m3,
@@ -92,11 +111,30 @@ fn line_states(ctx: &mut Ctx<'_>, fluids_used: &mut Vec<FluidUsed>) -> (Vec<Stri
         };
         match props {
             Ok((props, basis)) => {
-                if !fluids_used.iter().any(|u| u.fluid == fluid_name && u.temperature_c == t) {
-                    fluids_used.push(FluidUsed { fluid: fluid_name.to_string(), temperature_c: t, props, basis });
+                if !fluids_used
+                    .iter()
+                    .any(|u| u.fluid == fluid_name && u.temperature_c == t)
+                {
+                    fluids_used.push(FluidUsed {
+                        fluid: fluid_name.to_string(),
+                        temperature_c: t,
+                        props,
+                        basis,
+                    });
                 }
                 order.push(line.to_string());
-                states.insert(line.to_string(), LineState { service, row, flow_m3_s: flow, fluid: fluid_name.to_string(), temperature_c: t, props, elevation_change_m: dz });
+                states.insert(
+                    line.to_string(),
+                    LineState {
+                        service,
+                        row,
+                        flow_m3_s: flow,
+                        fluid: fluid_name.to_string(),
+                        temperature_c: t,
+                        props,
+                        elevation_change_m: dz,
+                    },
+                );
             }
             Err((message, key, hint)) => {
                 let cell = ctx.cell(TableKind::Lines, sheet, row.unwrap_or(0), key);
@@ -105,18 +143,45 @@ fn line_states(ctx: &mut Ctx<'_>, fluids_used: &mut Vec<FluidUsed>) -> (Vec<Stri
         }
     };
     for l in &input.lines {
-        let Some(flow) = l.flow_m3_s.or_else(|| run_flow.get(l.line.as_str()).copied()) else { continue };
-        add(ctx, &l.line, l.service, Some(l.origin.row), &l.origin.sheet, flow, &l.fluid, l.temperature_c, l.elevation_change_m.unwrap_or(0.0));
+        let Some(flow) = l
+            .flow_m3_s
+            .or_else(|| run_flow.get(l.line.as_str()).copied())
+        else {
+            continue;
+        };
+        add(
+            ctx,
+            &l.line,
+            l.service,
+            Some(l.origin.row),
+            &l.origin.sheet,
+            flow,
+            &l.fluid,
+            l.temperature_c,
+            l.elevation_change_m.unwrap_or(0.0),
+        );
     }
     let mut implicit: Vec<&PipeRow> = Vec::new();
     for p in &input.pipes {
-        if !input.lines.iter().any(|l| l.line == p.line) && !implicit.iter().any(|q| q.line == p.line) {
+        if !input.lines.iter().any(|l| l.line == p.line)
+            && !implicit.iter().any(|q| q.line == p.line)
+        {
             implicit.push(p);
         }
     }
     for p in implicit {
         if let Some(&flow) = run_flow.get(p.line.as_str()) {
-            add(ctx, &p.line, Service::General, None, &p.origin.sheet, flow, "water", 20.0, 0.0);
+            add(
+                ctx,
+                &p.line,
+                Service::General,
+                None,
+                &p.origin.sheet,
+                flow,
+                "water",
+                20.0,
+                0.0,
+            );
         }
     }
     (order, states)
@@ -147,27 +212,65 @@ fn resolve_run(ctx: &mut Ctx<'_>, p: &PipeRow) -> Option<ResolvedRun> {
             SizeSpec::InnerDiameter { id_m } => (id_m, "bore written in Size".to_string()),
             SizeSpec::OdWall { od_m, wall_m } => {
                 if 2.0 * wall_m >= od_m {
-                    ctx.error(size_cell, format!("wall {:.2} mm is too thick for OD {:.1} mm", wall_m * 1e3, od_m * 1e3), None);
+                    ctx.error(
+                        size_cell,
+                        format!(
+                            "wall {:.2} mm is too thick for OD {:.1} mm",
+                            wall_m * 1e3,
+                            od_m * 1e3
+                        ),
+                        None,
+                    );
                     return None;
                 }
-                (od_m - 2.0 * wall_m, "OD and wall written in Size".to_string())
+                (
+                    od_m - 2.0 * wall_m,
+                    "OD and wall written in Size".to_string(),
+                )
             }
-            SizeSpec::OuterDiameter { od_m } => match pipe::bore_from_od(p.material, od_m, p.schedule) {
-                Ok(b) => (b.inner_diameter_m, format!("{} OD {:.1} mm {}", b.standard, od_m * 1e3, p.schedule.map(|s| s.label()).unwrap_or_default())),
-                Err(e) => {
-                    ctx.error(size_cell, e.to_string(), Some("give the bore in an Inner diameter column".into()));
-                    return None;
+            SizeSpec::OuterDiameter { od_m } => {
+                match pipe::bore_from_od(p.material, od_m, p.schedule) {
+                    Ok(b) => (
+                        b.inner_diameter_m,
+                        format!(
+                            "{} OD {:.1} mm {}",
+                            b.standard,
+                            od_m * 1e3,
+                            p.schedule.map(|s| s.label()).unwrap_or_default()
+                        ),
+                    ),
+                    Err(e) => {
+                        ctx.error(
+                            size_cell,
+                            e.to_string(),
+                            Some("give the bore in an Inner diameter column".into()),
+                        );
+                        return None;
+                    }
                 }
-            },
+            }
             SizeSpec::Dn(_) | SizeSpec::Nps(_) => {
                 let Some(dn) = dn else {
-                    ctx.error(size_cell, "size has no DN equivalent in ASME B36.10M".into(), Some("give the bore in an Inner diameter column".into()));
+                    ctx.error(
+                        size_cell,
+                        "size has no DN equivalent in ASME B36.10M".into(),
+                        Some("give the bore in an Inner diameter column".into()),
+                    );
                     return None;
                 };
                 match pipe::bore(p.material, dn, p.schedule) {
                     Ok(b) => {
-                        let sch = p.schedule.or_else(|| pipe::default_schedule(p.material, dn)).map(|s| s.label()).unwrap_or_default();
-                        (b.inner_diameter_m, format!("{} DN{dn} {sch}", b.standard).trim_end().to_string())
+                        let sch = p
+                            .schedule
+                            .or_else(|| pipe::default_schedule(p.material, dn))
+                            .map(|s| s.label())
+                            .unwrap_or_default();
+                        (
+                            b.inner_diameter_m,
+                            format!("{} DN{dn} {sch}", b.standard)
+                                .trim_end()
+                                .to_string(),
+                        )
                     }
                     Err(e) => {
                         ctx.error(size_cell, e.to_string(), Some("check the size and schedule, or give the bore in an Inner diameter column".into()));
@@ -181,31 +284,61 @@ fn resolve_run(ctx: &mut Ctx<'_>, p: &PipeRow) -> Option<ResolvedRun> {
         Some(e) => (e, "Roughness given".to_string()),
         None => {
             let r = pipe::roughness(p.material);
-            match p.age_years.and_then(|a| pipe::aged_roughness(p.material, a).map(|e| (a, e))) {
-                Some((a, e)) => (e, format!("{} new, aged {a} years (linear growth)", r.source)),
+            match p
+                .age_years
+                .and_then(|a| pipe::aged_roughness(p.material, a).map(|e| (a, e)))
+            {
+                Some((a, e)) => (
+                    e,
+                    format!("{} new, aged {a} years (linear growth)", r.source),
+                ),
                 None => (r.epsilon_m, r.source.to_string()),
             }
         }
     };
-    Some(ResolvedRun { dn, nps, key, d_m, basis, eps_m, eps_basis })
+    Some(ResolvedRun {
+        dn,
+        nps,
+        key,
+        d_m,
+        basis,
+        eps_m,
+        eps_basis,
+    })
 }
 
 /// Compute runs, fittings and line totals.
 pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
-    let mut ctx = Ctx { input, errors: Vec::new() };
+    let mut ctx = Ctx {
+        input,
+        errors: Vec::new(),
+    };
     let mut fluids_used = Vec::new();
     let (line_order, states) = line_states(&mut ctx, &mut fluids_used);
 
     // Runs of each line in sequence order (then row order).
-    let mut pipes: Vec<&PipeRow> = input.pipes.iter().filter(|p| states.contains_key(&p.line)).collect();
-    let pos: HashMap<&str, usize> = line_order.iter().enumerate().map(|(i, l)| (l.as_str(), i)).collect();
+    let mut pipes: Vec<&PipeRow> = input
+        .pipes
+        .iter()
+        .filter(|p| states.contains_key(&p.line))
+        .collect();
+    let pos: HashMap<&str, usize> = line_order
+        .iter()
+        .enumerate()
+        .map(|(i, l)| (l.as_str(), i))
+        .collect();
     pipes.sort_by(|a, b| {
         pos[a.line.as_str()]
             .cmp(&pos[b.line.as_str()])
-            .then(a.seq.unwrap_or(f64::INFINITY).total_cmp(&b.seq.unwrap_or(f64::INFINITY)))
+            .then(
+                a.seq
+                    .unwrap_or(f64::INFINITY)
+                    .total_cmp(&b.seq.unwrap_or(f64::INFINITY)),
+            )
             .then(a.origin.row.cmp(&b.origin.row))
     });
-    let resolved: Vec<Option<ResolvedRun>> = pipes.iter().map(|p| resolve_run(&mut ctx, p)).collect();
+    let resolved: Vec<Option<ResolvedRun>> =
+        pipes.iter().map(|p| resolve_run(&mut ctx, p)).collect();
     if !ctx.errors.is_empty() {
         return Err(ctx.errors);
     }
@@ -215,31 +348,63 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
     let records: Vec<table::RunRecord<'_>> = pipes
         .iter()
         .zip(&resolved)
-        .map(|(p, r)| table::RunRecord { line: &p.line, sheet: &p.origin.sheet, row: p.origin.row, inner_diameter_m: r.d_m, length_m: p.length_m })
+        .map(|(p, r)| table::RunRecord {
+            line: &p.line,
+            sheet: &p.origin.sheet,
+            row: p.origin.row,
+            inner_diameter_m: r.d_m,
+            length_m: p.length_m,
+        })
         .collect();
     let line_records: Vec<table::LineRecord<'_>> = line_order
         .iter()
         .map(|l| {
             let s = &states[l];
-            table::LineRecord { line: l, flow_m3_s: s.flow_m3_s, density_kg_m3: s.props.density_kg_m3, viscosity_pa_s: s.props.viscosity_pa_s }
+            table::LineRecord {
+                line: l,
+                flow_m3_s: s.flow_m3_s,
+                density_kg_m3: s.props.density_kg_m3,
+                viscosity_pa_s: s.props.viscosity_pa_s,
+            }
         })
         .collect();
-    let internal = |e: polars::error::PolarsError| vec![Diagnostic { severity: Severity::Error, file: input.file.clone(), cell: None, message: format!("internal table error: {e}"), hint: None }];
-    let runs_df = table::runs_frame(&records).and_then(|r| table::lines_frame(&line_records).and_then(|l| table::run_hydraulics(&r, &l))).map_err(internal)?;
-    let velocity: Vec<f64> = runs_df.column(table::col::VELOCITY).and_then(|c| c.f64().map(|c| c.iter().map(|v| v.unwrap_or(0.0)).collect())).map_err(internal)?;
-    let reynolds: Vec<f64> = runs_df.column(table::col::REYNOLDS).and_then(|c| c.f64().map(|c| c.iter().map(|v| v.unwrap_or(0.0)).collect())).map_err(internal)?;
+    let internal = |e: polars::error::PolarsError| {
+        vec![Diagnostic {
+            severity: Severity::Error,
+            file: input.file.clone(),
+            cell: None,
+            message: format!("internal table error: {e}"),
+            hint: None,
+        }]
+    };
+    let runs_df = table::runs_frame(&records)
+        .and_then(|r| table::lines_frame(&line_records).and_then(|l| table::run_hydraulics(&r, &l)))
+        .map_err(internal)?;
+    let velocity: Vec<f64> = runs_df
+        .column(table::col::VELOCITY)
+        .and_then(|c| {
+            c.f64()
+                .map(|c| c.iter().map(|v| v.unwrap_or(0.0)).collect())
+        })
+        .map_err(internal)?;
+    let reynolds: Vec<f64> = runs_df
+        .column(table::col::REYNOLDS)
+        .and_then(|c| {
+            c.f64()
+                .map(|c| c.iter().map(|v| v.unwrap_or(0.0)).collect())
+        })
+        .map_err(internal)?;
 
     let mut runs = Vec::with_capacity(pipes.len());
     for (i, (p, r)) in pipes.iter().zip(&resolved).enumerate() {
         let s = &states[&p.line];
         let (v, re) = (velocity[i], reynolds[i]);
-        let (factor, regime, method, head) = match p.c_factor {
-            Some(c) => (0.0, friction::darcy_friction(re, r.eps_m / r.d_m).regime, "Hazen–Williams", friction::hazen_williams_head(p.length_m, s.flow_m3_s, c, r.d_m)),
-            None => {
-                let f = friction::darcy_friction(re, r.eps_m / r.d_m);
-                (f.factor, f.regime, "Darcy–Weisbach with Colebrook–White", friction::darcy_weisbach_head(f.factor, p.length_m, r.d_m, v))
-            }
-        };
+        let RunFriction {
+            factor,
+            regime,
+            method,
+            head_m: head,
+        } = run_friction(r.d_m, p.length_m, r.eps_m, p.c_factor, s.flow_m3_s, v, re);
         runs.push(RunResult {
             cell: ctx.cell(TableKind::Pipes, &p.origin.sheet, p.origin.row, "line"),
             line: p.line.clone(),
@@ -258,6 +423,7 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
             method,
             head_m: head,
             dp_pa: head * s.props.density_kg_m3 * G,
+            c_factor: p.c_factor,
         });
     }
 
@@ -266,15 +432,33 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
     let mut kinds_used: Vec<&'static str> = Vec::new();
     let mut mismatches = Vec::new();
     let mut closed = Vec::new();
+    // Runs of each line, in order, built once (a scan per fitting is quadratic on large registers).
+    let mut runs_by_line: HashMap<&str, Vec<usize>> = HashMap::new();
+    for (i, p) in pipes.iter().enumerate().take(runs.len()) {
+        runs_by_line.entry(p.line.as_str()).or_default().push(i);
+    }
     for f in &input.fittings {
-        let Some(state) = states.get(&f.line) else { continue };
-        let line_runs: Vec<usize> = (0..runs.len()).filter(|&i| pipes[i].line == f.line).collect();
-        let Some(&first) = line_runs.first() else { continue };
+        let Some(state) = states.get(&f.line) else {
+            continue;
+        };
+        let line_runs: Vec<usize> = runs_by_line
+            .get(f.line.as_str())
+            .cloned()
+            .unwrap_or_default();
+        let Some(&first) = line_runs.first() else {
+            continue;
+        };
         let key = f.size.as_ref().and_then(size_key);
         let matched = match key {
-            Some(k) => line_runs.iter().copied().find(|&i| resolved[i].key == Some(k)),
+            Some(k) => line_runs
+                .iter()
+                .copied()
+                .find(|&i| resolved[i].key == Some(k)),
             None => {
-                let distinct = line_runs.iter().filter(|&&i| resolved[i].key != resolved[first].key).count();
+                let distinct = line_runs
+                    .iter()
+                    .filter(|&&i| resolved[i].key != resolved[first].key)
+                    .count();
                 (distinct == 0).then_some(first)
             }
         };
@@ -287,24 +471,37 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
         };
         let r = &resolved[run];
         let d_in = match (matched, key) {
-            (None, Some(k)) => bore_of_key(k, &pipes[run], r).unwrap_or(r.d_m),
+            (None, Some(k)) => bore_of_key(k, pipes[run], r).unwrap_or(r.d_m),
             _ => r.d_m,
         };
         let d_out = f.size_out.as_ref().and_then(size_key).map(|k| {
-            line_runs.iter().find(|&&i| resolved[i].key == Some(k)).map(|&i| resolved[i].d_m).or_else(|| bore_of_key(k, &pipes[run], r))
+            line_runs
+                .iter()
+                .find(|&&i| resolved[i].key == Some(k))
+                .map(|&i| resolved[i].d_m)
+                .or_else(|| bore_of_key(k, pipes[run], r))
         });
         let d_out = match d_out {
             Some(Some(d)) => Some(d),
             Some(None) => {
-                let cell = ctx.cell(TableKind::Fittings, &f.origin.sheet, f.origin.row, "size_out");
-                ctx.error(cell, "the outlet size has no bore on this line and none can be looked up".into(), Some("list a run of that size on the line, or write the outlet as ID in mm".into()));
+                let cell = ctx.cell(
+                    TableKind::Fittings,
+                    &f.origin.sheet,
+                    f.origin.row,
+                    "size_out",
+                );
+                ctx.error(
+                    cell,
+                    "the outlet size has no bore on this line and none can be looked up".into(),
+                    Some(
+                        "list a run of that size on the line, or write the outlet as ID in mm"
+                            .into(),
+                    ),
+                );
                 continue;
             }
             None => None,
         };
-        let area = |d: f64| std::f64::consts::PI * d * d / 4.0;
-        let v_in = state.flow_m3_s / area(d_in);
-        let re_in = state.props.density_kg_m3 * v_in * d_in / state.props.viscosity_pa_s;
         let nps_in = match (matched, key) {
             (None, Some(SizeKey::Dn(dn))) => pipe::dn_to_nps(dn),
             _ => r.nps,
@@ -313,7 +510,7 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
             nps_in,
             d_in_m: d_in,
             d_out_m: d_out,
-            re_in,
+            re_in: 0.0,
             relative_roughness: r.eps_m / d_in,
             opening: f.opening,
             k_given: f.k,
@@ -326,11 +523,25 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
             beta: f.beta,
             ..FittingInput::default()
         };
-        match fitting::evaluate(f.kind, &fin) {
-            Ok(k) => {
-                let v = state.flow_m3_s / area(k.reference_diameter_m);
-                let re = state.props.density_kg_m3 * v * k.reference_diameter_m / state.props.viscosity_pa_s;
-                let dyn_head = v * v / (2.0 * G);
+        let model = FittingModel {
+            kind: f.kind,
+            input: fin,
+            qty: f.qty,
+        };
+        match fitting_at(
+            &model,
+            state.flow_m3_s,
+            state.props.density_kg_m3,
+            state.props.viscosity_pa_s,
+        ) {
+            Ok(FittingHeads {
+                k,
+                velocity_m_s: v,
+                reynolds: re,
+                head_m,
+                head_low_m,
+                head_high_m,
+            }) => {
                 if !kinds_used.contains(&f.kind.id) {
                     kinds_used.push(f.kind.id);
                 }
@@ -348,14 +559,23 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
                     reference_diameter_m: k.reference_diameter_m,
                     velocity_m_s: v,
                     reynolds: re,
-                    head_m: k.k * dyn_head * f.qty,
-                    head_low_m: k.k_low * dyn_head * f.qty,
-                    head_high_m: k.k_high * dyn_head * f.qty,
-                    dp_pa: k.k * dyn_head * f.qty * state.props.density_kg_m3 * G,
+                    head_m,
+                    head_low_m,
+                    head_high_m,
+                    dp_pa: head_m * state.props.density_kg_m3 * G,
                     model: k.model,
                     source: k.source,
                     opening: f.opening,
                     replacement_cost: f.replacement_cost,
+                    power_loss_w: None,
+                    annual_energy_kwh: None,
+                    annual_cost: None,
+                    annual_co2_kg: None,
+                    rank: None,
+                    rank_uncertain: None,
+                    suggestion: None,
+                    ranking: None,
+                    eval: model,
                 });
             }
             Err(fitting::FittingError::Closed { .. }) => closed.push(f),
@@ -380,12 +600,19 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
     let totals = fit_df
         .and_then(|fit| {
             let mut df = runs_df.clone();
-            df.with_column(polars::prelude::Column::new(table::col::HEAD.into(), run_heads))?;
+            df.with_column(polars::prelude::Column::new(
+                table::col::HEAD.into(),
+                run_heads,
+            ))?;
             table::line_totals(&df, &fit)
         })
         .map_err(internal)?;
     let totals: HashMap<String, table::LineTotals> = totals.into_iter().collect();
 
+    let mut run_index: HashMap<&str, Vec<usize>> = HashMap::new();
+    for (i, r) in runs.iter().enumerate() {
+        run_index.entry(r.line.as_str()).or_default().push(i);
+    }
     let mut lines = Vec::with_capacity(line_order.len());
     for l in &line_order {
         let s = &states[l];
@@ -400,7 +627,11 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
             temperature_c: s.temperature_c,
             density_kg_m3: s.props.density_kg_m3,
             viscosity_pa_s: s.props.viscosity_pa_s,
-            vapour_pressure_pa: s.props.vapour_pressure_pa.is_finite().then_some(s.props.vapour_pressure_pa),
+            vapour_pressure_pa: s
+                .props
+                .vapour_pressure_pa
+                .is_finite()
+                .then_some(s.props.vapour_pressure_pa),
             elevation_change_m: s.elevation_change_m,
             length_m: t.length_m,
             friction_head_m: t.friction_head_m,
@@ -410,12 +641,30 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
             total_head_high_m: t.friction_head_m + t.fittings_head_high_m,
             total_dp_pa: total * s.props.density_kg_m3 * G,
             max_velocity_m_s: t.max_velocity_m_s,
-            runs: (0..runs.len()).filter(|&i| runs[i].line == *l).collect(),
+            runs: run_index.get(l.as_str()).cloned().unwrap_or_default(),
+            power_loss_w: None,
+            annual_energy_kwh: None,
+            annual_cost: None,
+            annual_co2_kg: None,
+            efficiency: None,
+            efficiency_basis: "",
+            hours_per_year: None,
         });
     }
     kinds_used.sort_unstable();
 
-    let mut audit = Audit { lines, runs, fittings, findings: Vec::new(), fluids: fluids_used, kinds_used, rules: rules.clone(), notes: Vec::new() };
+    let mut audit = Audit {
+        lines,
+        runs,
+        fittings,
+        findings: Vec::new(),
+        fluids: fluids_used,
+        kinds_used,
+        rules: rules.clone(),
+        notes: Vec::new(),
+        energy: Default::default(),
+        systems: Vec::new(),
+    };
     for (f, run) in mismatches {
         super::findings::size_mismatch(input, &mut audit, f, run);
     }
@@ -428,18 +677,192 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
 /// Bore of a size written on a fitting that matches no run: looked up with the run's material and schedule.
 fn bore_of_key(key: SizeKey, p: &PipeRow, r: &ResolvedRun) -> Option<f64> {
     match key {
-        SizeKey::Dn(dn) => pipe::bore(p.material, dn, p.schedule).ok().map(|b| b.inner_diameter_m),
-        SizeKey::Od(od) => pipe::bore_from_od(p.material, od as f64 * 1e-4, p.schedule).ok().map(|b| b.inner_diameter_m),
+        SizeKey::Dn(dn) => pipe::bore(p.material, dn, p.schedule)
+            .ok()
+            .map(|b| b.inner_diameter_m),
+        SizeKey::Od(od) => pipe::bore_from_od(p.material, od as f64 * 1e-4, p.schedule)
+            .ok()
+            .map(|b| b.inner_diameter_m),
         SizeKey::Bore(b) => Some(b as f64 * 1e-4).filter(|d| *d > 0.0 && r.d_m > 0.0),
     }
 }
 
 /// A fitting row's description for messages: tag, else item.
 pub fn fitting_label(f: &FittingRow) -> String {
-    if f.tag.is_empty() { f.item.clone() } else { format!("{} ({})", f.tag, f.item) }
+    if f.tag.is_empty() {
+        f.item.clone()
+    } else {
+        format!("{} ({})", f.tag, f.item)
+    }
 }
 
 /// Whether a regime is the transition band.
 pub fn is_transition(r: Regime) -> bool {
     r == Regime::Transition
+}
+
+/// Friction of one run at one flow.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct RunFriction {
+    /// Darcy factor (0 for Hazen–Williams runs).
+    pub factor: f64,
+    /// Regime at this flow.
+    pub regime: Regime,
+    /// Method used.
+    pub method: &'static str,
+    /// Friction head, m.
+    pub head_m: f64,
+}
+
+/// Friction head of one run (bore `d_m`, length, roughness, optional Hazen–Williams C) at a flow
+/// whose mean velocity and Reynolds number are given. The one place run friction is computed:
+/// the audit at duty flow and the system curve at other flows both call it.
+pub fn run_friction(
+    d_m: f64,
+    length_m: f64,
+    eps_m: f64,
+    c_factor: Option<f64>,
+    flow_m3_s: f64,
+    velocity_m_s: f64,
+    reynolds: f64,
+) -> RunFriction {
+    let f = friction::darcy_friction(reynolds, eps_m / d_m);
+    match c_factor {
+        Some(c) => RunFriction {
+            factor: 0.0,
+            regime: f.regime,
+            method: "Hazen–Williams",
+            head_m: friction::hazen_williams_head(length_m, flow_m3_s, c, d_m),
+        },
+        None => RunFriction {
+            factor: f.factor,
+            regime: f.regime,
+            method: "Darcy–Weisbach with Colebrook–White",
+            head_m: friction::darcy_weisbach_head(f.factor, length_m, d_m, velocity_m_s),
+        },
+    }
+}
+
+/// What is needed to evaluate one fitting row at any flow: its kind, the model input (bores,
+/// roughness, opening, given values; `re_in` is set per flow) and its quantity.
+#[derive(Clone, Copy, Debug)]
+pub struct FittingModel {
+    /// Catalogue kind.
+    pub kind: &'static Kind,
+    /// Model input; `re_in` is overwritten by [`fitting_at`].
+    pub input: FittingInput,
+    /// Quantity.
+    pub qty: f64,
+}
+
+/// One fitting row's K and heads at one flow.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct FittingHeads {
+    /// K per item with its band and reference bore.
+    pub k: FittingK,
+    /// Velocity in the reference bore, m/s.
+    pub velocity_m_s: f64,
+    /// Reynolds number in the reference bore.
+    pub reynolds: f64,
+    /// Head for the quantity, m.
+    pub head_m: f64,
+    /// Low end, m.
+    pub head_low_m: f64,
+    /// High end, m.
+    pub head_high_m: f64,
+}
+
+/// Evaluate a fitting at a flow: Reynolds number at the inlet bore, K from its model (so
+/// Re-dependent models such as Darby 3-K are re-evaluated), and h = K v²/2g × quantity with v in
+/// the bore K refers to. The one place fitting heads are computed.
+pub fn fitting_at(
+    model: &FittingModel,
+    flow_m3_s: f64,
+    density_kg_m3: f64,
+    viscosity_pa_s: f64,
+) -> Result<FittingHeads, FittingError> {
+    let area = |d: f64| std::f64::consts::PI * d * d / 4.0;
+    let d_in = model.input.d_in_m;
+    let v_in = flow_m3_s / area(d_in);
+    let input = FittingInput {
+        re_in: density_kg_m3 * v_in * d_in / viscosity_pa_s,
+        ..model.input
+    };
+    let k = fitting::evaluate(model.kind, &input)?;
+    let v = flow_m3_s / area(k.reference_diameter_m);
+    let re = density_kg_m3 * v * k.reference_diameter_m / viscosity_pa_s;
+    let dyn_head = v * v / (2.0 * G);
+    Ok(FittingHeads {
+        k,
+        velocity_m_s: v,
+        reynolds: re,
+        head_m: k.k * dyn_head * model.qty,
+        head_low_m: k.k_low * dyn_head * model.qty,
+        head_high_m: k.k_high * dyn_head * model.qty,
+    })
+}
+
+/// A line's losses re-evaluated at another flow.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct LineHeads {
+    /// Flow, m³/s.
+    pub flow_m3_s: f64,
+    /// Friction head, m.
+    pub friction_head_m: f64,
+    /// Fittings head, m.
+    pub fittings_head_m: f64,
+    /// Total, m.
+    pub total_head_m: f64,
+    /// Regime of the line's first run at this flow (None without runs).
+    pub regime: Option<Regime>,
+}
+
+/// Re-run one line's runs and fittings at `flow_m3_s` (same fluid), recomputing Reynolds
+/// numbers, friction factors and Re-dependent K values; zero flow gives zero loss.
+///
+/// Fittings whose K cannot be evaluated at the new flow are left out (none is expected: the same
+/// inputs evaluated at duty flow).
+pub fn line_heads_at(audit: &Audit, line: &LineResult, flow_m3_s: f64) -> LineHeads {
+    let (rho, mu) = (line.density_kg_m3, line.viscosity_pa_s);
+    let first_regime = line.runs.first().map(|&i| {
+        let r = &audit.runs[i];
+        let v = flow_m3_s / (std::f64::consts::PI * r.inner_diameter_m * r.inner_diameter_m / 4.0);
+        friction::darcy_friction(
+            rho * v * r.inner_diameter_m / mu,
+            r.roughness_m / r.inner_diameter_m,
+        )
+        .regime
+    });
+    if flow_m3_s.is_nan() || flow_m3_s <= 0.0 {
+        return LineHeads {
+            flow_m3_s,
+            friction_head_m: 0.0,
+            fittings_head_m: 0.0,
+            total_head_m: 0.0,
+            regime: first_regime,
+        };
+    }
+    let mut friction_head_m = 0.0;
+    for &i in &line.runs {
+        let r = &audit.runs[i];
+        let d = r.inner_diameter_m;
+        let v = flow_m3_s / (std::f64::consts::PI * d * d / 4.0);
+        let re = rho * v * d / mu;
+        friction_head_m +=
+            run_friction(d, r.length_m, r.roughness_m, r.c_factor, flow_m3_s, v, re).head_m;
+    }
+    let fittings_head_m: f64 = audit
+        .fittings
+        .iter()
+        .filter(|f| f.line == line.line)
+        .filter_map(|f| fitting_at(&f.eval, flow_m3_s, rho, mu).ok())
+        .map(|h| h.head_m)
+        .sum();
+    LineHeads {
+        flow_m3_s,
+        friction_head_m,
+        fittings_head_m,
+        total_head_m: friction_head_m + fittings_head_m,
+        regime: first_regime,
+    }
 }

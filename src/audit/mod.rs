@@ -4,9 +4,11 @@
 //! error-level diagnostics that stop it (problems that only show once physics is applied, such as
 //! a size with no bore table or a temperature outside the water model).
 
+pub mod energy;
 pub mod findings;
 pub mod lines;
 pub mod rules;
+pub mod system;
 
 use serde::Serialize;
 
@@ -54,6 +56,9 @@ pub struct RunResult {
     pub head_m: f64,
     /// Friction pressure loss, Pa.
     pub dp_pa: f64,
+    /// Hazen–Williams C when given (kept to re-run the run at other flows).
+    #[serde(skip)]
+    pub c_factor: Option<f64>,
 }
 
 /// One fitting row's results (head and Δp for the whole quantity).
@@ -102,6 +107,26 @@ pub struct FittingResult {
     pub opening: Option<f64>,
     /// Replacement cost, when given.
     pub replacement_cost: Option<f64>,
+    /// Hydraulic power dissipated, W (Δp·Q); filled by the energy review.
+    pub power_loss_w: Option<f64>,
+    /// Electrical energy per year the loss costs the pump, kWh (None on gravity lines).
+    pub annual_energy_kwh: Option<f64>,
+    /// Cost per year of that energy, in the rules' currency (None on gravity lines).
+    pub annual_cost: Option<f64>,
+    /// Emissions per year, kg CO₂ (None unless the rules give an emission factor).
+    pub annual_co2_kg: Option<f64>,
+    /// Rank among all fittings by annual cost (head loss where no energy applies); 1 is worst.
+    pub rank: Option<usize>,
+    /// True when the rank can move by more than a few places across the K band.
+    pub rank_uncertain: Option<bool>,
+    /// The lower-loss alternative, when one applies.
+    pub suggestion: Option<energy::Suggestion>,
+    /// Ranking details (share, rank range), filled by the energy review.
+    #[serde(skip)]
+    pub ranking: Option<energy::Ranking>,
+    /// What is needed to re-evaluate the item at another flow or as another kind.
+    #[serde(skip)]
+    pub eval: lines::FittingModel,
 }
 
 /// One line's totals.
@@ -149,6 +174,23 @@ pub struct LineResult {
     /// Runs of the line, in order (indices into [`Audit::runs`]).
     #[serde(skip)]
     pub runs: Vec<usize>,
+    /// Hydraulic power dissipated by the line's losses, W (Δp·Q); filled by the energy review.
+    pub power_loss_w: Option<f64>,
+    /// Electrical energy per year the losses cost the pump, kWh (None on gravity lines).
+    pub annual_energy_kwh: Option<f64>,
+    /// Cost per year of that energy, in the rules' currency (None on gravity lines).
+    pub annual_cost: Option<f64>,
+    /// Emissions per year, kg CO₂ (None unless the rules give an emission factor).
+    pub annual_co2_kg: Option<f64>,
+    /// Wire-to-water efficiency used (None on gravity lines).
+    #[serde(skip)]
+    pub efficiency: Option<f64>,
+    /// Where the efficiency came from.
+    #[serde(skip)]
+    pub efficiency_basis: &'static str,
+    /// Running hours per year used.
+    #[serde(skip)]
+    pub hours_per_year: Option<f64>,
 }
 
 /// Fluid properties used, for the Basis sheet.
@@ -183,12 +225,19 @@ pub struct Audit {
     pub rules: Rules,
     /// Non-error diagnostics from reading (warnings, assumed values), carried into the report.
     pub notes: Vec<Diagnostic>,
+    /// Station energy totals.
+    pub energy: energy::EnergySummary,
+    /// Pumped systems: required head, pump head, NPSH, system curve.
+    pub systems: Vec<system::SystemResult>,
 }
 
 impl Audit {
     /// Count of findings of a severity.
     pub fn count(&self, severity: Severity) -> usize {
-        self.findings.iter().filter(|f| f.severity == severity).count()
+        self.findings
+            .iter()
+            .filter(|f| f.severity == severity)
+            .count()
     }
 }
 
@@ -196,10 +245,18 @@ impl Audit {
 /// or when applying the physics reveals them.
 pub fn run(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
     if input.error_count() > 0 {
-        return Err(input.diagnostics.iter().filter(|d| d.severity == Severity::Error).cloned().collect());
+        return Err(input
+            .diagnostics
+            .iter()
+            .filter(|d| d.severity == Severity::Error)
+            .cloned()
+            .collect());
     }
     let mut audit = lines::compute(input, rules)?;
     findings::apply(input, rules, &mut audit);
+    energy::apply(input, rules, &mut audit);
+    system::apply(input, rules, &mut audit);
+    findings::sort(&mut audit.findings);
     audit.notes = input.diagnostics.clone();
     Ok(audit)
 }

@@ -30,7 +30,9 @@ pub struct GradientRule {
 
 impl Default for GradientRule {
     fn default() -> Self {
-        GradientRule { max_m_per_100m: 4.0 }
+        GradientRule {
+            max_m_per_100m: 4.0,
+        }
     }
 }
 
@@ -46,7 +48,10 @@ pub struct FittingRule {
 
 impl Default for FittingRule {
     fn default() -> Self {
-        FittingRule { max_share: 0.25, max_k: 5.0 }
+        FittingRule {
+            max_share: 0.25,
+            max_k: 5.0,
+        }
     }
 }
 
@@ -106,7 +111,11 @@ pub struct NpshRule {
 
 impl Default for NpshRule {
     fn default() -> Self {
-        NpshRule { margin_ratio: 1.1, margin_min_m: 0.6, site_elevation_m: 0.0 }
+        NpshRule {
+            margin_ratio: 1.1,
+            margin_min_m: 0.6,
+            site_elevation_m: 0.0,
+        }
     }
 }
 
@@ -130,7 +139,10 @@ pub struct Rules {
 
 impl Default for Rules {
     fn default() -> Self {
-        let band = |min: Option<f64>, max: Option<f64>| VelocityBand { min_m_s: min, max_m_s: max };
+        let band = |min: Option<f64>, max: Option<f64>| VelocityBand {
+            min_m_s: min,
+            max_m_s: max,
+        };
         let velocity = BTreeMap::from([
             ("pump-suction".to_string(), band(Some(0.6), Some(1.5))),
             ("pump-discharge".to_string(), band(Some(1.0), Some(3.0))),
@@ -204,13 +216,19 @@ impl Rules {
             #[serde(default)]
             npsh: Option<NpshRule>,
         }
-        let p: Partial = toml::from_str(text).map_err(|e| RulesError::Parse { path: path.into(), message: e.to_string() })?;
+        let p: Partial = toml::from_str(text).map_err(|e| RulesError::Parse {
+            path: path.into(),
+            message: e.to_string(),
+        })?;
         let mut rules = Rules::default();
         for (service, band) in p.velocity {
             if Service::ALL.iter().all(|s| s.id() != service) {
                 return Err(RulesError::Parse {
                     path: path.into(),
-                    message: format!("[velocity.{service}]: unknown service (use {})", Service::ALL.map(Service::id).join(", ")),
+                    message: format!(
+                        "[velocity.{service}]: unknown service (use {})",
+                        Service::ALL.map(Service::id).join(", ")
+                    ),
                 });
             }
             rules.velocity.insert(service, band);
@@ -227,7 +245,10 @@ impl Rules {
     /// Read a rules file.
     pub fn from_file(path: &std::path::Path) -> Result<Rules, RulesError> {
         let p = path.display().to_string();
-        let text = std::fs::read_to_string(path).map_err(|source| RulesError::Io { path: p.clone(), source })?;
+        let text = std::fs::read_to_string(path).map_err(|source| RulesError::Io {
+            path: p.clone(),
+            source,
+        })?;
         Rules::from_toml(&text, &p)
     }
 
@@ -236,29 +257,99 @@ impl Rules {
             if ok && value.is_finite() {
                 Ok(())
             } else {
-                Err(RulesError::Range { path: path.into(), key: key.into(), value, why })
+                Err(RulesError::Range {
+                    path: path.into(),
+                    key: key.into(),
+                    value,
+                    why,
+                })
             }
         };
         for (s, b) in &self.velocity {
             if let Some(v) = b.min_m_s {
-                check(&format!("velocity.{s}.min_m_s"), v, v >= 0.0, "must be zero or more")?;
+                check(
+                    &format!("velocity.{s}.min_m_s"),
+                    v,
+                    v >= 0.0,
+                    "must be zero or more",
+                )?;
             }
             if let Some(v) = b.max_m_s {
-                check(&format!("velocity.{s}.max_m_s"), v, v > 0.0, "must be above zero")?;
+                check(
+                    &format!("velocity.{s}.max_m_s"),
+                    v,
+                    v > 0.0,
+                    "must be above zero",
+                )?;
             }
         }
-        check("gradient.max_m_per_100m", self.gradient.max_m_per_100m, self.gradient.max_m_per_100m > 0.0, "must be above zero")?;
-        check("fitting.max_share", self.fitting.max_share, (0.0..=1.0).contains(&self.fitting.max_share), "must be a fraction 0..1")?;
-        check("fitting.max_k", self.fitting.max_k, self.fitting.max_k > 0.0, "must be above zero")?;
+        check(
+            "gradient.max_m_per_100m",
+            self.gradient.max_m_per_100m,
+            self.gradient.max_m_per_100m > 0.0,
+            "must be above zero",
+        )?;
+        check(
+            "fitting.max_share",
+            self.fitting.max_share,
+            (0.0..=1.0).contains(&self.fitting.max_share),
+            "must be a fraction 0..1",
+        )?;
+        check(
+            "fitting.max_k",
+            self.fitting.max_k,
+            self.fitting.max_k > 0.0,
+            "must be above zero",
+        )?;
         let e = &self.energy;
-        check("energy.tariff_per_kwh", e.tariff_per_kwh, e.tariff_per_kwh >= 0.0, "must be zero or more")?;
-        check("energy.efficiency", e.efficiency, e.efficiency > 0.0 && e.efficiency <= 1.0, "must be a fraction in (0, 1]")?;
-        check("energy.hours_per_year", e.hours_per_year, (0.0..=8784.0).contains(&e.hours_per_year), "must be 0..8784")?;
-        check("energy.kg_co2_per_kwh", e.kg_co2_per_kwh, e.kg_co2_per_kwh >= 0.0, "must be zero or more")?;
-        check("valve.min_opening", self.valve.min_opening, (0.0..=1.0).contains(&self.valve.min_opening), "must be a fraction 0..1")?;
-        check("npsh.margin_ratio", self.npsh.margin_ratio, self.npsh.margin_ratio >= 1.0, "must be 1 or more")?;
-        check("npsh.margin_min_m", self.npsh.margin_min_m, self.npsh.margin_min_m >= 0.0, "must be zero or more")?;
-        check("npsh.site_elevation_m", self.npsh.site_elevation_m, (-500.0..=6000.0).contains(&self.npsh.site_elevation_m), "must be -500..6000 m")?;
+        check(
+            "energy.tariff_per_kwh",
+            e.tariff_per_kwh,
+            e.tariff_per_kwh >= 0.0,
+            "must be zero or more",
+        )?;
+        check(
+            "energy.efficiency",
+            e.efficiency,
+            e.efficiency > 0.0 && e.efficiency <= 1.0,
+            "must be a fraction in (0, 1]",
+        )?;
+        check(
+            "energy.hours_per_year",
+            e.hours_per_year,
+            (0.0..=8784.0).contains(&e.hours_per_year),
+            "must be 0..8784",
+        )?;
+        check(
+            "energy.kg_co2_per_kwh",
+            e.kg_co2_per_kwh,
+            e.kg_co2_per_kwh >= 0.0,
+            "must be zero or more",
+        )?;
+        check(
+            "valve.min_opening",
+            self.valve.min_opening,
+            (0.0..=1.0).contains(&self.valve.min_opening),
+            "must be a fraction 0..1",
+        )?;
+        check(
+            "npsh.margin_ratio",
+            self.npsh.margin_ratio,
+            self.npsh.margin_ratio >= 1.0,
+            "must be 1 or more",
+        )?;
+        check(
+            "npsh.margin_min_m",
+            self.npsh.margin_min_m,
+            self.npsh.margin_min_m >= 0.0,
+            "must be zero or more",
+        )?;
+        check(
+            "npsh.site_elevation_m",
+            self.npsh.site_elevation_m,
+            (-500.0..=6000.0).contains(&self.npsh.site_elevation_m),
+            "must be -500..6000 m",
+        )?;
         Ok(())
     }
 
@@ -274,7 +365,10 @@ mod tests {
 
     #[test]
     fn printed_defaults_are_the_built_in_defaults() {
-        assert_eq!(Rules::from_toml(DEFAULT_RULES_TOML, "defaults").unwrap(), Rules::default());
+        assert_eq!(
+            Rules::from_toml(DEFAULT_RULES_TOML, "defaults").unwrap(),
+            Rules::default()
+        );
     }
 
     #[test]
@@ -282,7 +376,10 @@ mod tests {
         let r = Rules::from_toml("[energy]\ntariff_per_kwh = 0.3\ncurrency = \"GBP\"\nefficiency = 0.65\nhours_per_year = 4000.0\nkg_co2_per_kwh = 0.0\n[velocity.general]\nmax_m_s = 2.5\n", "t").unwrap();
         assert_eq!(r.energy.tariff_per_kwh, 0.3);
         assert_eq!(r.band(Service::General).max_m_s, Some(2.5));
-        assert_eq!(r.band(Service::PumpSuction), Rules::default().band(Service::PumpSuction));
+        assert_eq!(
+            r.band(Service::PumpSuction),
+            Rules::default().band(Service::PumpSuction)
+        );
         assert_eq!(r.gradient, GradientRule::default());
     }
 

@@ -5,22 +5,91 @@ use comfy_table::{Table, presets::UTF8_FULL_CONDENSED};
 use crate::audit::Audit;
 use crate::error::Severity;
 
-/// Render the summary as text.
+/// Units of reported figures (console and the workbook's computed columns; JSON is always SI).
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, clap::ValueEnum)]
+pub enum UnitSystem {
+    /// m, mm, m³/h, kPa, m/s, m of head.
+    #[default]
+    Si,
+    /// US customary: ft, in, US gpm, psi, ft/s, ft of head.
+    Us,
+}
+
+/// An SI unit label of a report column and its US customary replacement with the factor from
+/// the SI value in that label: `si_value * factor = us_value`. None when the label stays.
+///
+/// # Source
+/// NIST SP 811 (2008) B.8 via the constants in [`crate::units`].
+pub fn us_unit(si_label: &str) -> Option<(&'static str, f64)> {
+    use crate::units::{FT_M, IN_M, LB_KG, PSI_PA, US_GAL_M3};
+    Some(match si_label {
+        "m" => ("ft", 1.0 / FT_M),
+        "mm" => ("in", 1e-3 / IN_M),
+        "m/s" => ("ft/s", 1.0 / FT_M),
+        "kPa" => ("psi", 1e3 / PSI_PA),
+        "Pa" => ("psi", 1.0 / PSI_PA),
+        "m3/h" => ("US gpm", 1.0 / 3600.0 / (US_GAL_M3 / 60.0)),
+        "m3/s" => ("US gpm", 1.0 / (US_GAL_M3 / 60.0)),
+        "kg/m3" => ("lb/ft3", FT_M * FT_M * FT_M / LB_KG),
+        "m/100 m" => ("ft/100 ft", 1.0),
+        _ => return None,
+    })
+}
+
+/// A header `Name [unit]` in the given units: the new header and the factor on its values.
+pub fn header_in(header: &str, units: UnitSystem) -> (String, f64) {
+    if units == UnitSystem::Si {
+        return (header.to_string(), 1.0);
+    }
+    if let Some((name, rest)) = header.split_once('[')
+        && let Some(label) = rest.strip_suffix(']')
+        && let Some((us, factor)) = us_unit(label)
+    {
+        return (format!("{name}[{us}]"), factor);
+    }
+    (header.to_string(), 1.0)
+}
+
+/// Render the summary as text (SI units).
 pub fn summary(audit: &Audit) -> String {
+    summary_in(audit, UnitSystem::Si)
+}
+
+/// Render the summary as text in the given units.
+pub fn summary_in(audit: &Audit, units: UnitSystem) -> String {
     let mut out = String::new();
     let mut t = Table::new();
     t.load_style(UTF8_FULL_CONDENSED);
-    t.set_header(["Line", "Service", "Flow m³/h", "Length m", "Friction m", "Fittings m", "Total m (range)", "Max v m/s"]);
+    let (flow, fq) = header_in("[m3/h]", units);
+    let (len, fl) = header_in("[m]", units);
+    let (vel, fv) = header_in("[m/s]", units);
+    let strip = |s: String| s.trim_matches(['[', ']']).to_string();
+    let (flow, len, vel) = (strip(flow), strip(len), strip(vel));
+    t.set_header([
+        "Line".to_string(),
+        "Service".to_string(),
+        format!("Flow {flow}"),
+        format!("Length {len}"),
+        format!("Friction {len}"),
+        format!("Fittings {len}"),
+        format!("Total {len} (range)"),
+        format!("Max v {vel}"),
+    ]);
     for l in &audit.lines {
         t.add_row([
             l.line.clone(),
             l.service.id().to_string(),
-            format!("{:.1}", l.flow_m3_s * 3600.0),
-            format!("{:.1}", l.length_m),
-            format!("{:.3}", l.friction_head_m),
-            format!("{:.3}", l.fittings_head_m),
-            format!("{:.3} ({:.3}–{:.3})", l.total_head_m, l.total_head_low_m, l.total_head_high_m),
-            format!("{:.2}", l.max_velocity_m_s),
+            format!("{:.1}", l.flow_m3_s * 3600.0 * fq),
+            format!("{:.1}", l.length_m * fl),
+            format!("{:.3}", l.friction_head_m * fl),
+            format!("{:.3}", l.fittings_head_m * fl),
+            format!(
+                "{:.3} ({:.3}–{:.3})",
+                l.total_head_m * fl,
+                l.total_head_low_m * fl,
+                l.total_head_high_m * fl
+            ),
+            format!("{:.2}", l.max_velocity_m_s * fv),
         ]);
     }
     out.push_str(&t.to_string());
@@ -30,21 +99,34 @@ pub fn summary(audit: &Audit) -> String {
     if !worst.is_empty() {
         let mut t = Table::new();
         t.load_style(UTF8_FULL_CONDENSED);
-        t.set_header(["Worst fittings", "Line", "Kind", "Qty", "K", "Head m", "Cell"]);
+        t.set_header([
+            "Worst fittings".to_string(),
+            "Line".into(),
+            "Kind".into(),
+            "Qty".into(),
+            "K".into(),
+            format!("Head {len}"),
+            "Cell".into(),
+        ]);
         for f in worst.iter().take(5) {
             t.add_row([
-                if f.tag.is_empty() { f.item.clone() } else { f.tag.clone() },
+                if f.tag.is_empty() {
+                    f.item.clone()
+                } else {
+                    f.tag.clone()
+                },
                 f.line.clone(),
                 f.kind.to_string(),
                 format!("{}", f.qty),
                 format!("{:.2}", f.k),
-                format!("{:.3}", f.head_m),
+                format!("{:.3}", f.head_m * fl),
                 f.cell.to_string(),
             ]);
         }
         out.push_str(&t.to_string());
         out.push('\n');
     }
+    out.push_str(&super::ranking::console_energy(audit));
     out.push_str(&format!(
         "Findings: {} error, {} warning, {} info\n",
         audit.count(Severity::Error),

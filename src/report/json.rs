@@ -2,7 +2,7 @@
 
 use serde::Serialize;
 
-use crate::audit::{Audit, FittingResult, Finding, LineResult, RunResult};
+use crate::audit::{Audit, Finding, FittingResult, LineResult, RunResult};
 use crate::ingest::Input;
 
 /// Top-level JSON document.
@@ -18,6 +18,12 @@ pub struct Document<'a> {
     pub fittings: &'a [FittingResult],
     /// Findings.
     pub findings: &'a [Finding],
+    /// Pumped systems.
+    pub systems: &'a [crate::audit::system::SystemResult],
+    /// Station energy totals.
+    pub energy: &'a crate::audit::energy::EnergySummary,
+    /// The caution on every saving and payback.
+    pub savings_caution: &'static str,
     /// The caution that applies to every figure.
     pub caution: &'static str,
 }
@@ -45,10 +51,23 @@ pub struct JsonLine<'a> {
 pub fn document<'a>(input: &'a Input, audit: &'a Audit) -> Document<'a> {
     Document {
         lossledger: env!("CARGO_PKG_VERSION"),
-        input: InputRef { file: &input.file, sha256: &input.sha256 },
-        lines: audit.lines.iter().map(|l| JsonLine { line: l, runs: l.runs.iter().map(|&i| &audit.runs[i]).collect() }).collect(),
+        input: InputRef {
+            file: &input.file,
+            sha256: &input.sha256,
+        },
+        lines: audit
+            .lines
+            .iter()
+            .map(|l| JsonLine {
+                line: l,
+                runs: l.runs.iter().map(|&i| &audit.runs[i]).collect(),
+            })
+            .collect(),
         fittings: &audit.fittings,
         findings: &audit.findings,
+        systems: &audit.systems,
+        energy: &audit.energy,
+        savings_caution: crate::audit::energy::SAVINGS_CAUTION,
         caution: super::CAUTION,
     }
 }

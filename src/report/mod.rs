@@ -2,6 +2,7 @@
 
 pub mod console;
 pub mod json;
+pub mod ranking;
 pub mod workbook;
 
 use std::path::{Path, PathBuf};
@@ -16,7 +17,10 @@ decisions must rest on site measurement, manufacturer data, local codes and lice
 
 /// Default output path: `INPUT.audit.xlsx` beside the input.
 pub fn default_output(input: &Path) -> PathBuf {
-    let stem = input.file_stem().and_then(|s| s.to_str()).unwrap_or("input");
+    let stem = input
+        .file_stem()
+        .and_then(|s| s.to_str())
+        .unwrap_or("input");
     input.with_file_name(format!("{stem}.audit.xlsx"))
 }
 
@@ -26,7 +30,9 @@ pub fn check_not_input(out: &Path, inputs: &[PathBuf]) -> Result<(), OutputError
     let out_c = canon(out);
     for i in inputs {
         if out == i || (out_c.is_some() && out_c == canon(i)) {
-            return Err(OutputError::WouldOverwriteInput { path: out.display().to_string() });
+            return Err(OutputError::WouldOverwriteInput {
+                path: out.display().to_string(),
+            });
         }
     }
     Ok(())
@@ -35,20 +41,68 @@ pub fn check_not_input(out: &Path, inputs: &[PathBuf]) -> Result<(), OutputError
 /// Write bytes to `path` through a temporary file in the same folder, renamed into place, so a
 /// failure never leaves a partial file under the final name.
 pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), OutputError> {
-    use std::io::Write;
-    let io = |source| OutputError::Io { path: path.display().to_string(), source };
-    let dir = path.parent().filter(|p| !p.as_os_str().is_empty()).unwrap_or(Path::new("."));
-    let name = path.file_name().and_then(|n| n.to_str()).unwrap_or("output");
-    let tmp = dir.join(format!(".{name}.{}.tmp", std::process::id()));
-    let result = (|| {
-        let mut f = std::fs::File::create(&tmp)?;
-        f.write_all(bytes)?;
-        f.sync_all()?;
-        std::fs::rename(&tmp, path)
-    })();
-    if let Err(e) = result {
-        let _ = std::fs::remove_file(&tmp);
-        return Err(io(e));
+    stage(path, bytes)?.commit()
+}
+
+/// An output written in full under a temporary name beside its target, not yet renamed into place.
+/// Dropping it without [`Staged::commit`] removes the temporary file, so a run that fails after
+/// staging some outputs leaves none of them.
+#[derive(Debug)]
+pub struct Staged {
+    tmp: PathBuf,
+    path: PathBuf,
+    committed: bool,
+}
+
+impl Staged {
+    /// Rename the temporary file onto the target path.
+    pub fn commit(mut self) -> Result<(), OutputError> {
+        std::fs::rename(&self.tmp, &self.path).map_err(|source| OutputError::Io {
+            path: self.path.display().to_string(),
+            source,
+        })?;
+        self.committed = true;
+        Ok(())
     }
-    Ok(())
+}
+
+impl Drop for Staged {
+    fn drop(&mut self) {
+        if !self.committed {
+            let _ = std::fs::remove_file(&self.tmp);
+        }
+    }
+}
+
+/// Write `bytes` to a temporary file in `path`'s folder (flushed to disk) without touching `path`.
+/// A target that is a folder is refused before anything is written.
+pub fn stage(path: &Path, bytes: &[u8]) -> Result<Staged, OutputError> {
+    use std::io::Write;
+    let io = |source| OutputError::Io {
+        path: path.display().to_string(),
+        source,
+    };
+    if path.is_dir() {
+        return Err(io(std::io::Error::new(
+            std::io::ErrorKind::IsADirectory,
+            "is a folder, not a file",
+        )));
+    }
+    let dir = path
+        .parent()
+        .filter(|p| !p.as_os_str().is_empty())
+        .unwrap_or(Path::new("."));
+    let name = path
+        .file_name()
+        .and_then(|n| n.to_str())
+        .unwrap_or("output");
+    let staged = Staged {
+        tmp: dir.join(format!(".{name}.{}.tmp", std::process::id())),
+        path: path.to_path_buf(),
+        committed: false,
+    };
+    let mut f = std::fs::File::create(&staged.tmp).map_err(io)?;
+    f.write_all(bytes).map_err(io)?;
+    f.sync_all().map_err(io)?;
+    Ok(staged)
 }

@@ -3,14 +3,15 @@
 
 use calamine::Data;
 use rust_xlsxwriter::{
-    Color, DocProperties, ExcelDateTime, Format, FormatAlign, FormatBorder, Formula, Note, Table, TableColumn, Workbook,
-    Worksheet, XlsxError,
+    Color, DocProperties, ExcelDateTime, Format, FormatAlign, FormatBorder, Formula, Note, Table,
+    TableColumn, Workbook, Worksheet, XlsxError,
 };
 use std::collections::{BTreeMap, HashSet};
 
+use super::console::{UnitSystem, header_in};
 use crate::audit::Audit;
 use crate::error::{Severity, quote_sheet};
-use crate::ingest::{Input, SheetGrid, TableKind};
+use crate::ingest::{Input, Layout, SheetGrid, TableKind};
 use crate::physics::fitting;
 
 /// Palette of our own: deep slate for computed headers, soft tints for severities.
@@ -25,11 +26,18 @@ struct Styles {
     assumed: Format,
     link: Format,
     date: Format,
+    fine: Format,
+    units: UnitSystem,
 }
 
 impl Styles {
     fn new() -> Self {
-        let sev = |c: u32| Format::new().set_background_color(Color::RGB(c)).set_border(FormatBorder::Thin).set_border_color(Color::RGB(0x7A7A7A));
+        let sev = |c: u32| {
+            Format::new()
+                .set_background_color(Color::RGB(c))
+                .set_border(FormatBorder::Thin)
+                .set_border_color(Color::RGB(0x7A7A7A))
+        };
         Styles {
             title: Format::new().set_bold().set_font_size(14),
             bold: Format::new().set_bold(),
@@ -37,15 +45,21 @@ impl Styles {
                 .set_bold()
                 .set_font_color(Color::RGB(0xFFFFFF))
                 .set_background_color(Color::RGB(0x34495E))
-                .set_text_wrap()
                 .set_align(FormatAlign::Center),
             number: Format::new().set_num_format("0.00"),
             number3: Format::new().set_num_format("0.000"),
             wrap: Format::new().set_text_wrap().set_align(FormatAlign::Top),
             severity: [sev(0xDCE8F0), sev(0xF7E1A1), sev(0xEFB1AB)],
-            assumed: Format::new().set_italic().set_background_color(Color::RGB(0xEDEDED)).set_font_color(Color::RGB(0x555555)),
-            link: Format::new().set_font_color(Color::RGB(0x1F4E79)).set_underline(rust_xlsxwriter::FormatUnderline::Single),
+            assumed: Format::new()
+                .set_italic()
+                .set_background_color(Color::RGB(0xEDEDED))
+                .set_font_color(Color::RGB(0x555555)),
+            link: Format::new()
+                .set_font_color(Color::RGB(0x1F4E79))
+                .set_underline(rust_xlsxwriter::FormatUnderline::Single),
             date: Format::new().set_num_format("yyyy-mm-dd hh:mm"),
+            fine: Format::new().set_num_format("0.00000"),
+            units: UnitSystem::Si,
         }
     }
 
@@ -66,20 +80,40 @@ fn unique_name(wanted: &str, taken: &HashSet<String>) -> String {
     if !taken.contains(&wanted.to_lowercase()) {
         return wanted.to_string();
     }
-    (2..).map(|i| format!("{wanted} ({i})")).find(|n| !taken.contains(&n.to_lowercase())).unwrap_or_default()
+    (2..)
+        .map(|i| format!("{wanted} ({i})"))
+        .find(|n| !taken.contains(&n.to_lowercase()))
+        .unwrap_or_default()
 }
 
 /// Build the annotated workbook in memory and return its bytes.
 pub fn build(input: &Input, audit: &Audit) -> Result<Vec<u8>, XlsxError> {
+    build_in(input, audit, UnitSystem::Si)
+}
+
+/// Build the annotated workbook with the computed columns and the summary in `units`.
+pub fn build_in(input: &Input, audit: &Audit, units: UnitSystem) -> Result<Vec<u8>, XlsxError> {
     let mut wb = Workbook::new();
     // Fixed creation time: the same input gives a byte-identical workbook.
     let created = ExcelDateTime::from_ymd(2000, 1, 1)?;
-    wb.set_properties(&DocProperties::new().set_creation_datetime(&created).set_title("lossledger audit").set_comment("Screening estimate; see the Basis sheet"));
-    let st = Styles::new();
+    wb.set_properties(
+        &DocProperties::new()
+            .set_creation_datetime(&created)
+            .set_title("lossledger audit")
+            .set_comment("Screening estimate; see the Basis sheet"),
+    );
+    let mut st = Styles::new();
+    st.units = units;
     let taken: HashSet<String> = input.sheets.iter().map(|s| s.name.to_lowercase()).collect();
     let summary_name = unique_name("Summary", &taken);
     let findings_name = unique_name("Findings", &taken);
     let basis_name = unique_name("Basis", &taken);
+    let ranking_name = unique_name("Fitting ranking", &taken);
+    let systems_name = if taken.contains("systems") {
+        unique_name("System checks", &taken)
+    } else {
+        "Systems".to_string()
+    };
 
     let ws = wb.add_worksheet();
     ws.set_name(&summary_name)?;
@@ -88,6 +122,16 @@ pub fn build(input: &Input, audit: &Audit) -> Result<Vec<u8>, XlsxError> {
     let ws = wb.add_worksheet();
     ws.set_name(&findings_name)?;
     write_findings(ws, audit, &st)?;
+
+    let ws = wb.add_worksheet();
+    ws.set_name(&ranking_name)?;
+    super::ranking::write_ranking(ws, &ranking_name, audit)?;
+
+    if !audit.systems.is_empty() {
+        let ws = wb.add_worksheet();
+        ws.set_name(&systems_name)?;
+        super::ranking::write_systems(ws, &systems_name, audit)?;
+    }
 
     let marks = collect_marks(input, audit);
     for (i, sheet) in input.sheets.iter().enumerate() {
@@ -98,7 +142,7 @@ pub fn build(input: &Input, audit: &Audit) -> Result<Vec<u8>, XlsxError> {
             ws.set_hidden(true);
         }
         for layout in input.layouts.iter().filter(|l| l.sheet_index == i) {
-            append_computed(ws, input, audit, layout.table, &st)?;
+            append_computed(ws, input, audit, layout, &st)?;
         }
     }
 
@@ -112,9 +156,14 @@ fn collect_marks(input: &Input, audit: &Audit) -> BTreeMap<String, BTreeMap<(u32
     let mut marks: BTreeMap<String, BTreeMap<(u32, u32), Mark>> = BTreeMap::new();
     for f in &audit.findings {
         let Some(cell) = &f.cell else { continue };
-        let m = marks.entry(cell.sheet.clone()).or_default().entry((cell.row, cell.col)).or_default();
+        let m = marks
+            .entry(cell.sheet.clone())
+            .or_default()
+            .entry((cell.row, cell.col))
+            .or_default();
         m.severity = m.severity.max(Some(f.severity));
-        m.note.push(format!("{} [{}]: {}", f.severity, f.code, f.message));
+        m.note
+            .push(format!("{} [{}]: {}", f.severity, f.code, f.message));
     }
     let assumed = input
         .lines
@@ -123,11 +172,20 @@ fn collect_marks(input: &Input, audit: &Audit) -> BTreeMap<String, BTreeMap<(u32
         .chain(input.pipes.iter().flat_map(|p| &p.assumed))
         .chain(input.fittings.iter().flat_map(|f| &f.assumed));
     for a in assumed {
-        let has_col = input.layouts.iter().any(|l| l.sheet == a.cell.sheet && l.columns.iter().any(|c| c.col == a.cell.col && c.spec.key == a.key));
+        let has_col = input.layouts.iter().any(|l| {
+            l.sheet == a.cell.sheet
+                && l.columns
+                    .iter()
+                    .any(|c| c.col == a.cell.col && c.spec.key == a.key)
+        });
         if !has_col {
             continue;
         }
-        let m = marks.entry(a.cell.sheet.clone()).or_default().entry((a.cell.row, a.cell.col)).or_default();
+        let m = marks
+            .entry(a.cell.sheet.clone())
+            .or_default()
+            .entry((a.cell.row, a.cell.col))
+            .or_default();
         m.assumed = true;
         m.note.push(format!("assumed: {}", a.what));
     }
@@ -139,7 +197,13 @@ fn data_result(d: &Data) -> String {
         Data::Int(i) => i.to_string(),
         Data::Float(f) => f.to_string(),
         Data::String(s) => s.clone(),
-        Data::Bool(b) => if *b { "TRUE".into() } else { "FALSE".into() },
+        Data::Bool(b) => {
+            if *b {
+                "TRUE".into()
+            } else {
+                "FALSE".into()
+            }
+        }
         Data::DateTime(dt) => dt.as_f64().to_string(),
         Data::DateTimeIso(s) | Data::DurationIso(s) => s.clone(),
         Data::Error(e) => e.to_string(),
@@ -149,7 +213,12 @@ fn data_result(d: &Data) -> String {
 
 /// Copy every cell: values by type, formulas as formulas with their cached result, strings always
 /// as strings (a text starting with `=` stays text), merged ranges, marks as fill and note.
-fn copy_sheet(ws: &mut Worksheet, sheet: &SheetGrid, marks: Option<&BTreeMap<(u32, u32), Mark>>, st: &Styles) -> Result<(), XlsxError> {
+fn copy_sheet(
+    ws: &mut Worksheet,
+    sheet: &SheetGrid,
+    marks: Option<&BTreeMap<(u32, u32), Mark>>,
+    st: &Styles,
+) -> Result<(), XlsxError> {
     let empty = BTreeMap::new();
     let marks = marks.unwrap_or(&empty);
     let fmt_of = |pos: &(u32, u32)| -> Option<&Format> {
@@ -195,9 +264,18 @@ fn copy_sheet(ws: &mut Worksheet, sheet: &SheetGrid, marks: Option<&BTreeMap<(u3
                 Data::Float(x) => ws.write_number_with_format(row, c16, *x, f)?,
                 Data::String(s) => ws.write_string_with_format(row, c16, s, f)?,
                 Data::Bool(b) => ws.write_boolean_with_format(row, c16, *b, f)?,
-                Data::DateTime(dt) => ws.write_number_with_format(row, c16, dt.as_f64(), fmt.unwrap_or(&st.date))?,
-                Data::DateTimeIso(s) | Data::DurationIso(s) => ws.write_string_with_format(row, c16, s, f)?,
-                Data::Error(e) => ws.write_formula_with_format(row, c16, Formula::new(error_formula(e)).set_result(e.to_string()), f)?,
+                Data::DateTime(dt) => {
+                    ws.write_number_with_format(row, c16, dt.as_f64(), fmt.unwrap_or(&st.date))?
+                }
+                Data::DateTimeIso(s) | Data::DurationIso(s) => {
+                    ws.write_string_with_format(row, c16, s, f)?
+                }
+                Data::Error(e) => ws.write_formula_with_format(
+                    row,
+                    c16,
+                    Formula::new(error_formula(e)).set_result(e.to_string()),
+                    f,
+                )?,
                 Data::Empty => continue,
             };
             written.insert((row, col));
@@ -208,7 +286,13 @@ fn copy_sheet(ws: &mut Worksheet, sheet: &SheetGrid, marks: Option<&BTreeMap<(u3
             ws.write_blank(row, col as u16, fmt_of(&(row, col)).unwrap_or(&st.assumed))?;
         }
         let text: String = m.note.join("\n");
-        ws.insert_note(row, col as u16, &Note::new(truncate(&text, 2000)).set_author("lossledger").add_author_prefix(false))?;
+        ws.insert_note(
+            row,
+            col as u16,
+            &Note::new(truncate(&text, 2000))
+                .set_author("lossledger")
+                .add_author_prefix(false),
+        )?;
     }
     Ok(())
 }
@@ -228,8 +312,16 @@ fn error_formula(e: &calamine::CellErrorType) -> &'static str {
     }
 }
 
+/// Excel's limit on the characters in one cell; longer text (a message quoting a 32,767-character
+/// id) is cut with an ellipsis rather than failing the whole workbook.
+const MAX_CELL_CHARS: usize = 32_767;
+
 fn truncate(s: &str, max: usize) -> String {
-    if s.chars().count() <= max { s.to_string() } else { s.chars().take(max - 1).chain(['…']).collect() }
+    if s.chars().count() <= max {
+        s.to_string()
+    } else {
+        s.chars().take(max - 1).chain(['…']).collect()
+    }
 }
 
 /// One computed column: header and a value per source row.
@@ -243,16 +335,29 @@ enum Value {
     Text(String),
 }
 
-fn append_computed(ws: &mut Worksheet, input: &Input, audit: &Audit, table: TableKind, st: &Styles) -> Result<(), XlsxError> {
-    let Some(layout) = input.layout(table) else { return Ok(()) };
+fn append_computed(
+    ws: &mut Worksheet,
+    input: &Input,
+    audit: &Audit,
+    layout: &Layout,
+    st: &Styles,
+) -> Result<(), XlsxError> {
+    let table = layout.table;
     let grid = &input.sheets[layout.sheet_index];
     let first = grid.end_col() + 1;
     let num = |v: f64| Value::Num(v, false);
     let num3 = |v: f64| Value::Num(v, true);
     let cols: Vec<Computed> = match table {
         TableKind::Pipes => {
-            let runs: Vec<_> = audit.runs.iter().filter(|r| r.cell.sheet == layout.sheet).collect();
-            let c = |header, f: &dyn Fn(&crate::audit::RunResult) -> Value| Computed { header, values: runs.iter().map(|r| (r.row, f(r))).collect() };
+            let runs: Vec<_> = audit
+                .runs
+                .iter()
+                .filter(|r| r.cell.sheet == layout.sheet)
+                .collect();
+            let c = |header, f: &dyn Fn(&crate::audit::RunResult) -> Value| Computed {
+                header,
+                values: runs.iter().map(|r| (r.row, f(r))).collect(),
+            };
             vec![
                 c("Bore [mm]", &|r| num(r.inner_diameter_m * 1e3)),
                 c("Bore from", &|r| Value::Text(r.bore_basis.clone())),
@@ -260,33 +365,76 @@ fn append_computed(ws: &mut Worksheet, input: &Input, audit: &Audit, table: Tabl
                 c("Velocity [m/s]", &|r| num(r.velocity_m_s)),
                 c("Reynolds", &|r| Value::Num(r.reynolds.round(), false)),
                 c("Friction factor", &|r| Value::Num(r.friction_factor, true)),
-                c("Regime", &|r| Value::Text(format!("{:?}", r.regime).to_lowercase())),
+                c("Regime", &|r| {
+                    Value::Text(format!("{:?}", r.regime).to_lowercase())
+                }),
                 c("Friction head [m]", &|r| num3(r.head_m)),
                 c("Friction loss [kPa]", &|r| num3(r.dp_pa / 1e3)),
-                c("Gradient [m/100 m]", &|r| num(r.head_m / r.length_m * 100.0)),
+                c(
+                    "Gradient [m/100 m]",
+                    &|r| num(r.head_m / r.length_m * 100.0),
+                ),
             ]
         }
         TableKind::Fittings => {
-            let fs: Vec<_> = audit.fittings.iter().filter(|f| f.cell.sheet == layout.sheet).collect();
-            let c = |header, f: &dyn Fn(&crate::audit::FittingResult) -> Value| Computed { header, values: fs.iter().map(|x| (x.row, f(x))).collect() };
+            let fs: Vec<_> = audit
+                .fittings
+                .iter()
+                .filter(|f| f.cell.sheet == layout.sheet)
+                .collect();
+            let c = |header, f: &dyn Fn(&crate::audit::FittingResult) -> Value| Computed {
+                header,
+                values: fs.iter().map(|x| (x.row, f(x))).collect(),
+            };
             vec![
                 c("Kind", &|f| Value::Text(f.kind.to_string())),
                 c("Model", &|f| Value::Text(f.model.to_string())),
                 c("K", &|f| num3(f.k)),
                 c("K low", &|f| num3(f.k_low)),
                 c("K high", &|f| num3(f.k_high)),
-                c("K refers to bore [mm]", &|f| num(f.reference_diameter_m * 1e3)),
+                c("K refers to bore [mm]", &|f| {
+                    num(f.reference_diameter_m * 1e3)
+                }),
                 c("Velocity [m/s]", &|f| num(f.velocity_m_s)),
                 c("Head [m]", &|f| num3(f.head_m)),
                 c("Head low [m]", &|f| num3(f.head_low_m)),
                 c("Head high [m]", &|f| num3(f.head_high_m)),
                 c("Loss [kPa]", &|f| num3(f.dp_pa / 1e3)),
                 c("Source", &|f| Value::Text(f.source.to_string())),
+                c("Rank", &|f| {
+                    Value::Num(f.rank.map_or(f64::NAN, |r| r as f64), false)
+                }),
+                c("Annual energy [kWh]", &|f| {
+                    num(f.annual_energy_kwh.unwrap_or(f64::NAN))
+                }),
+                c("Annual cost", &|f| num(f.annual_cost.unwrap_or(f64::NAN))),
+                c("Suggestion (estimate)", &|f| {
+                    Value::Text(
+                        f.suggestion
+                            .as_ref()
+                            .map(|s| s.replace_with.clone())
+                            .unwrap_or_default(),
+                    )
+                }),
             ]
         }
         TableKind::Lines => {
-            let ls: Vec<_> = audit.lines.iter().filter_map(|l| l.row.map(|r| (r, l))).collect();
-            let c = |header, f: &dyn Fn(&crate::audit::LineResult) -> Value| Computed { header, values: ls.iter().map(|(r, l)| (*r, f(l))).collect() };
+            let here = |l: &crate::audit::LineResult| {
+                input
+                    .lines
+                    .iter()
+                    .any(|x| x.line == l.line && x.origin.sheet == layout.sheet)
+            };
+            let ls: Vec<_> = audit
+                .lines
+                .iter()
+                .filter(|l| here(l))
+                .filter_map(|l| l.row.map(|r| (r, l)))
+                .collect();
+            let c = |header, f: &dyn Fn(&crate::audit::LineResult) -> Value| Computed {
+                header,
+                values: ls.iter().map(|(r, l)| (*r, f(l))).collect(),
+            };
             vec![
                 c("Length [m]", &|l| num(l.length_m)),
                 c("Friction head [m]", &|l| num3(l.friction_head_m)),
@@ -297,18 +445,40 @@ fn append_computed(ws: &mut Worksheet, input: &Input, audit: &Audit, table: Tabl
                 c("Total loss [kPa]", &|l| num3(l.total_dp_pa / 1e3)),
                 c("Max velocity [m/s]", &|l| num(l.max_velocity_m_s)),
                 c("Density [kg/m3]", &|l| num(l.density_kg_m3)),
+                c("Power lost [W]", &|l| {
+                    num(l.power_loss_w.unwrap_or(f64::NAN))
+                }),
+                c("Efficiency used", &|l| {
+                    num3(l.efficiency.unwrap_or(f64::NAN))
+                }),
+                c("Hours per year used", &|l| {
+                    num(l.hours_per_year.unwrap_or(f64::NAN))
+                }),
+                c("Annual energy [kWh]", &|l| {
+                    num(l.annual_energy_kwh.unwrap_or(f64::NAN))
+                }),
+                c("Annual cost", &|l| num(l.annual_cost.unwrap_or(f64::NAN))),
             ]
         }
-        TableKind::Systems | TableKind::Fluids => Vec::new(),
+        _ => Vec::new(),
     };
     for (i, c) in cols.iter().enumerate() {
         let col = (first + i as u32) as u16;
-        ws.write_string_with_format(layout.header_row, col, c.header, &st.computed_header)?;
+        let (header, factor) = header_in(c.header, st.units);
+        ws.write_string_with_format(layout.header_row, col, &header, &st.computed_header)?;
         ws.set_column_width(col, 13)?;
         for (row, v) in &c.values {
             match v {
                 Value::Num(x, three) if x.is_finite() => {
-                    ws.write_number_with_format(*row, col, *x, if *three { &st.number3 } else { &st.number })?;
+                    let x = x * factor;
+                    let fmt = if x != 0.0 && x.abs() < 0.01 {
+                        &st.fine
+                    } else if *three {
+                        &st.number3
+                    } else {
+                        &st.number
+                    };
+                    ws.write_number_with_format(*row, col, x, fmt)?;
                 }
                 Value::Num(..) => {}
                 Value::Text(t) => {
@@ -320,9 +490,23 @@ fn append_computed(ws: &mut Worksheet, input: &Input, audit: &Audit, table: Tabl
     Ok(())
 }
 
-fn write_summary(ws: &mut Worksheet, input: &Input, audit: &Audit, st: &Styles) -> Result<(), XlsxError> {
-    ws.write_string_with_format(0, 0, "lossledger audit: friction and fitting losses", &st.title)?;
-    ws.write_string(1, 0, format!("Input: {}  (SHA-256 {})", input.file, input.sha256))?;
+fn write_summary(
+    ws: &mut Worksheet,
+    input: &Input,
+    audit: &Audit,
+    st: &Styles,
+) -> Result<(), XlsxError> {
+    ws.write_string_with_format(
+        0,
+        0,
+        "lossledger audit: friction and fitting losses",
+        &st.title,
+    )?;
+    ws.write_string(
+        1,
+        0,
+        format!("Input: {}  (SHA-256 {})", input.file, input.sha256),
+    )?;
     ws.merge_range(2, 0, 4, 8, super::CAUTION, &st.wrap)?;
     ws.set_row_height(2, 30)?;
     let total: f64 = audit.lines.iter().map(|l| l.total_head_m).sum();
@@ -332,23 +516,58 @@ fn write_summary(ws: &mut Worksheet, input: &Input, audit: &Audit, st: &Styles) 
         ("Pipe runs", audit.runs.len().to_string()),
         ("Fittings", audit.fittings.len().to_string()),
         ("Sum of line losses [m]", format!("{total:.3}")),
-        ("Findings (error / warning / info)", format!("{} / {} / {}", audit.count(Severity::Error), audit.count(Severity::Warning), audit.count(Severity::Info))),
+        (
+            "Findings (error / warning / info)",
+            format!(
+                "{} / {} / {}",
+                audit.count(Severity::Error),
+                audit.count(Severity::Warning),
+                audit.count(Severity::Info)
+            ),
+        ),
     ] {
         ws.write_string_with_format(r, 0, label, &st.bold)?;
         ws.write_string(r, 2, value)?;
         r += 1;
     }
-    r += 1;
-    let headers = ["Line", "Service", "Flow [m3/h]", "Length [m]", "Friction head [m]", "Fittings head [m]", "Total head [m]", "Total low [m]", "Total high [m]", "Total loss [kPa]", "Max velocity [m/s]"];
-    for (c, h) in headers.iter().enumerate() {
-        ws.write_string_with_format(r, c as u16, *h, &st.computed_header)?;
+    r = super::ranking::write_summary_block(ws, audit, r)?;
+    let headers = [
+        "Line",
+        "Service",
+        "Flow [m3/h]",
+        "Length [m]",
+        "Friction head [m]",
+        "Fittings head [m]",
+        "Total head [m]",
+        "Total low [m]",
+        "Total high [m]",
+        "Total loss [kPa]",
+        "Max velocity [m/s]",
+    ];
+    let converted: Vec<(String, f64)> = headers.iter().map(|h| header_in(h, st.units)).collect();
+    for (c, (h, _)) in converted.iter().enumerate() {
+        ws.write_string_with_format(r, c as u16, h, &st.computed_header)?;
     }
     for l in &audit.lines {
         r += 1;
         ws.write_string(r, 0, &l.line)?;
         ws.write_string(r, 1, l.service.id())?;
-        for (c, v) in [l.flow_m3_s * 3600.0, l.length_m, l.friction_head_m, l.fittings_head_m, l.total_head_m, l.total_head_low_m, l.total_head_high_m, l.total_dp_pa / 1e3, l.max_velocity_m_s].into_iter().enumerate() {
-            ws.write_number_with_format(r, c as u16 + 2, v, &st.number3)?;
+        for (c, v) in [
+            l.flow_m3_s * 3600.0,
+            l.length_m,
+            l.friction_head_m,
+            l.fittings_head_m,
+            l.total_head_m,
+            l.total_head_low_m,
+            l.total_head_high_m,
+            l.total_dp_pa / 1e3,
+            l.max_velocity_m_s,
+        ]
+        .into_iter()
+        .enumerate()
+        {
+            let factor = converted.get(c + 2).map_or(1.0, |(_, f)| *f);
+            ws.write_number_with_format(r, c as u16 + 2, v * factor, &st.number3)?;
         }
     }
     ws.set_column_width(0, 18)?;
@@ -359,7 +578,9 @@ fn write_summary(ws: &mut Worksheet, input: &Input, audit: &Audit, st: &Styles) 
 }
 
 fn write_findings(ws: &mut Worksheet, audit: &Audit, st: &Styles) -> Result<(), XlsxError> {
-    let headers = ["Severity", "Code", "Line", "Tag", "Cell", "Message", "Action"];
+    let headers = [
+        "Severity", "Code", "Line", "Tag", "Cell", "Message", "Action",
+    ];
     let n = audit.findings.len() as u32;
     for (i, f) in audit.findings.iter().enumerate() {
         let r = i as u32 + 1;
@@ -377,10 +598,13 @@ fn write_findings(ws: &mut Worksheet, audit: &Audit, st: &Styles) -> Result<(), 
                 ws.write_string(r, 4, "")?;
             }
         }
-        ws.write_string(r, 5, &f.message)?;
-        ws.write_string(r, 6, &f.action)?;
+        ws.write_string(r, 5, truncate(&f.message, MAX_CELL_CHARS))?;
+        ws.write_string(r, 6, truncate(&f.action, MAX_CELL_CHARS))?;
     }
-    let columns: Vec<TableColumn> = headers.iter().map(|h| TableColumn::new().set_header(*h)).collect();
+    let columns: Vec<TableColumn> = headers
+        .iter()
+        .map(|h| TableColumn::new().set_header(*h))
+        .collect();
     let table = Table::new().set_columns(&columns).set_name("Findings");
     ws.add_table(0, 0, n.max(1), headers.len() as u16 - 1, &table)?;
     for (c, w) in [10, 18, 12, 12, 14, 80, 60].into_iter().enumerate() {
@@ -390,44 +614,98 @@ fn write_findings(ws: &mut Worksheet, audit: &Audit, st: &Styles) -> Result<(), 
     Ok(())
 }
 
-fn write_basis(ws: &mut Worksheet, input: &Input, audit: &Audit, st: &Styles) -> Result<(), XlsxError> {
+fn write_basis(
+    ws: &mut Worksheet,
+    input: &Input,
+    audit: &Audit,
+    st: &Styles,
+) -> Result<(), XlsxError> {
     let mut r = 0u32;
     let mut line = |ws: &mut Worksheet, a: &str, b: &str, bold: bool| -> Result<(), XlsxError> {
+        let a = truncate(a, MAX_CELL_CHARS);
         if bold {
             ws.write_string_with_format(r, 0, a, &st.bold)?;
         } else {
             ws.write_string(r, 0, a)?;
         }
         if !b.is_empty() {
-            ws.write_string(r, 1, b)?;
+            ws.write_string(r, 1, truncate(b, MAX_CELL_CHARS))?;
         }
         r += 1;
         Ok(())
     };
     line(ws, "Basis of this audit", "", true)?;
-    line(ws, "Tool", &format!("lossledger {}", env!("CARGO_PKG_VERSION")), false)?;
+    line(
+        ws,
+        "Tool",
+        &format!("lossledger {}", env!("CARGO_PKG_VERSION")),
+        false,
+    )?;
     line(ws, "Input file", &input.file, false)?;
     line(ws, "Input SHA-256", &input.sha256, false)?;
     line(ws, "Caution", super::CAUTION, false)?;
+    line(
+        ws,
+        "Caution on savings",
+        crate::audit::energy::SAVINGS_CAUTION,
+        false,
+    )?;
     line(ws, "", "", false)?;
     line(ws, "Fluid properties used", "", true)?;
     for f in &audit.fluids {
-        line(ws, &format!("{} at {:.2} °C", f.fluid, f.temperature_c), &format!(
-            "density {:.3} kg/m3, viscosity {:.4e} Pa·s, vapour pressure {} — {}",
-            f.props.density_kg_m3,
-            f.props.viscosity_pa_s,
-            if f.props.vapour_pressure_pa.is_finite() { format!("{:.1} Pa", f.props.vapour_pressure_pa) } else { "not given".into() },
-            f.basis
-        ), false)?;
+        line(
+            ws,
+            &format!("{} at {:.2} °C", f.fluid, f.temperature_c),
+            &format!(
+                "density {:.3} kg/m3, viscosity {:.4e} Pa·s, vapour pressure {} — {}",
+                f.props.density_kg_m3,
+                f.props.viscosity_pa_s,
+                if f.props.vapour_pressure_pa.is_finite() {
+                    format!("{:.1} Pa", f.props.vapour_pressure_pa)
+                } else {
+                    "not given".into()
+                },
+                f.basis
+            ),
+            false,
+        )?;
     }
     line(ws, "", "", false)?;
     line(ws, "Methods", "", true)?;
     for (a, b) in [
-        ("Friction", "Darcy–Weisbach h = f (L/D) v²/2g; f = 64/Re for Re ≤ 2000; Colebrook–White (1939) solved to 1e-12 relative for Re ≥ 4000; linear interpolation in Re between, flagged transition-regime."),
-        ("Hazen–Williams", "Where a C factor is given (water only): h = 10.67 L Q^1.852 / (C^1.852 D^4.8704), SI form."),
-        ("Fittings", "h = K v²/2g per item times quantity; v is the mean velocity in the bore K refers to (the smaller bore for area changes)."),
-        ("Pipe bores", "ASME B36.10M (carbon steel), ASME B36.19M (stainless); default schedule 40 (STD where 40 is not defined) for steel. 'Inner diameter' overrides."),
+        (
+            "Friction",
+            "Darcy–Weisbach h = f (L/D) v²/2g; f = 64/Re for Re ≤ 2000; Colebrook–White (1939) solved to 1e-12 relative for Re ≥ 4000; linear interpolation in Re between, flagged transition-regime.",
+        ),
+        (
+            "Hazen–Williams",
+            "Where a C factor is given (water only): h = 10.67 L Q^1.852 / (C^1.852 D^4.8704), SI form.",
+        ),
+        (
+            "Fittings",
+            "h = K v²/2g per item times quantity; v is the mean velocity in the bore K refers to (the smaller bore for area changes).",
+        ),
+        (
+            "Pipe bores",
+            "ASME B36.10M (carbon steel), ASME B36.19M (stainless); default schedule 40 (STD where 40 is not defined) for steel. 'Inner diameter' overrides.",
+        ),
         ("Gravity", "g = 9.80665 m/s²"),
+        (
+            "Energy",
+            "P = Δp·Q (hydraulic power lost); electrical P/η with η the wire-to-water efficiency (Lines, else Systems, else rules); kWh per year = P/η × hours / 1000; cost = kWh × tariff. Gravity lines cost no pump energy: their loss is lost capacity, ranked by head. See docs/energy.md.",
+        ),
+        (
+            "Ranking",
+            "Fittings by annual cost (head where no pump energy applies); ties share a rank; rank range = best and worst rank with this item and the others at opposite ends of their K bands; more than 3 places either way is marked uncertain (common practice, no source).",
+        ),
+        (
+            "Systems",
+            "Required head = static head + sum of line losses, each line at its own flow; system curve 0–130 % of duty with friction factors and Re-dependent K recomputed at each flow; operating point where a given pump curve meets it.",
+        ),
+        (
+            "NPSH",
+            "NPSHa = (p_source − p_vapour)/(ρg) + suction level − suction losses; p_source defaults to the ISO 2533 standard atmosphere at the rules' site elevation; margin rule max(ratio × NPSHr, NPSHr + minimum) (common practice, no source).",
+        ),
     ] {
         line(ws, a, b, false)?;
     }
@@ -439,27 +717,143 @@ fn write_basis(ws: &mut Worksheet, input: &Input, audit: &Audit, st: &Styles) ->
         }
     }
     line(ws, "", "", false)?;
-    line(ws, "Rules in force (common practice for water unless your rules file says otherwise)", "", true)?;
+    line(
+        ws,
+        "Rules in force (common practice for water unless your rules file says otherwise)",
+        "",
+        true,
+    )?;
     let rules = toml::to_string(&audit.rules).unwrap_or_default();
     for l in rules.lines().filter(|l| !l.trim().is_empty()) {
         line(ws, "", l, false)?;
     }
     line(ws, "", "", false)?;
     line(ws, "Parse report", "", true)?;
+    if st.units == UnitSystem::Us {
+        line(
+            ws,
+            "Units shown",
+            "computed columns and Summary in US customary units (ft, in, US gpm, psi, ft/s, ft of head); JSON output stays SI",
+            false,
+        )?;
+    }
+    for src in &input.sources {
+        line(
+            ws,
+            "file read",
+            &format!(
+                "{} (SHA-256 {}): sheets {}",
+                src.file,
+                src.sha256,
+                src.sheets.join(", ")
+            ),
+            false,
+        )?;
+    }
     for l in &input.layouts {
-        let mapping: Vec<String> = l.columns.iter().map(|c| format!("'{}' → {}{}", c.header, c.spec.key, c.unit.map(|u| format!(" [{}]", u.label)).unwrap_or_default())).collect();
-        line(ws, &format!("{} (sheet '{}')", l.table.sheet_name(), l.sheet), &format!("header row {}; {}", l.header_row + 1, mapping.join(", ")), false)?;
+        let mapping: Vec<String> = l
+            .columns
+            .iter()
+            .map(|c| {
+                let unit = match (c.unit, c.unit_defaulted) {
+                    (Some(u), true) => format!(" [{}, no unit written]", u.label),
+                    (Some(u), false) => format!(" [{}]", u.label),
+                    (None, _) => String::new(),
+                };
+                format!(
+                    "'{}' → {}{unit}{}",
+                    c.header,
+                    c.spec.key,
+                    if c.by_map { " (from --map)" } else { "" }
+                )
+            })
+            .collect();
+        let rows = if l.header_rows > 1 {
+            format!(
+                "header rows {}–{}",
+                l.header_row + 1,
+                l.header_row + l.header_rows
+            )
+        } else {
+            format!("header row {}", l.header_row + 1)
+        };
+        let units_row = l
+            .units_row
+            .map(|u| format!("; units row {}", u + 1))
+            .unwrap_or_default();
+        let above = if l.header_row > 0 {
+            format!(
+                "; {} row(s) above the header skipped as title",
+                l.header_row
+            )
+        } else {
+            String::new()
+        };
+        line(
+            ws,
+            &format!("{} (sheet '{}')", l.table.sheet_name(), l.sheet),
+            &format!("{rows}{units_row}{above}; {}", mapping.join(", ")),
+            false,
+        )?;
         if !l.unknown.is_empty() {
             let kept: Vec<&str> = l.unknown.iter().map(|(_, h)| h.as_str()).collect();
             line(ws, "", &format!("kept as is: {}", kept.join(", ")), false)?;
         }
     }
-    let mut assumed: BTreeMap<(String, String), usize> = BTreeMap::new();
-    for a in input.lines.iter().flat_map(|l| &l.assumed).chain(input.pipes.iter().flat_map(|p| &p.assumed)).chain(input.fittings.iter().flat_map(|f| &f.assumed)) {
-        *assumed.entry((a.cell.sheet.clone(), a.what.clone())).or_default() += 1;
+    for ((sheet, what), n) in input.assumed_by_sheet() {
+        line(
+            ws,
+            &format!("assumed on {sheet}"),
+            &format!("{what}: {n} row(s)"),
+            false,
+        )?;
     }
-    for ((sheet, what), n) in assumed {
-        line(ws, &format!("assumed on {sheet}"), &format!("{what}: {n} row(s)"), false)?;
+    for (l, keys) in input.assumed_by_line() {
+        let parts: Vec<String> = keys.iter().map(|(k, n)| format!("{k} ×{n}")).collect();
+        line(
+            ws,
+            &format!("assumed on line {l}"),
+            &parts.join(", "),
+            false,
+        )?;
+    }
+    let conv = &input.report.conversions;
+    if !conv.is_empty() {
+        line(
+            ws,
+            "text read as numbers",
+            &format!("{} cell(s)", conv.len()),
+            false,
+        )?;
+        for c in conv.iter().take(500) {
+            let unit = c
+                .unit
+                .as_deref()
+                .map(|u| format!(" {u}"))
+                .unwrap_or_default();
+            line(
+                ws,
+                "",
+                &format!("{}: '{}' → {}{unit}", c.cell, c.text, c.value),
+                false,
+            )?;
+        }
+    }
+    for sk in &input.report.skipped {
+        line(
+            ws,
+            "row skipped",
+            &format!("{}: {}", sk.cell, sk.reason),
+            false,
+        )?;
+    }
+    for (sheet, n) in &input.report.blank_rows {
+        line(
+            ws,
+            "blank rows",
+            &format!("{sheet}: {n} blank row(s) inside the table skipped"),
+            false,
+        )?;
     }
     for d in &audit.notes {
         line(ws, d.severity.label(), &d.to_string(), false)?;

@@ -1,0 +1,707 @@
+//! The `Fitting ranking` and `Systems` sheets, and the energy block of `Summary`.
+
+use rust_xlsxwriter::{
+    Chart, ChartMarker, ChartMarkerType, ChartType, Color, Format, FormatAlign, Url, Worksheet,
+    XlsxError,
+};
+
+use crate::audit::energy::{RankBasis, SAVINGS_CAUTION};
+use crate::audit::system::SystemResult;
+use crate::audit::{Audit, FittingResult};
+use crate::error::quote_sheet;
+
+/// Number of items in the ranking chart.
+pub const CHART_ITEMS: usize = 20;
+
+struct Fmt {
+    title: Format,
+    bold: Format,
+    header: Format,
+    n0: Format,
+    n2: Format,
+    n3: Format,
+    pct: Format,
+    wrap: Format,
+    link: Format,
+    bad: Format,
+    good: Format,
+}
+
+impl Fmt {
+    fn new() -> Self {
+        Fmt {
+            title: Format::new().set_bold().set_font_size(14),
+            bold: Format::new().set_bold(),
+            header: Format::new()
+                .set_bold()
+                .set_font_color(Color::RGB(0xFFFFFF))
+                .set_background_color(Color::RGB(0x34495E))
+                .set_align(FormatAlign::Center),
+            n0: Format::new().set_num_format("#,##0"),
+            n2: Format::new().set_num_format("#,##0.00"),
+            n3: Format::new().set_num_format("0.000"),
+            pct: Format::new().set_num_format("0.0%"),
+            wrap: Format::new().set_text_wrap().set_align(FormatAlign::Top),
+            link: Format::new()
+                .set_font_color(Color::RGB(0x1F4E79))
+                .set_underline(rust_xlsxwriter::FormatUnderline::Single),
+            bad: Format::new()
+                .set_bold()
+                .set_background_color(Color::RGB(0xEFB1AB)),
+            good: Format::new().set_background_color(Color::RGB(0xDCE8F0)),
+        }
+    }
+}
+
+fn opt(ws: &mut Worksheet, r: u32, c: u16, v: Option<f64>, f: &Format) -> Result<(), XlsxError> {
+    match v.filter(|x| x.is_finite()) {
+        Some(x) => ws.write_number_with_format(r, c, x, f).map(|_| ()),
+        None => Ok(()),
+    }
+}
+
+fn label(f: &FittingResult) -> String {
+    if f.tag.is_empty() {
+        format!("{} ({})", f.item, f.line)
+    } else {
+        f.tag.clone()
+    }
+}
+
+/// Fittings in rank order (ties in input order).
+pub fn ranked(audit: &Audit) -> Vec<&FittingResult> {
+    let mut v: Vec<(usize, &FittingResult)> = audit.fittings.iter().enumerate().collect();
+    v.sort_by_key(|(i, f)| (f.rank.unwrap_or(usize::MAX), *i));
+    v.into_iter().map(|(_, f)| f).collect()
+}
+
+/// Write the `Fitting ranking` sheet, with a bar-and-line chart of the worst items.
+pub fn write_ranking(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(), XlsxError> {
+    let st = Fmt::new();
+    let cur = &audit.energy.currency;
+    ws.write_string_with_format(
+        0,
+        0,
+        "Fitting ranking: what each fitting's loss costs per year",
+        &st.title,
+    )?;
+    ws.write_string(
+        1,
+        0,
+        format!(
+            "Ranked by annual cost at {cur} {} per kWh (head loss where no pump energy applies). Rank range: best and worst rank across the K bands; a rank that can move by more than {} places is marked uncertain.",
+            audit.energy.tariff_per_kwh,
+            crate::audit::energy::RANK_SHIFT_LIMIT
+        ),
+    )?;
+    ws.write_string_with_format(2, 0, SAVINGS_CAUTION, &st.bold)?;
+    let headers: Vec<String> = [
+        "Rank",
+        "Rank range",
+        "Rank holds",
+        "Tag",
+        "Line",
+        "Item",
+        "Kind",
+        "Qty",
+        "K",
+        "K low",
+        "K high",
+        "Head [m]",
+        "Head low [m]",
+        "Head high [m]",
+        "Power lost [W]",
+        "Annual energy [kWh]",
+    ]
+    .iter()
+    .map(|s| s.to_string())
+    .chain([
+        format!("Annual cost [{cur}]"),
+        format!("Cost low [{cur}]"),
+        format!("Cost high [{cur}]"),
+    ])
+    .chain(
+        [
+            "Share",
+            "Cumulative share",
+            "Ranked by",
+            "Suggestion (estimate)",
+            "K after",
+        ]
+        .iter()
+        .map(|s| s.to_string()),
+    )
+    .chain([
+        format!("Annual saving [{cur}]"),
+        format!("Replacement cost [{cur}]"),
+    ])
+    .chain(["Payback [years]", "Cell"].iter().map(|s| s.to_string()))
+    .collect();
+    let hr = 4u32;
+    for (c, h) in headers.iter().enumerate() {
+        ws.write_string_with_format(hr, c as u16, h, &st.header)?;
+    }
+    ws.set_row_height(hr, 45)?;
+    let items = ranked(audit);
+    for (i, f) in items.iter().enumerate() {
+        let r = hr + 1 + i as u32;
+        let rk = f.ranking;
+        opt(ws, r, 0, f.rank.map(|x| x as f64), &st.n0)?;
+        if let Some(k) = rk {
+            ws.write_string(r, 1, format!("{}–{}", k.best, k.worst))?;
+            ws.write_string_with_format(
+                r,
+                2,
+                if k.uncertain { "uncertain" } else { "holds" },
+                if k.uncertain { &st.bad } else { &st.good },
+            )?;
+        }
+        ws.write_string(r, 3, &f.tag)?;
+        ws.write_string(r, 4, &f.line)?;
+        ws.write_string(r, 5, &f.item)?;
+        ws.write_string(r, 6, f.kind)?;
+        ws.write_number(r, 7, f.qty)?;
+        for (c, v) in [
+            (8, f.k),
+            (9, f.k_low),
+            (10, f.k_high),
+            (11, f.head_m),
+            (12, f.head_low_m),
+            (13, f.head_high_m),
+        ] {
+            opt(ws, r, c, Some(v), &st.n3)?;
+        }
+        opt(ws, r, 14, f.power_loss_w, &st.n0)?;
+        opt(ws, r, 15, f.annual_energy_kwh, &st.n0)?;
+        let scale = |h: f64| {
+            if f.head_m > 0.0 {
+                f.annual_cost.map(|c| c * h / f.head_m)
+            } else {
+                f.annual_cost
+            }
+        };
+        opt(ws, r, 16, f.annual_cost, &st.n2)?;
+        opt(ws, r, 17, scale(f.head_low_m), &st.n2)?;
+        opt(ws, r, 18, scale(f.head_high_m), &st.n2)?;
+        if let Some(k) = rk {
+            opt(ws, r, 19, Some(k.share), &st.pct)?;
+            opt(ws, r, 20, Some(k.cumulative_share), &st.pct)?;
+            ws.write_string(
+                r,
+                21,
+                if k.basis == RankBasis::AnnualCost {
+                    "annual cost"
+                } else {
+                    "head loss (no pump energy)"
+                },
+            )?;
+        }
+        if let Some(s) = &f.suggestion {
+            ws.write_string(r, 22, &s.replace_with)?;
+            opt(ws, r, 23, Some(s.k_after), &st.n3)?;
+            opt(ws, r, 24, s.annual_saving, &st.n2)?;
+            opt(ws, r, 26, s.payback_years, &st.n2)?;
+        }
+        opt(ws, r, 25, f.replacement_cost, &st.n2)?;
+        let target = format!("internal:{}!{}", quote_sheet(&f.cell.sheet), f.cell.a1());
+        ws.write_url_with_text(r, 27, Url::new(target), f.cell.to_string())?;
+        ws.set_cell_format(r, 27, &st.link)?;
+    }
+    ws.set_column_width(0, 6)?;
+    for c in 1..headers.len() as u16 {
+        ws.set_column_width(c, 11)?;
+    }
+    ws.set_column_width(3, 14)?;
+    ws.set_column_width(5, 18)?;
+    ws.set_column_width(6, 18)?;
+    ws.set_column_width(22, 48)?;
+    ws.set_freeze_panes(hr + 1, 4)?;
+
+    // Chart: the worst items by the first basis present (cost when any item has a cost).
+    let by_cost = items
+        .iter()
+        .any(|f| f.ranking.is_some_and(|k| k.basis == RankBasis::AnnualCost));
+    let n = items
+        .iter()
+        .take(CHART_ITEMS)
+        .take_while(|f| {
+            f.ranking
+                .is_some_and(|k| (k.basis == RankBasis::AnnualCost) == by_cost)
+        })
+        .count() as u32;
+    if n > 0 {
+        let (first, last) = (hr + 1, hr + n);
+        let value_col = if by_cost { 16 } else { 11 };
+        let mut bars = Chart::new(ChartType::Column);
+        bars.add_series()
+            .set_categories((sheet, first, 3, last, 3))
+            .set_values((sheet, first, value_col, last, value_col))
+            .set_name(
+                if by_cost {
+                    format!("Annual cost [{cur}]")
+                } else {
+                    "Head loss [m]".to_string()
+                }
+                .as_str(),
+            );
+        let mut line = Chart::new(ChartType::Line);
+        line.add_series()
+            .set_categories((sheet, first, 3, last, 3))
+            .set_values((sheet, first, 20, last, 20))
+            .set_name("Cumulative share")
+            .set_secondary_axis(true);
+        bars.combine(&line);
+        bars.title()
+            .set_name(format!("Worst {n} fittings").as_str());
+        bars.y_axis().set_name(
+            if by_cost {
+                format!("Annual cost [{cur}]")
+            } else {
+                "Head loss [m]".to_string()
+            }
+            .as_str(),
+        );
+        bars.y2_axis()
+            .set_name("Cumulative share")
+            .set_num_format("0%")
+            .set_max(1.0)
+            .set_min(0.0);
+        bars.set_width(900).set_height(380);
+        ws.insert_chart(hr + 2 + items.len() as u32, 3, &bars)?;
+    }
+    Ok(())
+}
+
+fn m3h(q: f64) -> f64 {
+    q * 3600.0
+}
+
+/// Write the `Systems` sheet: one block per system with its figures, curve table and chart.
+pub fn write_systems(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(), XlsxError> {
+    let st = Fmt::new();
+    ws.write_string_with_format(
+        0,
+        0,
+        "Systems: required head against the pump, system curve and NPSH",
+        &st.title,
+    )?;
+    ws.write_string(1, 0, "System curve: static head plus every line's losses recomputed at each flow (friction factor and Re-dependent K re-evaluated, not scaled by Q²).")?;
+    let mut r = 3u32;
+    for s in &audit.systems {
+        r = write_system(ws, sheet, s, r, &st)? + 2;
+    }
+    if audit.systems.is_empty() {
+        ws.write_string(
+            r,
+            0,
+            "No systems given (a Systems sheet, or a System column in Lines).",
+        )?;
+    }
+    ws.set_column_width(0, 30)?;
+    ws.set_column_width(1, 40)?;
+    for c in 2..8 {
+        ws.set_column_width(c, 13)?;
+    }
+    Ok(())
+}
+
+fn write_system(
+    ws: &mut Worksheet,
+    sheet: &str,
+    s: &SystemResult,
+    start: u32,
+    st: &Fmt,
+) -> Result<u32, XlsxError> {
+    let mut r = start;
+    let verdict = match (s.fails_duty, s.fails_npsh) {
+        (true, true) => "FAILS duty and NPSH margin",
+        (true, false) => "FAILS duty",
+        (false, true) => "FAILS NPSH margin",
+        (false, false) if s.margin_m.is_some() || s.npsh_available_m.is_some() => {
+            "passes the checks made"
+        }
+        _ => "not checked (data missing)",
+    };
+    ws.write_string_with_format(r, 0, format!("System {}", s.system), &st.title)?;
+    ws.write_string_with_format(
+        r,
+        1,
+        verdict,
+        if s.fails_duty || s.fails_npsh {
+            &st.bad
+        } else {
+            &st.good
+        },
+    )?;
+    r += 1;
+    let num_row = |ws: &mut Worksheet,
+                   r: &mut u32,
+                   k: &str,
+                   v: Option<f64>,
+                   basis: &str|
+     -> Result<(), XlsxError> {
+        ws.write_string_with_format(*r, 0, k, &st.bold)?;
+        match v.filter(|x| x.is_finite()) {
+            Some(x) => ws.write_string(
+                *r,
+                1,
+                format!(
+                    "{x:.3}{}",
+                    if basis.is_empty() {
+                        String::new()
+                    } else {
+                        format!("  ({basis})")
+                    }
+                ),
+            )?,
+            None => ws.write_string(*r, 1, "—")?,
+        };
+        *r += 1;
+        Ok(())
+    };
+    ws.write_string_with_format(r, 0, "Lines (suction first)", &st.bold)?;
+    ws.write_string(r, 1, s.lines.join(", "))?;
+    r += 1;
+    num_row(ws, &mut r, "Duty flow [m3/h]", Some(m3h(s.flow_m3_s)), "")?;
+    num_row(
+        ws,
+        &mut r,
+        "Static head [m]",
+        Some(s.static_head_m),
+        &s.static_head_basis,
+    )?;
+    num_row(
+        ws,
+        &mut r,
+        "Line losses [m]",
+        Some(s.losses_head_m),
+        "each line at its own flow",
+    )?;
+    num_row(ws, &mut r, "Required head [m]", Some(s.required_head_m), "")?;
+    num_row(
+        ws,
+        &mut r,
+        "Pump head at duty [m]",
+        s.pump_head_m,
+        &s.pump_head_basis,
+    )?;
+    num_row(ws, &mut r, "Margin [m]", s.margin_m, "pump minus required")?;
+    if let Some(op) = s.operating_point {
+        ws.write_string_with_format(r, 0, "Operating point", &st.bold)?;
+        ws.write_string(
+            r,
+            1,
+            format!(
+                "{:.1} m3/h at {:.2} m (pump curve meets system curve)",
+                m3h(op.flow_m3_s),
+                op.head_m
+            ),
+        )?;
+        r += 1;
+    }
+    num_row(ws, &mut r, "NPSH available [m]", s.npsh_available_m, "")?;
+    if let Some(t) = s.npsh_terms {
+        ws.write_string(
+            r,
+            1,
+            format!(
+                "= ({:.0} Pa − {:.1} Pa)/({:.2} kg/m3 × g) + {:.3} m − {:.3} m; source pressure: {}",
+                t.source_pressure_pa, t.vapour_pressure_pa, t.density_kg_m3, t.suction_level_m, t.suction_losses_m, t.source_pressure_basis
+            ),
+        )?;
+        r += 1;
+    }
+    num_row(ws, &mut r, "NPSH required [m]", s.npsh_required_m, "")?;
+    num_row(
+        ws,
+        &mut r,
+        "NPSH the margin rule asks for [m]",
+        s.npsh_needed_m,
+        "",
+    )?;
+    for n in &s.notes {
+        ws.write_string_with_format(r, 0, "Note", &st.bold)?;
+        ws.write_string_with_format(r, 1, n, &st.wrap)?;
+        r += 1;
+    }
+    r += 1;
+    // Curve table.
+    let hr = r;
+    for (c, h) in [
+        "Flow [m3/h]",
+        "% of duty",
+        "Required head [m]",
+        "Pump curve flow [m3/h]",
+        "Pump curve head [m]",
+        "Duty flow [m3/h]",
+        "Duty head [m]",
+    ]
+    .iter()
+    .enumerate()
+    {
+        ws.write_string_with_format(hr, c as u16 + 1, *h, &st.header)?;
+    }
+    ws.set_row_height(hr, 30)?;
+    for (i, p) in s.curve.iter().enumerate() {
+        let rr = hr + 1 + i as u32;
+        ws.write_number_with_format(rr, 1, m3h(p.flow_m3_s), &st.n2)?;
+        if s.flow_m3_s > 0.0 {
+            ws.write_number_with_format(rr, 2, p.flow_m3_s / s.flow_m3_s, &st.pct)?;
+        }
+        ws.write_number_with_format(rr, 3, p.head_m, &st.n3)?;
+    }
+    for (i, p) in s.pump_curve.iter().enumerate() {
+        let rr = hr + 1 + i as u32;
+        ws.write_number_with_format(rr, 4, m3h(p.flow_m3_s), &st.n2)?;
+        ws.write_number_with_format(rr, 5, p.head_m, &st.n3)?;
+    }
+    ws.write_number_with_format(hr + 1, 6, m3h(s.flow_m3_s), &st.n2)?;
+    ws.write_number_with_format(hr + 1, 7, s.required_head_m, &st.n3)?;
+    let last = hr + s.curve.len().max(s.pump_curve.len()).max(1) as u32;
+
+    let mut chart = Chart::new(ChartType::ScatterStraightWithMarkers);
+    let n_curve = s.curve.len().max(1) as u32;
+    chart
+        .add_series()
+        .set_categories((sheet, hr + 1, 1, hr + n_curve, 1))
+        .set_values((sheet, hr + 1, 3, hr + n_curve, 3))
+        .set_name("System curve");
+    if !s.pump_curve.is_empty() {
+        let n = s.pump_curve.len() as u32;
+        chart
+            .add_series()
+            .set_categories((sheet, hr + 1, 4, hr + n, 4))
+            .set_values((sheet, hr + 1, 5, hr + n, 5))
+            .set_name("Pump curve");
+    }
+    chart
+        .add_series()
+        .set_categories((sheet, hr + 1, 6, hr + 1, 6))
+        .set_values((sheet, hr + 1, 7, hr + 1, 7))
+        .set_name("Duty point")
+        .set_marker(
+            ChartMarker::new()
+                .set_type(ChartMarkerType::Diamond)
+                .set_size(10),
+        );
+    chart
+        .title()
+        .set_name(format!("System {}: head against flow", s.system).as_str());
+    chart.x_axis().set_name("Flow [m3/h]");
+    chart.y_axis().set_name("Head [m]");
+    chart.set_width(620).set_height(340);
+    ws.insert_chart(start, 9, &chart)?;
+    Ok(last.max(start + 18))
+}
+
+/// The energy block of `Summary`: total annual loss cost, systems that fail, the top five items.
+/// Returns the next free row.
+pub fn write_summary_block(
+    ws: &mut Worksheet,
+    audit: &Audit,
+    start: u32,
+) -> Result<u32, XlsxError> {
+    let st = Fmt::new();
+    let cur = &audit.energy.currency;
+    let mut r = start;
+    ws.write_string_with_format(r, 0, format!("Annual cost of losses [{cur}]"), &st.bold)?;
+    ws.write_number_with_format(r, 2, audit.energy.total_annual_cost, &st.n2)?;
+    ws.write_string(
+        r,
+        3,
+        format!(
+            "at {cur} {} per kWh; estimate, see Basis",
+            audit.energy.tariff_per_kwh
+        ),
+    )?;
+    r += 1;
+    ws.write_string_with_format(r, 0, "Annual energy of losses [kWh]", &st.bold)?;
+    ws.write_number_with_format(r, 2, audit.energy.total_annual_energy_kwh, &st.n0)?;
+    r += 1;
+    if let Some(c) = audit.energy.total_annual_co2_kg {
+        ws.write_string_with_format(r, 0, "Annual emissions of losses [kg CO2]", &st.bold)?;
+        ws.write_number_with_format(r, 2, c, &st.n0)?;
+        r += 1;
+    }
+    r += 1;
+    ws.write_string_with_format(
+        r,
+        0,
+        "Systems that fail their duty or NPSH margin",
+        &st.bold,
+    )?;
+    r += 1;
+    let failing: Vec<&SystemResult> = audit
+        .systems
+        .iter()
+        .filter(|s| s.fails_duty || s.fails_npsh)
+        .collect();
+    if failing.is_empty() {
+        ws.write_string(
+            r,
+            0,
+            if audit.systems.is_empty() {
+                "no systems given"
+            } else {
+                "none"
+            },
+        )?;
+        r += 1;
+    } else {
+        for (c, h) in [
+            "System",
+            "Fails",
+            "Required head [m]",
+            "Pump head [m]",
+            "Margin [m]",
+            "NPSHa [m]",
+            "NPSH needed [m]",
+        ]
+        .iter()
+        .enumerate()
+        {
+            ws.write_string_with_format(r, c as u16, *h, &st.header)?;
+        }
+        for s in failing {
+            r += 1;
+            ws.write_string_with_format(r, 0, &s.system, &st.bad)?;
+            ws.write_string(
+                r,
+                1,
+                match (s.fails_duty, s.fails_npsh) {
+                    (true, true) => "duty and NPSH",
+                    (true, false) => "duty",
+                    _ => "NPSH margin",
+                },
+            )?;
+            opt(ws, r, 2, Some(s.required_head_m), &st.n2)?;
+            opt(ws, r, 3, s.pump_head_m, &st.n2)?;
+            opt(ws, r, 4, s.margin_m, &st.n2)?;
+            opt(ws, r, 5, s.npsh_available_m, &st.n2)?;
+            opt(ws, r, 6, s.npsh_needed_m, &st.n2)?;
+        }
+        r += 1;
+    }
+    r += 1;
+    ws.write_string_with_format(r, 0, "Top five items (see Fitting ranking)", &st.bold)?;
+    r += 1;
+    let h = ["Rank", "Item", "Line", "Kind", "Head [m]"]
+        .iter()
+        .map(|s| s.to_string())
+        .chain([
+            format!("Annual cost [{cur}]"),
+            "Suggestion (estimate)".to_string(),
+        ]);
+    for (c, h) in h.enumerate() {
+        ws.write_string_with_format(r, c as u16, &h, &st.header)?;
+    }
+    for f in ranked(audit).into_iter().take(5) {
+        r += 1;
+        opt(ws, r, 0, f.rank.map(|x| x as f64), &st.n0)?;
+        ws.write_string(r, 1, label(f))?;
+        ws.write_string(r, 2, &f.line)?;
+        ws.write_string(r, 3, f.kind)?;
+        opt(ws, r, 4, Some(f.head_m), &st.n3)?;
+        opt(ws, r, 5, f.annual_cost, &st.n2)?;
+        if let Some(s) = &f.suggestion {
+            ws.write_string(r, 6, &s.replace_with)?;
+        }
+    }
+    Ok(r + 2)
+}
+
+/// Console text: annual loss cost, the worst items by cost, and each system's check.
+pub fn console_energy(audit: &Audit) -> String {
+    use comfy_table::{Table, presets::UTF8_FULL_CONDENSED};
+    let cur = &audit.energy.currency;
+    let mut out = format!(
+        "Annual cost of losses: {cur} {:.0} ({:.0} kWh at {cur} {} per kWh; estimates to confirm by field test)\n",
+        audit.energy.total_annual_cost,
+        audit.energy.total_annual_energy_kwh,
+        audit.energy.tariff_per_kwh
+    );
+    let items = ranked(audit);
+    if !items.is_empty() {
+        let mut t = Table::new();
+        t.load_style(UTF8_FULL_CONDENSED);
+        t.set_header([
+            "Rank",
+            "Fitting",
+            "Line",
+            "Head m",
+            &format!("{cur}/yr"),
+            "Rank holds",
+            "Suggestion",
+            &format!("Saving {cur}/yr"),
+            "Payback yr",
+        ]);
+        for f in items.iter().take(5) {
+            let s = f.suggestion.as_ref();
+            t.add_row([
+                f.rank.map(|r| r.to_string()).unwrap_or_default(),
+                label(f),
+                f.line.clone(),
+                format!("{:.3}", f.head_m),
+                f.annual_cost
+                    .map(|c| format!("{c:.0}"))
+                    .unwrap_or_else(|| "—".into()),
+                f.ranking
+                    .map(|k| {
+                        if k.uncertain {
+                            format!("no ({}–{})", k.best, k.worst)
+                        } else {
+                            "yes".into()
+                        }
+                    })
+                    .unwrap_or_default(),
+                s.map(|s| s.replace_with.clone()).unwrap_or_default(),
+                s.and_then(|s| s.annual_saving)
+                    .map(|x| format!("{x:.0}"))
+                    .unwrap_or_default(),
+                s.and_then(|s| s.payback_years)
+                    .map(|x| format!("{x:.1}"))
+                    .unwrap_or_default(),
+            ]);
+        }
+        out.push_str(&t.to_string());
+        out.push('\n');
+    }
+    if !audit.systems.is_empty() {
+        let mut t = Table::new();
+        t.load_style(UTF8_FULL_CONDENSED);
+        t.set_header([
+            "System",
+            "Lines",
+            "Flow m³/h",
+            "Static m",
+            "Losses m",
+            "Required m",
+            "Pump m",
+            "Margin m",
+            "NPSHa m",
+            "NPSHr m",
+            "Operating point",
+        ]);
+        let f2 = |v: Option<f64>| v.map(|x| format!("{x:.2}")).unwrap_or_else(|| "—".into());
+        for s in &audit.systems {
+            t.add_row([
+                s.system.clone(),
+                s.lines.join(", "),
+                format!("{:.1}", m3h(s.flow_m3_s)),
+                format!("{:.2}", s.static_head_m),
+                format!("{:.2}", s.losses_head_m),
+                format!("{:.2}", s.required_head_m),
+                f2(s.pump_head_m),
+                f2(s.margin_m),
+                f2(s.npsh_available_m),
+                f2(s.npsh_required_m),
+                s.operating_point
+                    .map(|p| format!("{:.1} m³/h at {:.2} m", m3h(p.flow_m3_s), p.head_m))
+                    .unwrap_or_else(|| "—".into()),
+            ]);
+        }
+        out.push_str(&t.to_string());
+        out.push('\n');
+    }
+    out
+}

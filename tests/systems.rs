@@ -1,0 +1,527 @@
+//! Systems: required head against the hand-worked two-line example of docs/energy.md, the
+//! system curve recomputed per flow, the operating point, NPSH available at two temperatures
+//! against the iapws fixtures, the NPSH margin rule and the suction-layout checks.
+
+use lossledger::audit::system::{CurvePoint, npsh_available, npsh_needed, operating_point};
+use lossledger::audit::{Audit, Rules};
+use lossledger::error::Severity;
+use rust_xlsxwriter::Workbook;
+use std::path::{Path, PathBuf};
+
+/// One test sheet: name, headers, rows.
+type Sheet<'a> = (&'a str, &'a [&'a str], Vec<Vec<C>>);
+
+const G: f64 = 9.80665;
+
+/// A cell of a test sheet.
+enum C {
+    S(&'static str),
+    N(f64),
+    E,
+}
+
+fn book(name: &str, sheets: &[Sheet<'_>]) -> PathBuf {
+    let dir =
+        std::env::temp_dir().join(format!("lossledger-systems-{}-{name}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let path = dir.join(format!("{name}.xlsx"));
+    let mut wb = Workbook::new();
+    for (sheet, headers, rows) in sheets {
+        let ws = wb.add_worksheet();
+        ws.set_name(*sheet).unwrap();
+        for (c, h) in headers.iter().enumerate() {
+            ws.write_string(0, c as u16, *h).unwrap();
+        }
+        for (r, row) in rows.iter().enumerate() {
+            for (c, v) in row.iter().enumerate() {
+                match v {
+                    C::S(s) => {
+                        ws.write_string(r as u32 + 1, c as u16, *s).unwrap();
+                    }
+                    C::N(x) => {
+                        ws.write_number(r as u32 + 1, c as u16, *x).unwrap();
+                    }
+                    C::E => {}
+                }
+            }
+        }
+    }
+    wb.save(&path).unwrap();
+    path
+}
+
+fn audit(path: &Path, rules: &Rules) -> Audit {
+    let input = lossledger::ingest::read_path(path).unwrap();
+    assert_eq!(input.error_count(), 0, "{:?}", input.diagnostics);
+    lossledger::audit::run(&input, rules).unwrap()
+}
+
+fn rel(a: f64, b: f64) -> f64 {
+    ((a - b) / b).abs()
+}
+
+fn two_line_book(name: &str) -> PathBuf {
+    book(
+        name,
+        &[
+            (
+                "Lines",
+                &["Line", "Service", "Flow [m3/h]", "Temperature [°C]"],
+                vec![
+                    vec![C::S("S1"), C::S("pump-suction"), C::N(144.0), C::N(20.0)],
+                    vec![C::S("D1"), C::S("pump-discharge"), C::N(144.0), C::N(20.0)],
+                ],
+            ),
+            (
+                "Pipes",
+                &["Line", "Inner diameter [mm]", "Length [m]", "C factor"],
+                vec![
+                    vec![C::S("S1"), C::N(200.0), C::N(10.0), C::N(120.0)],
+                    vec![C::S("D1"), C::N(150.0), C::N(200.0), C::N(120.0)],
+                ],
+            ),
+            (
+                "Fittings",
+                &["Tag", "Line", "Item", "K"],
+                vec![
+                    vec![C::S("S1-K"), C::S("S1"), C::E, C::N(0.5)],
+                    vec![C::S("D1-K"), C::S("D1"), C::E, C::N(5.0)],
+                ],
+            ),
+            (
+                "Systems",
+                &["System", "Lines", "Static head [m]", "Pump head [m]"],
+                vec![vec![C::S("Two"), C::S("S1, D1"), C::N(12.0), C::N(21.0)]],
+            ),
+        ],
+    )
+}
+
+// Source: docs/energy.md, worked example 2 (hand-worked with Hazen–Williams and given K).
+#[test]
+fn two_line_system_matches_the_hand_worked_example() {
+    let a = audit(&two_line_book("two-line"), &Rules::default());
+    let line = |id: &str| a.lines.iter().find(|l| l.line == id).unwrap();
+    assert!(rel(line("S1").friction_head_m, 0.098_355_661_767_8) < 1e-9);
+    assert!(rel(line("S1").fittings_head_m, 0.041_327_541_471_3) < 1e-9);
+    assert!(rel(line("D1").friction_head_m, 7.986_030_844_55) < 1e-9);
+    assert!(rel(line("D1").fittings_head_m, 1.306_154_397_12) < 1e-9);
+    let s = &a.systems[0];
+    assert_eq!(s.lines, vec!["S1", "D1"]);
+    assert!(
+        rel(s.required_head_m, 21.431_868_444_9) < 1e-9,
+        "{}",
+        s.required_head_m
+    );
+    assert!(
+        rel(s.margin_m.unwrap(), -0.431_868_444_9) < 1e-8,
+        "{:?}",
+        s.margin_m
+    );
+    assert!(s.fails_duty);
+    let f = a
+        .findings
+        .iter()
+        .find(|f| f.code == "pump-head-short")
+        .expect("pump-head-short raised");
+    assert_eq!(f.severity, Severity::Error);
+    // The curve's duty point is the required head; zero flow is the static head.
+    let duty = s
+        .curve
+        .iter()
+        .find(|p| rel(p.flow_m3_s, s.flow_m3_s) < 1e-12)
+        .unwrap();
+    assert!(rel(duty.head_m, s.required_head_m) < 1e-12);
+    assert_eq!(s.curve[0].head_m, 12.0);
+    assert_eq!(s.curve.len(), 14);
+    assert!(rel(s.curve[13].flow_m3_s, 1.3 * s.flow_m3_s) < 1e-12);
+}
+
+// A viscous liquid (Fluids sheet) turbulent at duty (Re 6000) and laminar at 10 % (Re 600).
+// Expected laminar head: Hagen–Poiseuille h = 32 μ L v / (ρ g D²) (White, Fluid Mechanics,
+// ch. 6, from memory), which no Q² scaling of the duty loss reproduces.
+#[test]
+fn system_curve_recomputes_friction_per_flow_across_a_regime_change() {
+    let (rho, mu, d, l) = (900.0, 0.05, 0.1, 40.0);
+    let v_duty = 6000.0 * mu / (rho * d);
+    let q_duty = v_duty * std::f64::consts::PI * d * d / 4.0;
+    let path = book(
+        "regime",
+        &[
+            (
+                "Lines",
+                &["Line", "Service", "Flow [m3/s]", "Fluid"],
+                vec![vec![
+                    C::S("OIL"),
+                    C::S("pump-discharge"),
+                    C::N(q_duty),
+                    C::S("light oil"),
+                ]],
+            ),
+            (
+                "Pipes",
+                &[
+                    "Line",
+                    "Inner diameter [mm]",
+                    "Length [m]",
+                    "Roughness [mm]",
+                ],
+                vec![vec![C::S("OIL"), C::N(100.0), C::N(l), C::N(0.0)]],
+            ),
+            (
+                "Fluids",
+                &["Fluid", "Density [kg/m3]", "Viscosity [Pa.s]"],
+                vec![vec![C::S("light oil"), C::N(rho), C::N(mu)]],
+            ),
+            (
+                "Systems",
+                &["System", "Lines", "Static head [m]"],
+                vec![vec![C::S("OilSys"), C::S("OIL"), C::N(5.0)]],
+            ),
+        ],
+    );
+    let a = audit(&path, &Rules::default());
+    let s = &a.systems[0];
+    let duty_losses = s.losses_head_m;
+    let p10 = s.curve[1];
+    let v10 = 0.1 * v_duty;
+    let hagen_poiseuille = 32.0 * mu * l * v10 / (rho * G * d * d);
+    assert!(
+        rel(p10.head_m - 5.0, hagen_poiseuille) < 1e-9,
+        "{} vs {hagen_poiseuille}",
+        p10.head_m - 5.0
+    );
+    let q2_scaled = 0.01 * duty_losses;
+    assert!(
+        (p10.head_m - 5.0) > 2.0 * q2_scaled,
+        "laminar loss {} must differ from Q² scaling {}",
+        p10.head_m - 5.0,
+        q2_scaled
+    );
+    assert!(
+        s.curve.windows(2).all(|w| w[1].head_m > w[0].head_m),
+        "the curve rises with flow"
+    );
+}
+
+// Analytic check: a straight pump curve H = 40 − 2000 Q against H = 10 + 5000 Q² meets at the
+// positive root of 5000 Q² + 2000 Q − 30 = 0 (quadratic formula).
+#[test]
+fn operating_point_is_the_intersection() {
+    let pump = [
+        CurvePoint {
+            flow_m3_s: 0.0,
+            head_m: 40.0,
+        },
+        CurvePoint {
+            flow_m3_s: 0.02,
+            head_m: 0.0,
+        },
+    ];
+    let op = operating_point(&pump, |q| 10.0 + 5000.0 * q * q).unwrap();
+    let q = (-2000.0 + (2000.0f64 * 2000.0 + 4.0 * 5000.0 * 30.0).sqrt()) / (2.0 * 5000.0);
+    assert!(rel(op.flow_m3_s, q) < 1e-9, "{} vs {q}", op.flow_m3_s);
+    assert!(rel(op.head_m, 10.0 + 5000.0 * q * q) < 1e-9);
+    assert!(
+        operating_point(&pump, |_| 50.0).is_none(),
+        "no crossing above the shut-off head"
+    );
+}
+
+#[test]
+fn a_pump_curve_sheet_gives_the_pump_head_and_the_operating_point() {
+    let sheets: Vec<Sheet<'_>> = vec![
+        (
+            "Lines",
+            &["Line", "Service", "Flow [m3/h]", "System"],
+            vec![
+                vec![
+                    C::S("D1"),
+                    C::S("pump-discharge"),
+                    C::N(144.0),
+                    C::S("Curve"),
+                ],
+                vec![C::S("S1"), C::S("pump-suction"), C::N(144.0), C::S("Curve")],
+            ],
+        ),
+        (
+            "Pipes",
+            &["Line", "Inner diameter [mm]", "Length [m]", "C factor"],
+            vec![
+                vec![C::S("S1"), C::N(200.0), C::N(10.0), C::N(120.0)],
+                vec![C::S("D1"), C::N(150.0), C::N(200.0), C::N(120.0)],
+            ],
+        ),
+        (
+            "Pump curve",
+            &["System", "Flow [m3/h]", "Head [m]"],
+            vec![
+                vec![C::S("Curve"), C::N(0.0), C::N(30.0)],
+                vec![C::S("Curve"), C::N(100.0), C::N(28.0)],
+                vec![C::S("Curve"), C::N(200.0), C::N(20.0)],
+                vec![C::S("Curve"), C::N(300.0), C::N(0.0)],
+            ],
+        ),
+    ];
+    let a = audit(&book("curve", &sheets), &Rules::default());
+    let s = &a.systems[0];
+    assert_eq!(
+        s.lines,
+        vec!["S1", "D1"],
+        "suction lines come first when the order is taken from Lines"
+    );
+    // 144 m3/h lies 44 % of the way from 100 to 200 m3/h: 28 − 0.44 × 8 = 24.48 m (linear interpolation).
+    assert!(rel(s.pump_head_m.unwrap(), 24.48) < 1e-12);
+    let op = s.operating_point.expect("the curves cross");
+    assert!(
+        op.flow_m3_s > s.flow_m3_s,
+        "the pump head exceeds the requirement at duty, so the pump runs out along its curve"
+    );
+    assert_eq!(s.static_head_m, 0.0, "no static head given anywhere");
+    assert!(op.flow_m3_s > 200.0 / 3600.0 && op.flow_m3_s < 300.0 / 3600.0);
+    // At the crossing, the pump curve's head (20 − 0.2 per m3/h above 200 m3/h) equals the system's.
+    let pump_at = 20.0 - 0.2 * (op.flow_m3_s * 3600.0 - 200.0);
+    assert!(rel(op.head_m, pump_at) < 1e-8, "{} vs {pump_at}", op.head_m);
+}
+
+fn fixture_water(t: f64) -> (f64, f64) {
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/fixtures/reference/water_iapws.csv"
+    ))
+    .unwrap();
+    for l in text.lines().skip(1) {
+        let v: Vec<f64> = l.split(',').map(|x| x.parse().unwrap()).collect();
+        if (v[0] - t).abs() < 1e-9 {
+            return (v[1], v[3]);
+        }
+    }
+    panic!("no fixture row at {t} °C");
+}
+
+// Source: fixtures/reference/water_iapws.csv (iapws 1.5.5, IAPWS97 density and saturation
+// pressure) and docs/energy.md worked example 3 (hand-worked).
+#[test]
+fn npsh_available_at_two_temperatures_matches_the_worked_example() {
+    let (rho20, pv20) = fixture_water(20.0);
+    let (rho80, pv80) = fixture_water(80.0);
+    assert!(
+        rel(
+            npsh_available(101_325.0, pv20, rho20, 2.0, 0.5),
+            11.611_880_784_8
+        ) < 1e-9
+    );
+    assert!(
+        rel(
+            npsh_available(101_325.0, pv80, rho80, 2.0, 0.5),
+            7.156_824_718_51
+        ) < 1e-9
+    );
+    // Margin rule: max(1.1 × 6.0, 6.0 + 0.6) = 6.6 m (docs/energy.md §5).
+    assert!(rel(npsh_needed(6.0, 1.1, 0.6), 6.6) < 1e-12);
+    assert!(rel(npsh_needed(10.0, 1.1, 0.6), 11.0) < 1e-12);
+}
+
+fn npsh_book(name: &str, t: f64, npshr: f64, level: f64) -> PathBuf {
+    book(
+        name,
+        &[
+            (
+                "Lines",
+                &["Line", "Service", "Flow [m3/h]", "Temperature [°C]"],
+                vec![
+                    vec![C::S("S"), C::S("pump-suction"), C::N(60.0), C::N(t)],
+                    vec![C::S("D"), C::S("pump-discharge"), C::N(60.0), C::N(t)],
+                ],
+            ),
+            (
+                "Pipes",
+                &["Line", "Size", "Schedule", "Length [m]"],
+                vec![
+                    vec![C::S("S"), C::S("DN150"), C::S("40"), C::N(6.0)],
+                    vec![C::S("D"), C::S("DN100"), C::S("40"), C::N(30.0)],
+                ],
+            ),
+            (
+                "Fittings",
+                &["Tag", "Line", "Item"],
+                vec![
+                    vec![C::S("S-EN"), C::S("S"), C::S("entrance-sharp")],
+                    vec![C::S("S-V"), C::S("S"), C::S("valve-gate")],
+                ],
+            ),
+            (
+                "Systems",
+                &[
+                    "System",
+                    "Lines",
+                    "Static head [m]",
+                    "NPSH required [m]",
+                    "Suction level [m]",
+                ],
+                vec![vec![
+                    C::S("N"),
+                    C::S("S, D"),
+                    C::N(10.0),
+                    C::N(npshr),
+                    C::N(level),
+                ]],
+            ),
+        ],
+    )
+}
+
+#[test]
+fn npsh_available_through_an_audit_uses_the_water_model_at_each_temperature() {
+    for t in [20.0, 80.0] {
+        let a = audit(
+            &npsh_book(&format!("npsh-{t}"), t, 2.0, 2.0),
+            &Rules::default(),
+        );
+        let (rho, pv) = fixture_water(t);
+        let s = &a.systems[0];
+        let losses = a.lines.iter().find(|l| l.line == "S").unwrap().total_head_m;
+        let expected = (101_325.0 - pv) / (rho * G) + 2.0 - losses;
+        assert!(
+            rel(s.npsh_available_m.unwrap(), expected) < 1e-6,
+            "{t} °C: {:?} vs {expected}",
+            s.npsh_available_m
+        );
+    }
+}
+
+#[test]
+fn npsh_margin_is_a_warning_inside_the_margin_and_an_error_below_npshr() {
+    let a = audit(&npsh_book("npsh-ok", 20.0, 2.0, 2.0), &Rules::default());
+    let npsha = a.systems[0].npsh_available_m.unwrap();
+    assert!(!a.findings.iter().any(|f| f.code == "npsh-margin"));
+    // NPSHr just under NPSHa: inside the 0.6 m margin, still above NPSHr.
+    let b = audit(
+        &npsh_book("npsh-thin", 20.0, npsha - 0.3, 2.0),
+        &Rules::default(),
+    );
+    let f = b
+        .findings
+        .iter()
+        .find(|f| f.code == "npsh-margin")
+        .expect("thin margin flagged");
+    assert_eq!(f.severity, Severity::Warning);
+    assert!(b.systems[0].fails_npsh);
+    let c = audit(
+        &npsh_book("npsh-short", 20.0, npsha + 0.5, 2.0),
+        &Rules::default(),
+    );
+    assert_eq!(
+        c.findings
+            .iter()
+            .find(|f| f.code == "npsh-margin")
+            .unwrap()
+            .severity,
+        Severity::Error
+    );
+}
+
+// ISO 2533 / US Standard Atmosphere 1976 at 1000 m geometric: about 89 876 Pa (from memory).
+#[test]
+fn a_site_elevation_lowers_npsh_available() {
+    let sea = audit(&npsh_book("sea", 20.0, 2.0, 2.0), &Rules::default());
+    let high = audit(
+        &npsh_book("high", 20.0, 2.0, 2.0),
+        &Rules::from_toml("[npsh]\nsite_elevation_m = 1000.0\n", "t").unwrap(),
+    );
+    let (rho, _) = fixture_water(20.0);
+    let drop = sea.systems[0].npsh_available_m.unwrap() - high.systems[0].npsh_available_m.unwrap();
+    let expected = (101_325.0 - 89_876.0) / (rho * G);
+    assert!(
+        (drop - expected).abs() < 10.0 / (rho * G),
+        "{drop} vs {expected}"
+    );
+}
+
+#[test]
+fn suction_layout_flags_an_elbow_at_the_pump_and_a_small_suction_bore() {
+    let path = book(
+        "layout",
+        &[
+            (
+                "Lines",
+                &["Line", "Service", "Flow [m3/h]"],
+                vec![
+                    vec![C::S("S"), C::S("pump-suction"), C::N(40.0)],
+                    vec![C::S("D"), C::S("pump-discharge"), C::N(40.0)],
+                ],
+            ),
+            (
+                "Pipes",
+                &["Line", "Size", "Schedule", "Length [m]"],
+                vec![
+                    vec![C::S("S"), C::S("DN80"), C::S("40"), C::N(4.0)],
+                    vec![C::S("D"), C::S("DN100"), C::S("40"), C::N(30.0)],
+                ],
+            ),
+            (
+                "Fittings",
+                &["Tag", "Line", "Item"],
+                vec![
+                    vec![C::S("S-V"), C::S("S"), C::S("valve-gate")],
+                    vec![C::S("S-E"), C::S("S"), C::S("elbow-90")],
+                ],
+            ),
+            (
+                "Systems",
+                &["System", "Lines", "Static head [m]"],
+                vec![vec![C::S("L"), C::S("S, D"), C::N(5.0)]],
+            ),
+        ],
+    );
+    let a = audit(&path, &Rules::default());
+    let hits: Vec<_> = a
+        .findings
+        .iter()
+        .filter(|f| f.code == "suction-layout")
+        .collect();
+    assert_eq!(hits.len(), 2, "{hits:?}");
+    assert!(hits.iter().any(|f| f.tag.as_deref() == Some("S-E")));
+    assert!(hits.iter().any(|f| f.message.contains("smaller")));
+    // With the elbow first and the valve last, only the bore is flagged.
+    let path = book(
+        "layout-ok",
+        &[
+            (
+                "Lines",
+                &["Line", "Service", "Flow [m3/h]"],
+                vec![
+                    vec![C::S("S"), C::S("pump-suction"), C::N(40.0)],
+                    vec![C::S("D"), C::S("pump-discharge"), C::N(40.0)],
+                ],
+            ),
+            (
+                "Pipes",
+                &["Line", "Size", "Schedule", "Length [m]"],
+                vec![
+                    vec![C::S("S"), C::S("DN100"), C::S("40"), C::N(4.0)],
+                    vec![C::S("D"), C::S("DN100"), C::S("40"), C::N(30.0)],
+                ],
+            ),
+            (
+                "Fittings",
+                &["Tag", "Line", "Item"],
+                vec![
+                    vec![C::S("S-E"), C::S("S"), C::S("elbow-90")],
+                    vec![C::S("S-V"), C::S("S"), C::S("valve-gate")],
+                ],
+            ),
+            (
+                "Systems",
+                &["System", "Lines", "Static head [m]"],
+                vec![vec![C::S("L"), C::S("S, D"), C::N(5.0)]],
+            ),
+        ],
+    );
+    let b = audit(&path, &Rules::default());
+    assert!(
+        !b.findings.iter().any(|f| f.code == "suction-layout"),
+        "{:?}",
+        b.findings
+    );
+}
