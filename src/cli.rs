@@ -3,7 +3,7 @@
 //! Exit codes (DESIGN.md §2): 0 audit written; 1 findings at or above `--fail-on`; 2 input or
 //! usage error (nothing written); 3 internal error.
 
-use clap::{Parser, Subcommand, ValueEnum};
+use clap::{Args, Parser, Subcommand, ValueEnum};
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
@@ -32,13 +32,88 @@ pub enum FailOn {
     Error,
 }
 
+/// Where the input comes from: workbooks, CSV files or folders, plus CSV tables named by flag.
+#[derive(Args, Debug, Clone, Default)]
+pub struct InputArgs {
+    /// Input workbooks (.xlsx), CSV files or folders of them; several are merged.
+    #[arg(required_unless_present_any = ["pipes"], value_name = "INPUT")]
+    pub input: Vec<PathBuf>,
+    /// A CSV file holding the Pipes table.
+    #[arg(long, value_name = "CSV")]
+    pub pipes: Option<PathBuf>,
+    /// A CSV file holding the Fittings table.
+    #[arg(long, value_name = "CSV")]
+    pub fittings: Option<PathBuf>,
+    /// A CSV file holding the Lines table.
+    #[arg(long, value_name = "CSV")]
+    pub lines: Option<PathBuf>,
+    /// Header map (TOML) for headers the aliases do not reach (`lossledger check` prints one).
+    #[arg(long, value_name = "FILE")]
+    pub map: Option<PathBuf>,
+}
+
+impl InputArgs {
+    /// The sources to read, in order.
+    pub fn sources(&self) -> Vec<ingest::InputSource> {
+        let mut out: Vec<ingest::InputSource> = self
+            .input
+            .iter()
+            .cloned()
+            .map(ingest::InputSource::Path)
+            .collect();
+        for (table, path) in [
+            (ingest::TableKind::Lines, &self.lines),
+            (ingest::TableKind::Pipes, &self.pipes),
+            (ingest::TableKind::Fittings, &self.fittings),
+        ] {
+            if let Some(path) = path {
+                out.push(ingest::InputSource::Csv {
+                    table,
+                    path: path.clone(),
+                });
+            }
+        }
+        out
+    }
+
+    /// The read options (the map file parsed). Prints the problem and returns `Err(2)` on a bad map.
+    pub fn options(&self) -> Result<ingest::ReadOptions, u8> {
+        match self
+            .map
+            .as_deref()
+            .map(ingest::HeaderMap::from_file)
+            .transpose()
+        {
+            Ok(map) => Ok(ingest::ReadOptions { map }),
+            Err(e) => {
+                eprintln!("error: {e}");
+                Err(2)
+            }
+        }
+    }
+
+    /// The paths given (for "do not overwrite an input" checks and the default output name).
+    pub fn paths(&self) -> Vec<PathBuf> {
+        let mut v = self.input.clone();
+        v.extend(
+            self.lines
+                .iter()
+                .chain(&self.pipes)
+                .chain(&self.fittings)
+                .cloned(),
+        );
+        v
+    }
+}
+
 /// Subcommands.
 #[derive(Subcommand, Debug)]
 pub enum Command {
     /// Audit a workbook and write the annotated copy (and JSON if asked).
     Audit {
-        /// Input workbook (.xlsx).
-        input: PathBuf,
+        /// Inputs.
+        #[command(flatten)]
+        inputs: InputArgs,
         /// Output workbook [default: INPUT.audit.xlsx beside the input].
         #[arg(short, long)]
         output: Option<PathBuf>,
@@ -51,6 +126,25 @@ pub enum Command {
         /// Exit with status 1 when findings reach this severity.
         #[arg(long, value_enum)]
         fail_on: Option<FailOn>,
+        /// Units of the console summary and the workbook's computed columns (JSON stays SI).
+        #[arg(long, value_enum, default_value = "si")]
+        units: report::console::UnitSystem,
+    },
+    /// Read and validate inputs only: print every diagnostic with its cell, the header mapping
+    /// used (as a map file) and the defaults that would apply. Exit 0 when clean, 2 on errors.
+    Check {
+        /// Inputs.
+        #[command(flatten)]
+        inputs: InputArgs,
+    },
+    /// Write a blank input workbook: canonical sheets and headers, a units row, drop-down lists,
+    /// an invented example row and a Read me sheet.
+    Template {
+        /// Workbook to write (.xlsx).
+        out: PathBuf,
+        /// Units written in the units row.
+        #[arg(long, value_enum, default_value = "si")]
+        units: report::console::UnitSystem,
     },
     /// Print the default rules as TOML, ready to copy and edit.
     Rules,
@@ -81,7 +175,9 @@ pub fn main() -> ExitCode {
     match std::panic::catch_unwind(|| run(cli)) {
         Ok(code) => ExitCode::from(code),
         Err(_) => {
-            eprintln!("internal error: lossledger stopped unexpectedly; nothing further was written. Please report this with the input file.");
+            eprintln!(
+                "internal error: lossledger stopped unexpectedly; nothing further was written. Please report this with the input file."
+            );
             ExitCode::from(3)
         }
     }
@@ -89,7 +185,14 @@ pub fn main() -> ExitCode {
 
 fn run(cli: Cli) -> u8 {
     match cli.command {
-        Command::Audit { input, output, json, rules, fail_on } => {
+        Command::Audit {
+            inputs,
+            output,
+            json,
+            rules,
+            fail_on,
+            units,
+        } => {
             let rules = match rules.as_deref().map(Rules::from_file).transpose() {
                 Ok(r) => r.unwrap_or_default(),
                 Err(e) => {
@@ -97,10 +200,27 @@ fn run(cli: Cli) -> u8 {
                     return 2;
                 }
             };
-            let out = output.unwrap_or_else(|| report::default_output(&input));
-            match audit_to_files(&input, &out, json.as_deref(), &rules) {
+            let options = match inputs.options() {
+                Ok(o) => o,
+                Err(code) => return code,
+            };
+            let paths = inputs.paths();
+            let Some(first) = paths.first() else {
+                eprintln!("error: no input given");
+                return 2;
+            };
+            let out = output.unwrap_or_else(|| report::default_output(first));
+            match audit_sources_to_files(
+                &inputs.sources(),
+                &options,
+                &paths,
+                &out,
+                json.as_deref(),
+                &rules,
+                units,
+            ) {
                 Ok(done) => {
-                    let summary = report::console::summary(&done);
+                    let summary = report::console::summary_in(&done, units);
                     if json.as_deref() == Some("-") {
                         eprint!("{summary}");
                     } else {
@@ -125,6 +245,8 @@ fn run(cli: Cli) -> u8 {
             0
         }
         Command::Demo { dir } => crate::demo::run(&dir),
+        Command::Check { inputs } => check(&inputs),
+        Command::Template { out, units } => crate::template::run(&out, units),
     }
 }
 
@@ -139,15 +261,90 @@ fn exit_for(audit: &audit::Audit, fail_on: Option<FailOn>) -> u8 {
 
 /// Read, audit and write. On any input error prints every diagnostic and returns `Err(2)` with
 /// nothing written; on an output error returns `Err(2)` or `Err(3)`.
-pub fn audit_to_files(input_path: &Path, out: &Path, json: Option<&str>, rules: &Rules) -> Result<audit::Audit, u8> {
-    let input = match ingest::read_path(input_path) {
+pub fn audit_to_files(
+    input_path: &Path,
+    out: &Path,
+    json: Option<&str>,
+    rules: &Rules,
+) -> Result<audit::Audit, u8> {
+    let sources = [ingest::InputSource::Path(input_path.to_path_buf())];
+    let paths = [input_path.to_path_buf()];
+    audit_sources_to_files(
+        &sources,
+        &ingest::ReadOptions::default(),
+        &paths,
+        out,
+        json,
+        rules,
+        report::console::UnitSystem::Si,
+    )
+}
+
+/// `lossledger check`: read and validate, print what was found; 0 when clean, 2 on errors.
+fn check(inputs: &InputArgs) -> u8 {
+    let options = match inputs.options() {
+        Ok(o) => o,
+        Err(code) => return code,
+    };
+    let input = match ingest::read_inputs(&inputs.sources(), &options) {
+        Ok(i) => i,
+        Err(e) => {
+            eprintln!("error: {e}");
+            return 2;
+        }
+    };
+    let mut diagnostics = input.diagnostics.clone();
+    if input.error_count() == 0
+        && let Err(errors) = audit::run(&input, &Rules::default())
+    {
+        diagnostics.extend(errors);
+    }
+    print!("{}", ingest::describe(&input));
+    let errors = diagnostics
+        .iter()
+        .filter(|d| d.severity == Severity::Error)
+        .count();
+    let warnings = diagnostics
+        .iter()
+        .filter(|d| d.severity == Severity::Warning)
+        .count();
+    if !diagnostics.is_empty() {
+        println!("\nDiagnostics:");
+        for d in &diagnostics {
+            println!("{d}");
+        }
+    }
+    println!(
+        "\n{errors} error(s), {warnings} warning(s) in {}",
+        input.file
+    );
+    if errors > 0 { 2 } else { 0 }
+}
+
+/// Read several sources, audit and write (see [`audit_to_files`]); `paths` are the input files,
+/// never overwritten.
+#[allow(clippy::too_many_arguments)]
+pub fn audit_sources_to_files(
+    sources: &[ingest::InputSource],
+    options: &ingest::ReadOptions,
+    paths: &[PathBuf],
+    out: &Path,
+    json: Option<&str>,
+    rules: &Rules,
+    units: report::console::UnitSystem,
+) -> Result<audit::Audit, u8> {
+    let input = match ingest::read_inputs(sources, options) {
         Ok(i) => i,
         Err(e) => {
             eprintln!("error: {e}");
             return Err(2);
         }
     };
-    for d in input.diagnostics.iter().filter(|d| d.severity != Severity::Error) {
+    for d in input
+        .diagnostics
+        .iter()
+        .filter(|d| d.severity != Severity::Error)
+    {
         eprintln!("{d}");
     }
     let done = match audit::run(&input, rules) {
@@ -156,49 +353,163 @@ pub fn audit_to_files(input_path: &Path, out: &Path, json: Option<&str>, rules: 
             for d in &errors {
                 eprintln!("{d}");
             }
-            eprintln!("{} error(s) in {}; nothing was written", errors.len(), input.file);
+            eprintln!(
+                "{} error(s) in {}; nothing was written",
+                errors.len(),
+                input.file
+            );
             return Err(2);
         }
     };
-    let mut inputs = vec![input_path.to_path_buf()];
+    let overflow = non_finite_results(&input, &done);
+    if !overflow.is_empty() {
+        for d in &overflow {
+            eprintln!("{d}");
+        }
+        eprintln!(
+            "{} error(s) in {}; nothing was written",
+            overflow.len(),
+            input.file
+        );
+        return Err(2);
+    }
+    let mut inputs: Vec<PathBuf> = paths.to_vec();
+    inputs.extend(input.sources.iter().map(|s| s.path.clone()));
     if let Some(j) = json.filter(|j| *j != "-") {
-        inputs.push(PathBuf::from(j));
-        if let Err(e) = report::check_not_input(Path::new(j), &[input_path.to_path_buf()]) {
+        if let Err(e) = report::check_not_input(Path::new(j), &inputs) {
             eprintln!("error: {e}");
             return Err(2);
         }
+        inputs.push(PathBuf::from(j));
     }
     if let Err(e) = report::check_not_input(out, &inputs) {
         eprintln!("error: {e}");
         return Err(2);
     }
-    let bytes = match report::workbook::build(&input, &done) {
+    let bytes = match report::workbook::build_in(&input, &done, units) {
         Ok(b) => b,
         Err(e) => {
             eprintln!("internal error: building the workbook failed: {e}");
             return Err(3);
         }
     };
-    let json_text = match json.map(|_| report::json::to_string(&input, &done)).transpose() {
+    let json_text = match json
+        .map(|_| report::json::to_string(&input, &done))
+        .transpose()
+    {
         Ok(t) => t,
         Err(e) => {
             eprintln!("internal error: building JSON failed: {e}");
             return Err(3);
         }
     };
-    if let Err(e) = report::write_atomic(out, &bytes) {
+    // Stage every output in full before renaming any into place: a failure leaves none of them.
+    let staged_book = match report::stage(out, &bytes) {
+        Ok(s) => s,
+        Err(e) => {
+            eprintln!("error: {e}; nothing was written");
+            return Err(2);
+        }
+    };
+    let staged_json = match (json, &json_text) {
+        (Some(path), Some(text)) if path != "-" => {
+            match report::stage(Path::new(path), text.as_bytes()) {
+                Ok(s) => Some(s),
+                Err(e) => {
+                    eprintln!("error: {e}; nothing was written");
+                    return Err(2);
+                }
+            }
+        }
+        _ => None,
+    };
+    if let Err(e) = staged_book.commit() {
         eprintln!("error: {e}; nothing was written");
         return Err(2);
     }
-    if let (Some(path), Some(text)) = (json, json_text) {
-        if path == "-" {
-            println!("{text}");
-        } else if let Err(e) = report::write_atomic(Path::new(path), text.as_bytes()) {
-            eprintln!("error: {e}");
-            return Err(2);
-        }
+    if let Some(s) = staged_json
+        && let Err(e) = s.commit()
+    {
+        eprintln!(
+            "error: {e}; the workbook {} was written, the JSON was not",
+            out.display()
+        );
+        return Err(2);
+    }
+    if let (Some("-"), Some(text)) = (json, json_text) {
+        println!("{text}");
     }
     Ok(done)
+}
+
+/// Results that came out infinite or NaN (inputs finite but far out of range, e.g. a length of
+/// 1e308 m): one error per item at its source cell, so nothing non-finite reaches an output.
+fn non_finite_results(
+    input: &ingest::Input,
+    audit: &audit::Audit,
+) -> Vec<crate::error::Diagnostic> {
+    let mut out = Vec::new();
+    let push = |out: &mut Vec<crate::error::Diagnostic>,
+                cell: &crate::error::CellRef,
+                what: String| {
+        out.push(crate::error::Diagnostic {
+            severity: Severity::Error,
+            file: input.file_of(&cell.sheet).to_string(),
+            cell: Some(cell.clone()),
+            message: format!(
+                "{what} is not a finite number: a value on this row is far out of range"
+            ),
+            hint: Some(
+                "check the row's length, size, flow and K for a misplaced exponent or unit".into(),
+            ),
+        });
+    };
+    for r in &audit.runs {
+        let figures = [
+            ("velocity", r.velocity_m_s),
+            ("Reynolds number", r.reynolds),
+            ("friction head", r.head_m),
+            ("friction loss", r.dp_pa),
+        ];
+        if let Some((what, _)) = figures.iter().find(|(_, v)| !v.is_finite()) {
+            push(&mut out, &r.cell, format!("line {}: {what}", r.line));
+        }
+    }
+    for f in audit.fittings.iter().filter(|f| f.opening != Some(0.0)) {
+        let figures = [
+            ("K", f.k),
+            ("velocity", f.velocity_m_s),
+            ("head", f.head_m),
+            ("head high", f.head_high_m),
+            ("loss", f.dp_pa),
+        ];
+        if let Some((what, _)) = figures.iter().find(|(_, v)| !v.is_finite()) {
+            push(
+                &mut out,
+                &f.cell,
+                format!("fitting {} on line {}: {what}", f.tag, f.line),
+            );
+        }
+    }
+    if out.is_empty() {
+        for l in &audit.lines {
+            let figures = [
+                ("total head", l.total_head_m),
+                ("total head high", l.total_head_high_m),
+                ("total loss", l.total_dp_pa),
+            ];
+            if let (Some((what, _)), Some(&i)) =
+                (figures.iter().find(|(_, v)| !v.is_finite()), l.runs.first())
+            {
+                push(
+                    &mut out,
+                    &audit.runs[i].cell,
+                    format!("line {}: {what}", l.line),
+                );
+            }
+        }
+    }
+    out
 }
 
 fn kinds_table() -> String {

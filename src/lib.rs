@@ -12,4 +12,5 @@ pub mod ingest;
 pub mod physics;
 pub mod report;
 pub mod table;
+pub mod template;
 pub mod units;

@@ -74,6 +74,22 @@ impl SheetGrid {
 
 /// Read every sheet of an `.xlsx` workbook.
 pub fn read_xlsx(path: &Path, file: &str) -> Result<Vec<SheetGrid>, InputError> {
+    // calamine 0.38 can panic on some malformed files (an arithmetic overflow on an absurd cell
+    // reference when overflow checks are on; found by fuzzing, tests/bad/fuzz-*.xlsx). Treat that
+    // as an unreadable file, without the panic message. The CLI is single-threaded here.
+    let hook = std::panic::take_hook();
+    std::panic::set_hook(Box::new(|_| {}));
+    let result = std::panic::catch_unwind(|| read_xlsx_inner(path, file));
+    std::panic::set_hook(hook);
+    result.unwrap_or_else(|_| {
+        Err(InputError::Unreadable {
+            file: file.to_string(),
+            reason: "the workbook's XML is malformed (the reader stopped on it); re-save it from the spreadsheet application".into(),
+        })
+    })
+}
+
+fn read_xlsx_inner(path: &Path, file: &str) -> Result<Vec<SheetGrid>, InputError> {
     let unreadable = |reason: String| InputError::Unreadable {
         file: file.to_string(),
         reason,
@@ -90,9 +106,16 @@ pub fn read_xlsx(path: &Path, file: &str) -> Result<Vec<SheetGrid>, InputError> 
             Ok(r) => r,
             // Chart sheets and dialog sheets have no cells: skip them.
             Err(calamine::XlsxError::WorksheetNotFound(_)) => continue,
-            Err(e) => return Err(unreadable(format!("sheet '{name}': {}", describe_xlsx_error(&e)))),
+            Err(e) => {
+                return Err(unreadable(format!(
+                    "sheet '{name}': {}",
+                    describe_xlsx_error(&e)
+                )));
+            }
         };
-        let formulas = wb.worksheet_formula(&name).unwrap_or_else(|_| Range::empty());
+        let formulas = wb
+            .worksheet_formula(&name)
+            .unwrap_or_else(|_| Range::empty());
         let merged = wb.merge_cells_by_sheet_name(&name).unwrap_or_default();
         sheets.push(SheetGrid {
             name,

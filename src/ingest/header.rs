@@ -3,6 +3,7 @@
 use calamine::Data;
 
 use super::grid::SheetGrid;
+use super::map::HeaderMap;
 use super::schema::{self, ColumnSpec, ColumnType, TableKind};
 use crate::units::{self, Unit};
 
@@ -24,6 +25,8 @@ pub struct MappedColumn {
     pub unit: Option<Unit>,
     /// Whether the unit was defaulted because none was written.
     pub unit_defaulted: bool,
+    /// Whether the match came from the user's `--map` file rather than the alias table.
+    pub by_map: bool,
 }
 
 /// Where a table sits in a sheet and how its columns map.
@@ -35,8 +38,10 @@ pub struct Layout {
     pub sheet_index: usize,
     /// Sheet name.
     pub sheet: String,
-    /// Zero-based header row.
+    /// Zero-based header row (the upper one when the header spans two rows).
     pub header_row: u32,
+    /// Rows the header spans: 1, or 2 for a header written over two rows.
+    pub header_rows: u32,
     /// Zero-based row of a units row under the header, when there is one.
     pub units_row: Option<u32>,
     /// First data row.
@@ -63,7 +68,10 @@ pub fn split_header(text: &str) -> (String, Option<String>) {
         {
             let name = format!("{}{}", &t[..a], &t[b + close.len_utf8()..]);
             let unit = t[a + open.len_utf8()..b].trim();
-            return (name.trim().to_string(), (!unit.is_empty()).then(|| unit.to_string()));
+            return (
+                name.trim().to_string(),
+                (!unit.is_empty()).then(|| unit.to_string()),
+            );
         }
     }
     if let Some((name, unit)) = t.rsplit_once(',') {
@@ -85,47 +93,161 @@ fn header_text(d: &Data) -> Option<String> {
     }
 }
 
-/// Match the texts of one row to a table's columns; returns matches and unmatched headers.
-fn map_row(grid: &SheetGrid, table: TableKind, row: u32) -> (Vec<MappedColumn>, Vec<(u32, String)>) {
+/// Header text of one cell (merged ranges give their top-left text to every cell).
+fn cell_text(grid: &SheetGrid, row: u32, col: u32) -> Option<String> {
+    header_text(grid.merged_value(row, col))
+}
+
+/// The column a header text names: a `--map` entry first, then the whole text (`Le/D` has no
+/// unit), then the name with its unit split off (`Length [m]`), then the name with a trailing unit
+/// word dropped (`Flow gpm`). Returns the column and the unit label that goes with it.
+fn match_header(
+    table: TableKind,
+    text: &str,
+    map: Option<&HeaderMap>,
+) -> Option<(&'static ColumnSpec, Option<String>, bool)> {
+    let (name, unit_label) = split_header(text);
+    if let Some(map) = map {
+        for candidate in [text, name.as_str()] {
+            if let Some((spec, unit)) = map.column(table, candidate) {
+                let label =
+                    unit.or_else(|| (candidate != text).then(|| unit_label.clone()).flatten());
+                return Some((spec, label, true));
+            }
+        }
+    }
+    if let Some(s) = schema::match_column(table, &schema::fold(text)) {
+        return Some((s, None, false));
+    }
+    if let Some(s) = schema::match_column(table, &schema::fold(&name)) {
+        return Some((s, unit_label, false));
+    }
+    if unit_label.is_none()
+        && let Some((head, last)) = text.trim().rsplit_once(char::is_whitespace)
+        && let Some(s) = schema::match_column(table, &schema::fold(head))
+        && let ColumnType::Number(q) = s.ty
+        && units::parse_unit(last, q).is_some()
+    {
+        return Some((s, Some(last.to_string()), false));
+    }
+    None
+}
+
+/// Match header texts (one per column) to a table's columns; returns matches and unmatched headers.
+fn map_texts(
+    table: TableKind,
+    texts: Vec<(u32, Vec<String>)>,
+    map: Option<&HeaderMap>,
+) -> (Vec<MappedColumn>, Vec<(u32, String)>) {
     let mut mapped: Vec<MappedColumn> = Vec::new();
     let mut unknown = Vec::new();
-    for col in 0..grid.end_col() {
-        let Some(text) = header_text(grid.merged_value(row, col)) else {
-            continue;
-        };
-        let (name, unit_label) = split_header(&text);
-        // A header whose whole text is a column name wins over a split one ("Le/D" has no unit).
-        let whole = schema::match_column(table, &schema::fold(&text));
-        let (spec, unit_label) = match whole {
-            Some(s) => (Some(s), None),
-            None => (schema::match_column(table, &schema::fold(&name)), unit_label),
-        };
-        match spec {
-            Some(spec) if !mapped.iter().any(|m| m.spec.key == spec.key) => mapped.push(MappedColumn {
+    for (col, candidates) in texts {
+        let hit = candidates.iter().find_map(|t| {
+            match_header(table, t, map)
+                .filter(|(spec, _, _)| !mapped.iter().any(|m| m.spec.key == spec.key))
+                .map(|(spec, unit, by_map)| (t.clone(), spec, unit, by_map))
+        });
+        match hit {
+            Some((text, spec, unit_label, by_map)) => mapped.push(MappedColumn {
                 spec,
                 col,
                 header: text,
                 unit_label,
                 unit: None,
                 unit_defaulted: false,
+                by_map,
             }),
-            _ => unknown.push((col, text)),
+            None => {
+                if let Some(first) = candidates.into_iter().next() {
+                    unknown.push((col, first));
+                }
+            }
         }
     }
     (mapped, unknown)
 }
 
+/// One header row's texts.
+fn one_row(grid: &SheetGrid, row: u32) -> Vec<(u32, Vec<String>)> {
+    (0..grid.end_col())
+        .filter_map(|col| cell_text(grid, row, col).map(|t| (col, vec![t])))
+        .collect()
+}
+
+/// A header spread over two rows: per column the joined text (`Line` over `No.` is `Line No.`),
+/// then the lower text, then the upper one.
+fn two_rows(grid: &SheetGrid, row: u32) -> Vec<(u32, Vec<String>)> {
+    (0..grid.end_col())
+        .filter_map(|col| {
+            let top = cell_text(grid, row, col);
+            let bottom = cell_text(grid, row + 1, col);
+            let mut c = Vec::new();
+            if let (Some(t), Some(b)) = (&top, &bottom) {
+                c.push(format!("{t} {b}"));
+            }
+            c.extend(bottom);
+            c.extend(top);
+            (!c.is_empty()).then_some((col, c))
+        })
+        .collect()
+}
+
+fn row_has_numbers(grid: &SheetGrid, row: u32) -> bool {
+    (0..grid.end_col()).any(|c| {
+        matches!(
+            grid.value(row, c),
+            Data::Float(_) | Data::Int(_) | Data::DateTime(_)
+        )
+    })
+}
+
 /// Find a table's header row in a sheet: the first row within [`HEADER_SEARCH_ROWS`] whose cells
-/// name at least two of the table's columns.
+/// name at least two of the table's columns, alone or together with the row under it (a header
+/// written over two rows).
 pub fn find_layout(grid: &SheetGrid, sheet_index: usize, table: TableKind) -> Option<Layout> {
+    find_layout_with(grid, sheet_index, table, None)
+}
+
+/// [`find_layout`] with a user's header map (`--map`), whose entries win over the aliases.
+pub fn find_layout_with(
+    grid: &SheetGrid,
+    sheet_index: usize,
+    table: TableKind,
+    map: Option<&HeaderMap>,
+) -> Option<Layout> {
     let start = grid.values.start().map(|(r, _)| r).unwrap_or(0);
     let last = grid.end_row().min(start + HEADER_SEARCH_ROWS);
     for row in 0..last {
-        let (mut columns, unknown) = map_row(grid, table, row);
+        let (single, single_unknown) = map_texts(table, one_row(grid, row), map);
+        let units_under = (single.len() >= 2)
+            .then(|| detect_units_row(grid, row + 1, &single))
+            .flatten();
+        let (mut columns, unknown, header_rows) =
+            if units_under.is_none() && row + 1 < grid.end_row() && !row_has_numbers(grid, row + 1)
+            {
+                let (double, double_unknown) = map_texts(table, two_rows(grid, row), map);
+                // A title line above a one-row header is not a two-row header: the lower row alone
+                // must not do as well.
+                let next = map_texts(table, one_row(grid, row + 1), map).0.len();
+                if double.len() > single.len().max(next) && double.len() >= 2 {
+                    (double, double_unknown, 2)
+                } else if next > single.len() && next >= 2 {
+                    // The row under names more columns on its own: it is the header (this row is a
+                    // group label or a title).
+                    continue;
+                } else {
+                    (single, single_unknown, 1)
+                }
+            } else {
+                (single, single_unknown, 1)
+            };
         if columns.len() < 2 {
             continue;
         }
-        let units_row = detect_units_row(grid, row + 1, &columns);
+        let units_row = match header_rows {
+            1 => units_under,
+            _ => detect_units_row(grid, row + 2, &columns),
+        };
         for c in &mut columns {
             if c.unit_label.is_none()
                 && let Some(ur) = units_row
@@ -148,8 +270,9 @@ pub fn find_layout(grid: &SheetGrid, sheet_index: usize, table: TableKind) -> Op
             sheet_index,
             sheet: grid.name.clone(),
             header_row: row,
+            header_rows,
             units_row,
-            data_start: row + 1 + u32::from(units_row.is_some()),
+            data_start: row + header_rows + u32::from(units_row.is_some()),
             columns,
             unknown,
         });
@@ -190,9 +313,18 @@ mod tests {
 
     #[test]
     fn units_come_from_brackets_parentheses_or_a_comma() {
-        assert_eq!(split_header("Flow [m3/h]"), ("Flow".into(), Some("m3/h".into())));
-        assert_eq!(split_header("Length (ft)"), ("Length".into(), Some("ft".into())));
-        assert_eq!(split_header("Flow, gpm"), ("Flow".into(), Some("gpm".into())));
+        assert_eq!(
+            split_header("Flow [m3/h]"),
+            ("Flow".into(), Some("m3/h".into()))
+        );
+        assert_eq!(
+            split_header("Length (ft)"),
+            ("Length".into(), Some("ft".into()))
+        );
+        assert_eq!(
+            split_header("Flow, gpm"),
+            ("Flow".into(), Some("gpm".into()))
+        );
         assert_eq!(split_header("Tag"), ("Tag".into(), None));
     }
 }

@@ -4,30 +4,104 @@
 //! maps columns through [`schema`], and [`rows`] reads each cell with [`parse`], collecting every
 //! problem as a [`Diagnostic`] so the user sees them all at once.
 
+pub mod csv;
 pub mod grid;
 pub mod header;
+pub mod map;
 pub mod parse;
 pub mod rows;
 pub mod schema;
 
 use sha2::{Digest, Sha256};
+use std::collections::{HashMap, HashSet};
 use std::path::{Path, PathBuf};
 
-use crate::error::{Diagnostic, InputError, Severity};
+use crate::error::{CellRef, Diagnostic, InputError, Severity};
 pub use grid::SheetGrid;
 pub use header::Layout;
-pub use rows::{FittingRow, FluidRow, LineRow, PipeRow, Service, SystemRow};
+pub use map::HeaderMap;
+pub use rows::{FittingRow, FluidRow, LineRow, PipeRow, PumpCurveRow, Service, SystemRow};
 pub use schema::TableKind;
 
-/// One input workbook, read and parsed.
-#[derive(Clone, Debug)]
-pub struct Input {
-    /// File name as given on the command line.
+/// One file an input was read from.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Source {
+    /// File name as given.
     pub file: String,
     /// Path of the file.
     pub path: PathBuf,
     /// SHA-256 of the file's bytes, hex.
     pub sha256: String,
+    /// Sheets that came from this file (names as in [`Input::sheets`]).
+    pub sheets: Vec<String>,
+}
+
+/// A text cell read as a number ("numbers stored as text"), for the Parse report.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Conversion {
+    /// The cell.
+    pub cell: CellRef,
+    /// The text as written.
+    pub text: String,
+    /// The number read (in the unit written, before conversion to SI).
+    pub value: f64,
+    /// Unit written in the cell, if any.
+    pub unit: Option<String>,
+}
+
+/// A row inside a table that was not read as data, and why.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Skipped {
+    /// First cell of the row.
+    pub cell: CellRef,
+    /// Why the row was skipped.
+    pub reason: String,
+}
+
+/// What reading did to the cells, beyond diagnostics: conversions and skipped rows.
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct ParseReport {
+    /// Text cells read as numbers.
+    pub conversions: Vec<Conversion>,
+    /// Rows skipped (blank rows are only counted, in `blank_rows`).
+    pub skipped: Vec<Skipped>,
+    /// Blank rows inside tables, per sheet.
+    pub blank_rows: Vec<(String, usize)>,
+}
+
+/// How to read inputs.
+#[derive(Clone, Debug, Default)]
+pub struct ReadOptions {
+    /// The user's header map (`--map`).
+    pub map: Option<HeaderMap>,
+}
+
+/// One thing to read: a workbook, a CSV file, or a folder of them.
+#[derive(Clone, Debug, PartialEq)]
+pub enum InputSource {
+    /// An `.xlsx`/`.xlsm` workbook, a `.csv` file (its table found from its name or headers), or a
+    /// folder holding such files.
+    Path(PathBuf),
+    /// A CSV file holding one given table (`--pipes`, `--fittings`, `--lines`).
+    Csv {
+        /// The table the file holds.
+        table: TableKind,
+        /// The file.
+        path: PathBuf,
+    },
+}
+
+/// One input workbook (or several merged), read and parsed.
+#[derive(Clone, Debug)]
+pub struct Input {
+    /// File name as given (names joined with ` + ` when several files are merged).
+    pub file: String,
+    /// Path of the (first) file.
+    pub path: PathBuf,
+    /// SHA-256 of the file's bytes, hex (several files: SHA-256 of their `name<TAB>hash` lines).
+    pub sha256: String,
+    /// The files read, in order.
+    pub sources: Vec<Source>,
     /// Every sheet, every cell.
     pub sheets: Vec<SheetGrid>,
     /// Where each table was found.
@@ -42,51 +116,234 @@ pub struct Input {
     pub systems: Vec<SystemRow>,
     /// Parsed rows.
     pub fluids: Vec<FluidRow>,
+    /// Parsed rows of `Pump curve`.
+    pub pump_curves: Vec<PumpCurveRow>,
     /// Everything noticed while reading, in sheet order.
     pub diagnostics: Vec<Diagnostic>,
+    /// Conversions and skipped rows.
+    pub report: ParseReport,
 }
 
 impl Input {
     /// Number of error-level diagnostics.
     pub fn error_count(&self) -> usize {
-        self.diagnostics.iter().filter(|d| d.severity == Severity::Error).count()
+        self.diagnostics
+            .iter()
+            .filter(|d| d.severity == Severity::Error)
+            .count()
     }
 
-    /// The layout of a table, when the table was found.
+    /// The layout of a table, when the table was found (the first one when several files each
+    /// hold the table; see [`Input::layout_on`]).
     pub fn layout(&self, table: TableKind) -> Option<&Layout> {
         self.layouts.iter().find(|l| l.table == table)
     }
+
+    /// The layout of a table on a given sheet (falls back to [`Input::layout`]).
+    pub fn layout_on(&self, table: TableKind, sheet: &str) -> Option<&Layout> {
+        self.layouts
+            .iter()
+            .find(|l| l.table == table && l.sheet == sheet)
+            .or_else(|| self.layout(table))
+    }
+
+    /// The file a sheet came from.
+    pub fn file_of(&self, sheet: &str) -> &str {
+        self.sources
+            .iter()
+            .find(|s| s.sheets.iter().any(|n| n == sheet))
+            .map_or(self.file.as_str(), |s| s.file.as_str())
+    }
 }
 
-/// Read an `.xlsx` input: open, hash, find tables, parse rows. A file that cannot be read at all
-/// is an `Err`; problems inside it are diagnostics in the returned [`Input`].
+/// Read an `.xlsx` workbook, a `.csv` file or a folder of them: open, hash, find tables, parse
+/// rows. A file that cannot be read at all is an `Err`; problems inside it are diagnostics in the
+/// returned [`Input`].
 pub fn read_path(path: &Path) -> Result<Input, InputError> {
+    read_path_with(path, &ReadOptions::default())
+}
+
+/// [`read_path`] with options (a header map).
+pub fn read_path_with(path: &Path, options: &ReadOptions) -> Result<Input, InputError> {
+    read_inputs(&[InputSource::Path(path.to_path_buf())], options)
+}
+
+/// Files in a folder that can be inputs (`.xlsx`, `.xlsm`, `.csv`), sorted by name; spreadsheet
+/// lock files (`~$...`) and outputs of earlier audits (`*.audit.xlsx`) are left out.
+pub fn folder_inputs(dir: &Path) -> Result<Vec<PathBuf>, InputError> {
+    let entries = std::fs::read_dir(dir).map_err(|e| InputError::Unreadable {
+        file: dir.display().to_string(),
+        reason: e.to_string(),
+    })?;
+    let mut files: Vec<PathBuf> = entries
+        .filter_map(Result::ok)
+        .map(|e| e.path())
+        .filter(|p| p.is_file())
+        .filter(|p| {
+            let name = p
+                .file_name()
+                .and_then(|n| n.to_str())
+                .unwrap_or_default()
+                .to_lowercase();
+            !name.starts_with("~$")
+                && !name.starts_with('.')
+                && !name.ends_with(".audit.xlsx")
+                && (name.ends_with(".xlsx") || name.ends_with(".xlsm") || name.ends_with(".csv"))
+        })
+        .collect();
+    files.sort();
+    if files.is_empty() {
+        return Err(InputError::Unreadable {
+            file: dir.display().to_string(),
+            reason: "the folder holds no .xlsx or .csv files".into(),
+        });
+    }
+    Ok(files)
+}
+
+fn extension(path: &Path) -> String {
+    path.extension()
+        .and_then(|e| e.to_str())
+        .map(str::to_ascii_lowercase)
+        .unwrap_or_default()
+}
+
+/// Read one file into its sheets, with its hash.
+fn read_file(
+    path: &Path,
+    table: Option<TableKind>,
+) -> Result<(Source, Vec<SheetGrid>), InputError> {
     let file = path.display().to_string();
     let bytes = std::fs::read(path).map_err(|e| InputError::Unreadable {
         file: file.clone(),
         reason: e.to_string(),
     })?;
-    let ext = path
-        .extension()
-        .and_then(|e| e.to_str())
-        .map(str::to_ascii_lowercase)
-        .unwrap_or_default();
-    if !matches!(ext.as_str(), "xlsx" | "xlsm") {
-        return Err(InputError::UnsupportedType { file });
-    }
     let sha256 = hex(&Sha256::digest(&bytes));
-    let sheets = grid::read_xlsx(path, &file)?;
-    Ok(from_sheets(file, path.to_path_buf(), sha256, sheets))
+    let sheets = match extension(path).as_str() {
+        "xlsx" | "xlsm" if table.is_none() => grid::read_xlsx(path, &file)?,
+        "csv" | "txt" => {
+            let text = match String::from_utf8(bytes) {
+                Ok(t) => t,
+                // Spreadsheet applications often save CSV as Windows-1252: read it byte for byte.
+                Err(e) => e.into_bytes().iter().map(|&b| char::from(b)).collect(),
+            };
+            let name = match table {
+                Some(t) => t.sheet_name().to_string(),
+                None => sheet_name_of(path),
+            };
+            vec![csv::sheet_from_text(&name, &text)]
+        }
+        _ => return Err(InputError::UnsupportedType { file }),
+    };
+    let source = Source {
+        file,
+        path: path.to_path_buf(),
+        sha256,
+        sheets: sheets.iter().map(|s| s.name.clone()).collect(),
+    };
+    Ok((source, sheets))
 }
 
-/// Parse already-read sheets (used by [`read_path`] and by tests).
+/// A sheet name for a CSV file: its stem, cut to the 31 characters a sheet name may have and
+/// without the characters a sheet name may not hold.
+fn sheet_name_of(path: &Path) -> String {
+    let stem = path.file_stem().and_then(|s| s.to_str()).unwrap_or("CSV");
+    let clean: String = stem
+        .chars()
+        .map(|c| {
+            if matches!(c, '[' | ']' | ':' | '*' | '?' | '/' | '\\') {
+                '_'
+            } else {
+                c
+            }
+        })
+        .take(31)
+        .collect();
+    if clean.trim().is_empty() {
+        "CSV".into()
+    } else {
+        clean
+    }
+}
+
+/// A sheet name not yet taken (`Pipes`, then `Pipes (2)`, ...), at most 31 characters.
+fn unique_sheet_name(wanted: &str, taken: &HashSet<String>) -> String {
+    if !taken.contains(&wanted.to_lowercase()) {
+        return wanted.to_string();
+    }
+    (2..)
+        .map(|i| {
+            let suffix = format!(" ({i})");
+            let base: String = wanted.chars().take(31 - suffix.chars().count()).collect();
+            format!("{base}{suffix}")
+        })
+        .find(|n| !taken.contains(&n.to_lowercase()))
+        .unwrap_or_default()
+}
+
+/// Read and merge several inputs. Folders are expanded; CSV files of a folder are read like
+/// sheets named after the files. Sheet names that repeat across files get a ` (2)` suffix.
+/// Line ids listed in the Lines table of more than one file are an error.
+pub fn read_inputs(sources: &[InputSource], options: &ReadOptions) -> Result<Input, InputError> {
+    let mut files: Vec<(PathBuf, Option<TableKind>)> = Vec::new();
+    for s in sources {
+        match s {
+            InputSource::Path(p) if p.is_dir() => {
+                files.extend(folder_inputs(p)?.into_iter().map(|f| (f, None)))
+            }
+            InputSource::Path(p) => files.push((p.clone(), None)),
+            InputSource::Csv { table, path } => files.push((path.clone(), Some(*table))),
+        }
+    }
+    let mut taken: HashSet<String> = HashSet::new();
+    let mut parts = Vec::new();
+    for (path, table) in &files {
+        let (mut source, mut sheets) = read_file(path, *table)?;
+        for (sheet, name) in sheets.iter_mut().zip(source.sheets.iter_mut()) {
+            let unique = unique_sheet_name(&sheet.name, &taken);
+            taken.insert(unique.to_lowercase());
+            sheet.name.clone_from(&unique);
+            *name = unique;
+        }
+        parts.push(parse_part(source, sheets, options));
+    }
+    let mut input = merge(parts);
+    if files.len() > 1 {
+        duplicate_lines(&mut input);
+    }
+    require_pipes(&mut input);
+    rows::cross_check(&mut input);
+    Ok(input)
+}
+
+/// Parse already-read sheets of one file (used by tests).
 pub fn from_sheets(file: String, path: PathBuf, sha256: String, sheets: Vec<SheetGrid>) -> Input {
-    let mut diagnostics = Vec::new();
-    let layouts = locate_tables(&file, &sheets, &mut diagnostics);
-    let mut input = Input {
+    let source = Source {
         file,
         path,
         sha256,
+        sheets: sheets.iter().map(|s| s.name.clone()).collect(),
+    };
+    let mut input = parse_part(source, sheets, &ReadOptions::default());
+    require_pipes(&mut input);
+    rows::cross_check(&mut input);
+    input
+}
+
+/// Locate and read the tables of one file (no checks across tables yet).
+fn parse_part(source: Source, sheets: Vec<SheetGrid>, options: &ReadOptions) -> Input {
+    let mut diagnostics = Vec::new();
+    let layouts = locate_tables(
+        &source.file,
+        &sheets,
+        options.map.as_ref(),
+        &mut diagnostics,
+    );
+    let mut input = Input {
+        file: source.file.clone(),
+        path: source.path.clone(),
+        sha256: source.sha256.clone(),
+        sources: vec![source],
         sheets,
         layouts,
         lines: Vec::new(),
@@ -94,18 +351,147 @@ pub fn from_sheets(file: String, path: PathBuf, sha256: String, sheets: Vec<Shee
         fittings: Vec::new(),
         systems: Vec::new(),
         fluids: Vec::new(),
+        pump_curves: Vec::new(),
         diagnostics,
+        report: ParseReport::default(),
     };
     rows::read_all(&mut input);
     input
+}
+
+/// Concatenate parsed files into one input (sheet indices shifted; names are already unique).
+fn merge(parts: Vec<Input>) -> Input {
+    let mut iter = parts.into_iter();
+    let Some(mut all) = iter.next() else {
+        return Input {
+            file: String::new(),
+            path: PathBuf::new(),
+            sha256: String::new(),
+            sources: Vec::new(),
+            sheets: Vec::new(),
+            layouts: Vec::new(),
+            lines: Vec::new(),
+            pipes: Vec::new(),
+            fittings: Vec::new(),
+            systems: Vec::new(),
+            fluids: Vec::new(),
+            pump_curves: Vec::new(),
+            diagnostics: Vec::new(),
+            report: ParseReport::default(),
+        };
+    };
+    let mut merged = false;
+    for mut part in iter {
+        merged = true;
+        let offset = all.sheets.len();
+        for l in &mut part.layouts {
+            l.sheet_index += offset;
+        }
+        all.sources.append(&mut part.sources);
+        all.sheets.append(&mut part.sheets);
+        all.layouts.append(&mut part.layouts);
+        all.lines.append(&mut part.lines);
+        all.pipes.append(&mut part.pipes);
+        all.fittings.append(&mut part.fittings);
+        all.systems.append(&mut part.systems);
+        all.fluids.append(&mut part.fluids);
+        all.pump_curves.append(&mut part.pump_curves);
+        all.diagnostics.append(&mut part.diagnostics);
+        all.report.conversions.append(&mut part.report.conversions);
+        all.report.skipped.append(&mut part.report.skipped);
+        all.report.blank_rows.append(&mut part.report.blank_rows);
+    }
+    if merged {
+        all.file = all
+            .sources
+            .iter()
+            .map(|s| s.file.as_str())
+            .collect::<Vec<_>>()
+            .join(" + ");
+        let listing: String = all
+            .sources
+            .iter()
+            .map(|s| format!("{}\t{}\n", s.file, s.sha256))
+            .collect();
+        all.sha256 = hex(&Sha256::digest(listing.as_bytes()));
+    }
+    all
+}
+
+/// The Pipes table is required: once all files are read, one of them must hold it.
+fn require_pipes(input: &mut Input) {
+    let named = input
+        .sheets
+        .iter()
+        .any(|s| schema::match_sheet(&s.name) == Some(TableKind::Pipes));
+    if input.layout(TableKind::Pipes).is_none() && !named {
+        input.diagnostics.push(Diagnostic {
+            severity: Severity::Error,
+            file: input.file.clone(),
+            cell: None,
+            message: "no Pipes sheet found (by name or by its headers)".to_string(),
+            hint: Some(format!(
+                "name a sheet 'Pipes' with headers such as: {} (or map your headers with --map)",
+                headers_of(TableKind::Pipes)
+            )),
+        });
+    }
+}
+
+/// Line ids listed in Lines in more than one file.
+fn duplicate_lines(input: &mut Input) {
+    let mut first: HashMap<&str, (&str, CellRef)> = HashMap::new();
+    let mut diags = Vec::new();
+    for l in &input.lines {
+        let col = input
+            .layout_on(TableKind::Lines, &l.origin.sheet)
+            .and_then(|x| x.column("line"))
+            .map_or(0, |c| c.col);
+        let cell = CellRef::new(&l.origin.sheet, l.origin.row, col);
+        let file = input.file_of(&l.origin.sheet);
+        match first.get(l.line.as_str()) {
+            Some((f, c)) if *f != file => diags.push(Diagnostic {
+                severity: Severity::Error,
+                file: file.to_string(),
+                cell: Some(cell),
+                message: format!("line '{}' is also listed in {f} at {c}", l.line),
+                hint: Some("line ids must be unique across the files audited together; rename one or audit the files apart".into()),
+            }),
+            Some(_) => {}
+            None => {
+                first.insert(&l.line, (file, cell));
+            }
+        }
+    }
+    input.diagnostics.extend(diags);
 }
 
 fn hex(bytes: &[u8]) -> String {
     bytes.iter().map(|b| format!("{b:02x}")).collect()
 }
 
+/// The table a sheet name stands for: the map's `[sheets]` first, then the aliases, then the
+/// aliases after dropping a ` (2)`-style suffix.
+fn sheet_table(name: &str, map: Option<&HeaderMap>) -> Option<TableKind> {
+    map.and_then(|m| m.sheet(name))
+        .or_else(|| schema::match_sheet(name))
+        .or_else(|| {
+            let t = name.trim_end();
+            let base = t
+                .strip_suffix(')')
+                .and_then(|t| t.rsplit_once(" ("))
+                .filter(|(_, n)| n.chars().all(|c| c.is_ascii_digit()));
+            base.and_then(|(b, _)| schema::match_sheet(b))
+        })
+}
+
 /// Find each table: by sheet name first, then by headers; check required columns.
-fn locate_tables(file: &str, sheets: &[SheetGrid], diags: &mut Vec<Diagnostic>) -> Vec<Layout> {
+fn locate_tables(
+    file: &str,
+    sheets: &[SheetGrid],
+    map: Option<&HeaderMap>,
+    diags: &mut Vec<Diagnostic>,
+) -> Vec<Layout> {
     let mut layouts = Vec::new();
     let mut used = vec![false; sheets.len()];
     for table in schema::ALL_TABLES {
@@ -113,9 +499,9 @@ fn locate_tables(file: &str, sheets: &[SheetGrid], diags: &mut Vec<Diagnostic>) 
         let by_name = sheets
             .iter()
             .enumerate()
-            .find(|(i, s)| !used[*i] && schema::match_sheet(&s.name) == Some(table));
+            .find(|(i, s)| !used[*i] && sheet_table(&s.name, map) == Some(table));
         let found = match by_name {
-            Some((i, s)) => match header::find_layout(s, i, table) {
+            Some((i, s)) => match header::find_layout_with(s, i, table, map) {
                 Some(l) => Some(l),
                 None => {
                     diags.push(Diagnostic {
@@ -128,56 +514,238 @@ fn locate_tables(file: &str, sheets: &[SheetGrid], diags: &mut Vec<Diagnostic>) 
                             spec.sheet,
                             header::HEADER_SEARCH_ROWS
                         ),
-                        hint: Some(format!("expected headers such as: {}", headers_of(table))),
+                        hint: Some(format!("expected headers such as: {} (or map your headers with --map)", headers_of(table))),
                     });
                     used[i] = true;
                     continue;
                 }
             },
-            None => sheets.iter().enumerate().filter(|(i, s)| !used[*i] && schema::match_sheet(&s.name).is_none()).find_map(|(i, s)| {
-                header::find_layout(s, i, table).filter(|l| spec.required.iter().all(|k| l.column(k).is_some()) && l.columns.len() >= 3)
-            }),
+            None => sheets
+                .iter()
+                .enumerate()
+                .filter(|(i, s)| !used[*i] && sheet_table(&s.name, map).is_none())
+                .find_map(|(i, s)| {
+                    header::find_layout_with(s, i, table, map).filter(|l| {
+                        spec.required.iter().all(|k| l.column(k).is_some()) && l.columns.len() >= 3
+                    })
+                }),
         };
         let Some(layout) = found else {
-            if table == TableKind::Pipes {
-                diags.push(Diagnostic {
-                    severity: Severity::Error,
-                    file: file.to_string(),
-                    cell: None,
-                    message: "no Pipes sheet found (by name or by its headers)".to_string(),
-                    hint: Some(format!(
-                        "name a sheet 'Pipes' with headers such as: {}",
-                        headers_of(TableKind::Pipes)
-                    )),
-                });
-            }
             continue;
         };
         used[layout.sheet_index] = true;
         for key in spec.required {
             if layout.column(key).is_none() {
-                let header = spec.columns.iter().find(|c| c.key == *key).map(|c| c.header).unwrap_or(key);
+                let header = spec
+                    .columns
+                    .iter()
+                    .find(|c| c.key == *key)
+                    .map(|c| c.header)
+                    .unwrap_or(key);
                 diags.push(Diagnostic {
                     severity: Severity::Error,
                     file: file.to_string(),
                     cell: Some(crate::error::CellRef::new(&layout.sheet, layout.header_row, 0)),
                     message: format!("required column '{header}' is missing from the header row"),
-                    hint: Some(format!("add a '{header}' column; headers found: {}", found_headers(&layout))),
+                    hint: Some(format!(
+                        "add a '{header}' column, or map one of yours with --map ([{}] \"Your header\" = \"{key}\"); headers found: {}",
+                        schema::fold(spec.sheet),
+                        found_headers(&layout)
+                    )),
                 });
             }
         }
+        duplicate_columns(file, table, &layout, diags);
         layouts.push(layout);
     }
     layouts
 }
 
+/// A header that names a column already matched earlier in the row is ambiguous: which of the two
+/// holds the data? Report it rather than silently using the first.
+fn duplicate_columns(file: &str, table: TableKind, layout: &Layout, diags: &mut Vec<Diagnostic>) {
+    for (col, text) in &layout.unknown {
+        let (name, _) = header::split_header(text);
+        let spec = schema::match_column(table, &schema::fold(text))
+            .or_else(|| schema::match_column(table, &schema::fold(&name)));
+        let Some(first) = spec.and_then(|s| layout.column(s.key)) else {
+            continue;
+        };
+        diags.push(Diagnostic {
+            severity: Severity::Error,
+            file: file.to_string(),
+            cell: Some(crate::error::CellRef::new(
+                &layout.sheet,
+                layout.header_row,
+                *col,
+            )),
+            message: format!(
+                "duplicate column: '{text}' names the same column as '{}' at {}",
+                first.header,
+                crate::error::CellRef::new(&layout.sheet, layout.header_row, first.col)
+            ),
+            hint: Some("keep one of the two columns, or rename the other (e.g. 'Remarks')".into()),
+        });
+    }
+}
+
 fn headers_of(table: TableKind) -> String {
-    schema::spec(table).columns.iter().map(|c| c.header).collect::<Vec<_>>().join(", ")
+    schema::spec(table)
+        .columns
+        .iter()
+        .map(|c| c.header)
+        .collect::<Vec<_>>()
+        .join(", ")
 }
 
 fn found_headers(layout: &Layout) -> String {
-    let mut all: Vec<(u32, &str)> = layout.columns.iter().map(|c| (c.col, c.header.as_str())).collect();
+    let mut all: Vec<(u32, &str)> = layout
+        .columns
+        .iter()
+        .map(|c| (c.col, c.header.as_str()))
+        .collect();
     all.extend(layout.unknown.iter().map(|(c, h)| (*c, h.as_str())));
     all.sort();
-    all.into_iter().map(|(_, h)| h).collect::<Vec<_>>().join(", ")
+    all.into_iter()
+        .map(|(_, h)| h)
+        .collect::<Vec<_>>()
+        .join(", ")
+}
+
+impl Input {
+    /// Every value assumed, with the line it belongs to.
+    pub fn assumed(&self) -> impl Iterator<Item = (&str, &rows::Assumed)> {
+        let lines = self
+            .lines
+            .iter()
+            .flat_map(|l| l.assumed.iter().map(move |a| (l.line.as_str(), a)));
+        let pipes = self
+            .pipes
+            .iter()
+            .flat_map(|p| p.assumed.iter().map(move |a| (p.line.as_str(), a)));
+        let fittings = self
+            .fittings
+            .iter()
+            .flat_map(|f| f.assumed.iter().map(move |a| (f.line.as_str(), a)));
+        lines.chain(pipes).chain(fittings)
+    }
+
+    /// Assumed values counted per sheet and what was assumed.
+    pub fn assumed_by_sheet(&self) -> std::collections::BTreeMap<(String, String), usize> {
+        let mut out = std::collections::BTreeMap::new();
+        for (_, a) in self.assumed() {
+            *out.entry((a.cell.sheet.clone(), a.what.clone()))
+                .or_insert(0) += 1;
+        }
+        out
+    }
+
+    /// Assumed values counted per line and column key.
+    pub fn assumed_by_line(
+        &self,
+    ) -> std::collections::BTreeMap<String, std::collections::BTreeMap<&'static str, usize>> {
+        let mut out: std::collections::BTreeMap<
+            String,
+            std::collections::BTreeMap<&'static str, usize>,
+        > = Default::default();
+        for (line, a) in self.assumed() {
+            *out.entry(line.to_string())
+                .or_default()
+                .entry(a.key)
+                .or_insert(0) += 1;
+        }
+        out
+    }
+}
+
+/// A plain-text account of how an input was read: per table the sheet, header row, units row
+/// and column mapping (as a map file), then defaults, text-to-number conversions and skipped rows.
+pub fn describe(input: &Input) -> String {
+    use std::fmt::Write;
+    let mut out = String::new();
+    for s in &input.sources {
+        let _ = writeln!(
+            out,
+            "Read {} ({} sheet(s), SHA-256 {})",
+            s.file,
+            s.sheets.len(),
+            s.sha256
+        );
+    }
+    for l in &input.layouts {
+        let rows = if l.header_rows > 1 {
+            format!("rows {}-{}", l.header_row + 1, l.header_row + l.header_rows)
+        } else {
+            format!("row {}", l.header_row + 1)
+        };
+        let units = l
+            .units_row
+            .map(|r| format!(", units row {}", r + 1))
+            .unwrap_or_default();
+        let _ = writeln!(
+            out,
+            "{}: sheet '{}' ({}), header {rows}{units}, data from row {}",
+            l.table.sheet_name(),
+            l.sheet,
+            input.file_of(&l.sheet),
+            l.data_start + 1
+        );
+        for c in &l.columns {
+            if c.unit_defaulted {
+                let _ = writeln!(
+                    out,
+                    "  '{}': no unit written, read as {}",
+                    c.header,
+                    c.unit.map(|u| u.label).unwrap_or("")
+                );
+            }
+        }
+    }
+    let layouts: Vec<&Layout> = input.layouts.iter().collect();
+    out.push('\n');
+    out.push_str(&map::mapping_toml(&layouts));
+    let by_sheet = input.assumed_by_sheet();
+    if !by_sheet.is_empty() {
+        out.push_str("\nDefaults that apply:\n");
+        for ((sheet, what), n) in &by_sheet {
+            let _ = writeln!(out, "  {sheet}: {what} — {n} row(s)");
+        }
+    }
+    if !input.report.conversions.is_empty() {
+        let _ = writeln!(
+            out,
+            "\nText read as numbers: {} cell(s)",
+            input.report.conversions.len()
+        );
+        for c in input.report.conversions.iter().take(20) {
+            let _ = writeln!(
+                out,
+                "  {}: '{}' -> {}{}",
+                c.cell,
+                c.text,
+                rows::format_number(c.value),
+                c.unit
+                    .as_deref()
+                    .map(|u| format!(" {u}"))
+                    .unwrap_or_default()
+            );
+        }
+        if input.report.conversions.len() > 20 {
+            let _ = writeln!(
+                out,
+                "  ... and {} more (all listed in the Basis sheet of the audit)",
+                input.report.conversions.len() - 20
+            );
+        }
+    }
+    if !input.report.skipped.is_empty() || !input.report.blank_rows.is_empty() {
+        out.push_str("\nRows skipped:\n");
+        for s in &input.report.skipped {
+            let _ = writeln!(out, "  {}: {}", s.cell, s.reason);
+        }
+        for (sheet, n) in &input.report.blank_rows {
+            let _ = writeln!(out, "  {sheet}: {n} blank row(s) inside the table");
+        }
+    }
+    out
 }

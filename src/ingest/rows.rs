@@ -3,11 +3,11 @@
 use calamine::Data;
 use std::collections::{HashMap, HashSet};
 
-use super::Input;
 use super::grid::SheetGrid;
 use super::header::{Layout, MappedColumn};
 use super::parse::{self, CellNumber, SizeSpec, SizeUnit};
 use super::schema::{ColumnType, TableKind};
+use super::{Conversion, Input, Skipped};
 use crate::error::{CellRef, Diagnostic, Severity};
 use crate::physics::fitting::{self, Kind};
 use crate::physics::pipe::{self, Material, Schedule};
@@ -55,7 +55,9 @@ impl Service {
         let f = super::schema::fold(text);
         Some(match f.as_str() {
             "pumpsuction" | "suction" | "ps" | "inlet" => Service::PumpSuction,
-            "pumpdischarge" | "discharge" | "pd" | "delivery" | "rising" | "risingmain" => Service::PumpDischarge,
+            "pumpdischarge" | "discharge" | "pd" | "delivery" | "rising" | "risingmain" => {
+                Service::PumpDischarge
+            }
             "distribution" | "dist" | "main" | "branch" => Service::Distribution,
             "gravity" | "gravityfed" | "gravitymain" => Service::Gravity,
             "general" | "" | "other" | "process" => Service::General,
@@ -208,6 +210,19 @@ pub struct SystemRow {
     pub efficiency: Option<f64>,
 }
 
+/// A row of `Pump curve`: one head-versus-flow point of a system's pump.
+#[derive(Clone, Debug, PartialEq)]
+pub struct PumpCurveRow {
+    /// Source row.
+    pub origin: Origin,
+    /// System id.
+    pub system: String,
+    /// Flow, m³/s.
+    pub flow_m3_s: f64,
+    /// Pump head at that flow, m.
+    pub head_m: f64,
+}
+
 /// A row of `Fluids`.
 #[derive(Clone, Debug, PartialEq)]
 pub struct FluidRow {
@@ -231,6 +246,7 @@ struct Cells<'a> {
     decimal_comma: &'a HashMap<u32, bool>,
     row: u32,
     diags: &'a mut Vec<Diagnostic>,
+    conversions: &'a mut Vec<Conversion>,
     errors: usize,
 }
 
@@ -256,7 +272,6 @@ impl Cells<'_> {
         });
     }
 
-
     fn assumed(&self, key: &'static str, what: String) -> Assumed {
         Assumed {
             cell: self.cell(key),
@@ -276,13 +291,20 @@ impl Cells<'_> {
                     self.error(
                         key,
                         format!("formula ={f} has no cached value"),
-                        Some("open the file in a spreadsheet application, recalculate and save it".into()),
+                        Some(
+                            "open the file in a spreadsheet application, recalculate and save it"
+                                .into(),
+                        ),
                     );
                 }
                 None
             }
             Data::Error(e) => {
-                self.error(key, format!("cell holds the error value {e}"), Some("fix the formula or enter the value".into()));
+                self.error(
+                    key,
+                    format!("cell holds the error value {e}"),
+                    Some("fix the formula or enter the value".into()),
+                );
                 None
             }
             Data::String(s) if s.trim().is_empty() => None,
@@ -303,7 +325,9 @@ impl Cells<'_> {
     }
 
     fn header(&self, key: &str) -> String {
-        self.col(key).map(|c| c.header.clone()).unwrap_or_else(|| key.to_string())
+        self.col(key)
+            .map(|c| c.header.clone())
+            .unwrap_or_else(|| key.to_string())
     }
 
     /// A number in SI units of the column's quantity (or plain), None for blank.
@@ -319,8 +343,15 @@ impl Cells<'_> {
         if quantity.is_some() && column_unit.is_none() {
             self.error(
                 key,
-                format!("unit '{}' of column '{header}' is not understood", mapped.unit_label.clone().unwrap_or_default()),
-                Some(format!("write the unit in brackets, e.g. '{} [{}]'", mapped.spec.header, quantity.map(|q| units::default_unit(q).label).unwrap_or(""))),
+                format!(
+                    "unit '{}' of column '{header}' is not understood",
+                    mapped.unit_label.clone().unwrap_or_default()
+                ),
+                Some(format!(
+                    "write the unit in brackets, e.g. '{} [{}]'",
+                    mapped.spec.header,
+                    quantity.map(|q| units::default_unit(q).label).unwrap_or("")
+                )),
             );
             return None;
         }
@@ -328,47 +359,100 @@ impl Cells<'_> {
             Data::Float(f) => (f, None, false),
             Data::Int(i) => (i as f64, None, false),
             Data::String(s) => {
-                let dc = self.decimal_comma.get(&mapped.col).copied().unwrap_or(false);
+                let dc = self
+                    .decimal_comma
+                    .get(&mapped.col)
+                    .copied()
+                    .unwrap_or(false);
                 match parse::parse_number_text(&s, dc) {
                     Ok(CellNumber::Blank) => return None,
-                    Ok(CellNumber::Value { value, unit, percent, .. }) => (value, unit, percent),
+                    Ok(CellNumber::Value {
+                        value,
+                        unit,
+                        percent,
+                        ..
+                    }) => {
+                        self.conversions.push(Conversion {
+                            cell: CellRef::new(&self.layout.sheet, self.row, mapped.col),
+                            text: s.clone(),
+                            value,
+                            unit: if percent {
+                                Some("%".into())
+                            } else {
+                                unit.clone()
+                            },
+                        });
+                        (value, unit, percent)
+                    }
                     Err(e) => {
-                        self.error(key, format!("{header}: {e}"), Some("enter a number, e.g. 12.5".into()));
+                        self.error(
+                            key,
+                            format!("{header}: {e}"),
+                            Some("enter a number, e.g. 12.5".into()),
+                        );
                         return None;
                     }
                 }
             }
             Data::DateTime(_) | Data::DateTimeIso(_) | Data::DurationIso(_) => {
-                self.error(key, format!("{header}: a date or time where a number belongs"), Some("format the cell as a number and re-enter the value".into()));
+                self.error(
+                    key,
+                    format!("{header}: a date or time where a number belongs"),
+                    Some("format the cell as a number and re-enter the value".into()),
+                );
                 return None;
             }
             Data::Bool(b) => {
-                self.error(key, format!("{header}: TRUE/FALSE ({b}) where a number belongs"), None);
+                self.error(
+                    key,
+                    format!("{header}: TRUE/FALSE ({b}) where a number belongs"),
+                    None,
+                );
                 return None;
             }
             Data::Empty | Data::Error(_) => return None,
         };
         if !value.is_finite() {
-            self.error(key, format!("{header}: value {value} is not a finite number"), None);
+            self.error(
+                key,
+                format!("{header}: value {value} is not a finite number"),
+                None,
+            );
             return None;
         }
         let Some(q) = quantity else {
             if let Some(u) = cell_unit {
-                self.error(key, format!("{header}: unexpected unit '{u}' in a plain-number column"), None);
+                self.error(
+                    key,
+                    format!("{header}: unexpected unit '{u}' in a plain-number column"),
+                    None,
+                );
                 return None;
             }
             return Some(if percent { value / 100.0 } else { value });
         };
         if q == Quantity::Fraction {
-            let label = mapped.unit_label.as_deref().map(super::schema::fold).unwrap_or_default();
+            let label = mapped
+                .unit_label
+                .as_deref()
+                .map(super::schema::fold)
+                .unwrap_or_default();
             let column_is_percent = label.contains("pct") || label.contains("percent");
-            return Some(parse::parse_percent_or_fraction(value, percent, column_is_percent));
+            return Some(parse::parse_percent_or_fraction(
+                value,
+                percent,
+                column_is_percent,
+            ));
         }
         let unit = match cell_unit {
             Some(label) => match units::parse_unit(&label, q) {
                 Some(u) => u,
                 None => {
-                    self.error(key, format!("{header}: unit '{label}' in the cell is not a unit of {q:?}"), None);
+                    self.error(
+                        key,
+                        format!("{header}: unit '{label}' in the cell is not a unit of {q:?}"),
+                        None,
+                    );
                     return None;
                 }
             },
@@ -376,7 +460,11 @@ impl Cells<'_> {
         };
         let si = unit.to_si(value);
         si.is_finite().then_some(si).or_else(|| {
-            self.error(key, format!("{header}: value {value} overflows in SI units"), None);
+            self.error(
+                key,
+                format!("{header}: value {value} overflows in SI units"),
+                None,
+            );
             None
         })
     }
@@ -385,8 +473,16 @@ impl Cells<'_> {
         let v = self.number(key)?;
         if v < 0.0 || (!allow_zero && v == 0.0) {
             let header = self.header(key);
-            let need = if allow_zero { "zero or more" } else { "greater than zero" };
-            self.error(key, format!("{header} {} must be {need}", format_number(v)), None);
+            let need = if allow_zero {
+                "zero or more"
+            } else {
+                "greater than zero"
+            };
+            self.error(
+                key,
+                format!("{header} {} must be {need}", format_number(v)),
+                None,
+            );
             return None;
         }
         Some(v)
@@ -394,17 +490,25 @@ impl Cells<'_> {
 
     fn size(&mut self, key: &str) -> Option<SizeSpec> {
         let mapped = self.col(key)?.clone();
-        let unit = mapped.unit_label.as_deref().and_then(|l| match super::schema::fold(l).as_str() {
-            "mm" | "dn" => Some(SizeUnit::Millimetre),
-            "in" | "inch" | "inches" | "nps" => Some(SizeUnit::Inch),
-            _ => None,
-        });
+        let unit =
+            mapped
+                .unit_label
+                .as_deref()
+                .and_then(|l| match super::schema::fold(l).as_str() {
+                    "mm" | "dn" => Some(SizeUnit::Millimetre),
+                    "in" | "inch" | "inches" | "nps" => Some(SizeUnit::Inch),
+                    _ => None,
+                });
         let text = self.text(key)?;
         match parse::parse_size(&text, unit) {
             Ok(s) => Some(s),
             Err(e) => {
                 let header = mapped.header.clone();
-                self.error(key, format!("{header}: {e}"), Some("write sizes like DN100, NPS 4, 4\", 110 OD or ID 102.3".into()));
+                self.error(
+                    key,
+                    format!("{header}: {e}"),
+                    Some("write sizes like DN100, NPS 4, 4\", 110 OD or ID 102.3".into()),
+                );
                 None
             }
         }
@@ -443,20 +547,118 @@ fn decimal_comma_columns(grid: &SheetGrid, layout: &Layout) -> HashMap<u32, bool
     out
 }
 
-/// Visit each non-blank data row of a table.
+/// Why a row inside a table is not data, when it is not: a header repeated (page breaks), a
+/// totals row, or a note written across the row.
+fn skip_reason(grid: &SheetGrid, layout: &Layout, row: u32) -> Option<String> {
+    let text = |col: u32| match grid.value(row, col) {
+        Data::String(s) => Some(s.trim().to_string()),
+        _ => None,
+    };
+    let repeated = layout
+        .columns
+        .iter()
+        .filter(|c| {
+            text(c.col).is_some_and(|t| super::schema::fold(&t) == super::schema::fold(&c.header))
+        })
+        .count();
+    if repeated >= 2 {
+        return Some("the header repeated".into());
+    }
+    let first = layout.columns.iter().map(|c| c.col).min()?;
+    let filled: Vec<u32> = (0..grid.end_col())
+        .filter(|&c| !matches!(grid.value(row, c), Data::Empty))
+        .collect();
+    let leading = filled.first().and_then(|&c| text(c)).unwrap_or_default();
+    let folded = super::schema::fold(&leading);
+    let line_text = layout
+        .column("line")
+        .and_then(|c| text(c.col))
+        .unwrap_or_default();
+    let line_folded = super::schema::fold(&line_text);
+    for word in [
+        "total",
+        "subtotal",
+        "grandtotal",
+        "carriedforward",
+        "broughtforward",
+    ] {
+        if folded.starts_with(word) || line_folded.starts_with(word) {
+            let t = if line_folded.starts_with(word) {
+                line_text.clone()
+            } else {
+                leading.clone()
+            };
+            return Some(format!("a totals row ('{t}')"));
+        }
+    }
+    let is_note = ["note", "notes", "remark", "remarks", "comment"]
+        .iter()
+        .any(|w| {
+            folded.starts_with(w)
+                && leading
+                    .trim_start()
+                    .get(w.len()..w.len() + 1)
+                    .is_none_or(|c| !c.chars().all(char::is_alphanumeric))
+        });
+    if is_note && filled.len() == 1 && filled.first().is_some_and(|&c| c <= first + 1) {
+        return Some(format!("a note ('{}')", truncate(&leading, 40)));
+    }
+    None
+}
+
+fn truncate(s: &str, n: usize) -> String {
+    if s.chars().count() <= n {
+        s.to_string()
+    } else {
+        s.chars().take(n).chain(['…']).collect()
+    }
+}
+
+/// Visit each non-blank data row of a table; skipped and blank rows go to the parse report.
 fn for_each_row(input: &mut Input, table: TableKind, mut f: impl FnMut(&mut Cells<'_>)) {
     let Some(layout) = input.layout(table).cloned() else {
         return;
     };
     let grid = &input.sheets[layout.sheet_index];
     let dc = decimal_comma_columns(grid, &layout);
-    for row in layout.data_start..grid.end_row() {
-        let blank = layout
+    let mut blanks = 0;
+    let end = grid.end_row();
+    let is_blank = |row: u32| {
+        layout
             .columns
             .iter()
-            .all(|c| matches!(grid.value(row, c.col), Data::Empty) || matches!(grid.value(row, c.col), Data::String(s) if s.trim().is_empty()))
-            && layout.columns.iter().all(|c| grid.formula(row, c.col).is_none());
-        if blank {
+            .all(|c| match grid.merged_value(row, c.col) {
+                Data::Empty => true,
+                Data::String(s) => s.trim().is_empty(),
+                _ => false,
+            })
+            && layout
+                .columns
+                .iter()
+                .all(|c| grid.formula(row, c.col).is_none())
+    };
+    let last_data = (layout.data_start..end)
+        .rev()
+        .find(|&r| !is_blank(r))
+        .unwrap_or(0);
+    for row in layout.data_start..end {
+        if is_blank(row) {
+            // Blank rows after the last data row are not worth counting.
+            if row < last_data {
+                blanks += 1;
+            }
+            continue;
+        }
+        if let Some(reason) = skip_reason(grid, &layout, row) {
+            let cell = CellRef::new(&layout.sheet, row, 0);
+            input.diagnostics.push(Diagnostic {
+                severity: Severity::Warning,
+                file: input.file.clone(),
+                cell: Some(cell.clone()),
+                message: format!("row skipped: {reason}"),
+                hint: None,
+            });
+            input.report.skipped.push(Skipped { cell, reason });
             continue;
         }
         let mut cells = Cells {
@@ -466,9 +668,13 @@ fn for_each_row(input: &mut Input, table: TableKind, mut f: impl FnMut(&mut Cell
             decimal_comma: &dc,
             row,
             diags: &mut input.diagnostics,
+            conversions: &mut input.report.conversions,
             errors: 0,
         };
         f(&mut cells);
+    }
+    if blanks > 0 {
+        input.report.blank_rows.push((layout.sheet.clone(), blanks));
     }
 }
 
@@ -478,12 +684,20 @@ pub fn read_all(input: &mut Input) {
     let mut seen_lines: HashMap<String, CellRef> = HashMap::new();
     for_each_row(input, TableKind::Lines, |c| {
         let Some(line) = c.text("line") else {
-            c.error("line", "line id is blank".into(), Some("every row of Lines needs a line id".into()));
+            c.error(
+                "line",
+                "line id is blank".into(),
+                Some("every row of Lines needs a line id".into()),
+            );
             return;
         };
         let here = c.cell("line");
         if let Some(first) = seen_lines.get(&line) {
-            c.error("line", format!("line '{line}' is listed twice (first at {first})"), Some("line ids must be unique".into()));
+            c.error(
+                "line",
+                format!("line '{line}' is listed twice (first at {first})"),
+                Some("line ids must be unique".into()),
+            );
             return;
         }
         seen_lines.insert(line.clone(), here);
@@ -491,7 +705,11 @@ pub fn read_all(input: &mut Input) {
         let service = match c.text("service") {
             Some(t) => Service::from_text(&t).unwrap_or_else(|| {
                 let list = Service::ALL.map(Service::id).join(", ");
-                c.error("service", format!("service '{t}' is not known"), Some(format!("use one of: {list}")));
+                c.error(
+                    "service",
+                    format!("service '{t}' is not known"),
+                    Some(format!("use one of: {list}")),
+                );
                 Service::General
             }),
             None => {
@@ -503,12 +721,22 @@ pub fn read_all(input: &mut Input) {
         if let Some(q) = flow
             && q < 0.0
         {
-            c.error("flow", "reverse (negative) flow is not supported".into(), Some("enter the flow as a positive number and list the line in its flow direction".into()));
+            c.error(
+                "flow",
+                "reverse (negative) flow is not supported".into(),
+                Some(
+                    "enter the flow as a positive number and list the line in its flow direction"
+                        .into(),
+                ),
+            );
         }
-        let fluid = c.text("fluid").map(|s| s.to_lowercase()).unwrap_or_else(|| {
-            assumed.push(c.assumed("fluid", "fluid water".into()));
-            "water".into()
-        });
+        let fluid = c
+            .text("fluid")
+            .map(|s| s.to_lowercase())
+            .unwrap_or_else(|| {
+                assumed.push(c.assumed("fluid", "fluid water".into()));
+                "water".into()
+            });
         let temperature_c = c.number("temperature").unwrap_or_else(|| {
             assumed.push(c.assumed("temperature", "temperature 20 °C".into()));
             20.0
@@ -520,7 +748,10 @@ pub fn read_all(input: &mut Input) {
             c.error("efficiency", format!("efficiency {e} is above 100 %"), None);
         }
         lines.push(LineRow {
-            origin: Origin { sheet: c.layout.sheet.clone(), row: c.row },
+            origin: Origin {
+                sheet: c.layout.sheet.clone(),
+                row: c.row,
+            },
             line,
             service,
             flow_m3_s: flow.filter(|q| *q >= 0.0),
@@ -538,14 +769,22 @@ pub fn read_all(input: &mut Input) {
     let mut pipes = Vec::new();
     for_each_row(input, TableKind::Pipes, |c| {
         let Some(line) = c.text("line") else {
-            c.error("line", "line id is blank".into(), Some("every pipe run needs the id of its line".into()));
+            c.error(
+                "line",
+                "line id is blank".into(),
+                Some("every pipe run needs the id of its line".into()),
+            );
             return;
         };
         let mut assumed = Vec::new();
         let size = c.size("size");
         let schedule = c.text("schedule").and_then(|t| {
             pipe::parse_schedule(&t).or_else(|| {
-                c.error("schedule", format!("schedule '{t}' is not known"), Some("write e.g. 40, STD, XS, 80, 10S, 40S or SDR11".into()));
+                c.error(
+                    "schedule",
+                    format!("schedule '{t}' is not known"),
+                    Some("write e.g. 40, STD, XS, 80, 10S, 40S or SDR11".into()),
+                );
                 None
             })
         });
@@ -564,22 +803,67 @@ pub fn read_all(input: &mut Input) {
         };
         let length = c.positive("length", false);
         if c.col("length").is_some() && length.is_none() && c.errors == 0 {
-            c.error("length", "length is blank".into(), Some("every pipe run needs a length".into()));
+            c.error(
+                "length",
+                "length is blank".into(),
+                Some("every pipe run needs a length".into()),
+            );
         }
         let inner = c.positive("inner_diameter", false);
         let roughness = c.positive("roughness", true);
         if size.is_none() && inner.is_none() && c.errors == 0 {
-            c.error("size", "neither Size nor Inner diameter is given".into(), Some("give a nominal size (DN100, 4\") or the bore".into()));
+            c.error(
+                "size",
+                "neither Size nor Inner diameter is given".into(),
+                Some("give a nominal size (DN100, 4\") or the bore".into()),
+            );
         }
         let flow = c.positive("flow", true);
         let c_factor = c.positive("c_factor", false);
         let age = c.positive("age", true);
         let seq = c.number("seq");
+        if schedule.is_none() && inner.is_none() {
+            let dn = match size {
+                Some(SizeSpec::Dn(dn)) => Some(dn),
+                Some(SizeSpec::Nps(n)) => pipe::nps_to_dn(n),
+                _ => None,
+            };
+            if let Some(s) = dn.and_then(|dn| pipe::default_schedule(material, dn)) {
+                assumed.push(c.assumed(
+                    "schedule",
+                    format!("schedule {} (default for {})", s.label(), material.name()),
+                ));
+            } else if matches!(size, Some(SizeSpec::OuterDiameter { .. })) {
+                assumed.push(c.assumed(
+                    "schedule",
+                    format!("the usual wall of {} for that OD", material.name()),
+                ));
+            }
+        }
+        if roughness.is_none() && c_factor.is_none() {
+            let r = pipe::roughness(material);
+            let what = match age.and_then(|a| pipe::aged_roughness(material, a).map(|e| (a, e))) {
+                Some((a, e)) => format!(
+                    "roughness {:.4} mm ({} aged {a} years)",
+                    e * 1e3,
+                    material.name()
+                ),
+                None => format!(
+                    "roughness {:.4} mm (new {})",
+                    r.epsilon_m * 1e3,
+                    material.name()
+                ),
+            };
+            assumed.push(c.assumed("roughness", what));
+        }
         if let Some(length_m) = length
             && c.errors == 0
         {
             pipes.push(PipeRow {
-                origin: Origin { sheet: c.layout.sheet.clone(), row: c.row },
+                origin: Origin {
+                    sheet: c.layout.sheet.clone(),
+                    row: c.row,
+                },
                 line,
                 seq,
                 size,
@@ -600,7 +884,11 @@ pub fn read_all(input: &mut Input) {
     let mut fittings = Vec::new();
     for_each_row(input, TableKind::Fittings, |c| {
         let Some(line) = c.text("line") else {
-            c.error("line", "line id is blank".into(), Some("every fitting needs the id of its line".into()));
+            c.error(
+                "line",
+                "line id is blank".into(),
+                Some("every fitting needs the id of its line".into()),
+            );
             return;
         };
         let tag = c.text("tag").unwrap_or_default();
@@ -612,15 +900,31 @@ pub fn read_all(input: &mut Input) {
             if k.is_some() || kv.is_some() || cv.is_some() {
                 fitting::find_kind("given")
             } else {
-                c.error("item", "item is blank and no K, Kv or Cv is given".into(), Some("describe the fitting, e.g. '90 elbow', 'gate valve'".into()));
+                c.error(
+                    "item",
+                    "item is blank and no K, Kv or Cv is given".into(),
+                    Some("describe the fitting, e.g. '90 elbow', 'gate valve'".into()),
+                );
                 return;
             }
         } else {
             match fitting::match_item(&item) {
                 Ok(kind) => Some(kind),
                 Err(near) => {
-                    let hint = (!near.is_empty()).then(|| format!("did you mean {}? (`lossledger kinds` lists them all)", near.iter().map(|n| format!("\"{n}\"")).collect::<Vec<_>>().join(", ")));
-                    c.error("item", format!("item '{item}' matches no fitting kind"), hint);
+                    let hint = (!near.is_empty()).then(|| {
+                        format!(
+                            "did you mean {}? (`lossledger kinds` lists them all)",
+                            near.iter()
+                                .map(|n| format!("\"{n}\""))
+                                .collect::<Vec<_>>()
+                                .join(", ")
+                        )
+                    });
+                    c.error(
+                        "item",
+                        format!("item '{item}' matches no fitting kind"),
+                        hint,
+                    );
                     return;
                 }
             }
@@ -630,7 +934,7 @@ pub fn read_all(input: &mut Input) {
         let qty = match c.positive("qty", false) {
             Some(q) => q,
             None => {
-                if c.col("qty").is_some() && c.errors == 0 {
+                if c.errors == 0 {
                     assumed.push(c.assumed("qty", "quantity 1".into()));
                 }
                 1.0
@@ -640,7 +944,11 @@ pub fn read_all(input: &mut Input) {
         if let Some(o) = opening
             && o > 1.0
         {
-            c.error("opening", format!("opening {} % is above 100 %", format_number(o * 100.0)), None);
+            c.error(
+                "opening",
+                format!("opening {} % is above 100 %", format_number(o * 100.0)),
+                None,
+            );
         }
         if opening.is_none() && kind.is_valve() {
             assumed.push(c.assumed("opening", "fully open".into()));
@@ -648,7 +956,10 @@ pub fn read_all(input: &mut Input) {
         let fouling = c.positive("fouling", false);
         let beta = c.positive("beta", false);
         let row = FittingRow {
-            origin: Origin { sheet: c.layout.sheet.clone(), row: c.row },
+            origin: Origin {
+                sheet: c.layout.sheet.clone(),
+                row: c.row,
+            },
             tag,
             line,
             item,
@@ -682,10 +993,18 @@ pub fn read_all(input: &mut Input) {
         };
         let lines = c
             .text("lines")
-            .map(|t| t.split([',', ';', '\n']).map(|s| s.trim().to_string()).filter(|s| !s.is_empty()).collect())
+            .map(|t| {
+                t.split([',', ';', '\n'])
+                    .map(|s| s.trim().to_string())
+                    .filter(|s| !s.is_empty())
+                    .collect()
+            })
             .unwrap_or_default();
         systems.push(SystemRow {
-            origin: Origin { sheet: c.layout.sheet.clone(), row: c.row },
+            origin: Origin {
+                sheet: c.layout.sheet.clone(),
+                row: c.row,
+            },
             system,
             lines,
             static_head_m: c.number("static_head"),
@@ -706,64 +1025,153 @@ pub fn read_all(input: &mut Input) {
         let vapour = c.positive("vapour_pressure", true);
         match (density, viscosity) {
             (Some(d), Some(v)) => fluids.push(FluidRow {
-                origin: Origin { sheet: c.layout.sheet.clone(), row: c.row },
+                origin: Origin {
+                    sheet: c.layout.sheet.clone(),
+                    row: c.row,
+                },
                 fluid: fluid.to_lowercase(),
                 density_kg_m3: d,
                 viscosity_pa_s: v,
                 vapour_pressure_pa: vapour,
             }),
-            _ if c.errors == 0 => c.error("density", format!("fluid '{fluid}' needs both density and viscosity"), None),
+            _ if c.errors == 0 => c.error(
+                "density",
+                format!("fluid '{fluid}' needs both density and viscosity"),
+                None,
+            ),
             _ => {}
         }
     });
     input.fluids = fluids;
 
-    cross_check(input);
+    let mut pump_curves = Vec::new();
+    for_each_row(input, TableKind::PumpCurve, |c| {
+        let Some(system) = c.text("system") else {
+            c.error(
+                "system",
+                "system id is blank".into(),
+                Some("every pump curve point needs the id of its system".into()),
+            );
+            return;
+        };
+        let flow = c.positive("flow", true);
+        let head = c.positive("head", true);
+        match (flow, head) {
+            (Some(flow_m3_s), Some(head_m)) => pump_curves.push(PumpCurveRow {
+                origin: Origin {
+                    sheet: c.layout.sheet.clone(),
+                    row: c.row,
+                },
+                system,
+                flow_m3_s,
+                head_m,
+            }),
+            _ if c.errors == 0 => c.error(
+                "flow",
+                "a pump curve point needs both flow and head".into(),
+                None,
+            ),
+            _ => {}
+        }
+    });
+    input.pump_curves = pump_curves;
 }
 
-/// Checks across tables: every line referenced exists where it must.
-fn cross_check(input: &mut Input) {
+/// Checks across tables (after all files are read): every line referenced exists where it must,
+/// and every line has a flow.
+pub fn cross_check(input: &mut Input) {
     let pipe_lines: HashSet<&str> = input.pipes.iter().map(|p| p.line.as_str()).collect();
     let mut diags = Vec::new();
-    let col_of = |input: &Input, table: TableKind, key: &str| input.layout(table).and_then(|l| l.column(key)).map(|c| c.col).unwrap_or(0);
-    let fcol = col_of(input, TableKind::Fittings, "line");
+    let col_of = |input: &Input, table: TableKind, sheet: &str, key: &str| {
+        input
+            .layout_on(table, sheet)
+            .and_then(|l| l.column(key))
+            .map(|c| c.col)
+            .unwrap_or(0)
+    };
     for f in &input.fittings {
         if !pipe_lines.contains(f.line.as_str()) {
             diags.push(Diagnostic {
                 severity: Severity::Error,
-                file: input.file.clone(),
-                cell: Some(CellRef::new(&f.origin.sheet, f.origin.row, fcol)),
-                message: format!("fitting on line '{}', which has no pipe run in Pipes", f.line),
+                file: input.file_of(&f.origin.sheet).to_string(),
+                cell: Some(CellRef::new(
+                    &f.origin.sheet,
+                    f.origin.row,
+                    col_of(input, TableKind::Fittings, &f.origin.sheet, "line"),
+                )),
+                message: format!(
+                    "fitting on line '{}', which has no pipe run in Pipes",
+                    f.line
+                ),
                 hint: Some("add the line's runs to Pipes or correct the line id".into()),
             });
         }
     }
-    let lcol = col_of(input, TableKind::Lines, "flow");
-    let pipe_flow: HashSet<&str> = input.pipes.iter().filter(|p| p.flow_m3_s.is_some()).map(|p| p.line.as_str()).collect();
+    let pipe_flow: HashSet<&str> = input
+        .pipes
+        .iter()
+        .filter(|p| p.flow_m3_s.is_some())
+        .map(|p| p.line.as_str())
+        .collect();
     let listed: HashSet<&str> = input.lines.iter().map(|l| l.line.as_str()).collect();
     for l in &input.lines {
-        if l.flow_m3_s.is_none() && !pipe_flow.contains(l.line.as_str()) && pipe_lines.contains(l.line.as_str()) {
+        if l.flow_m3_s.is_none()
+            && !pipe_flow.contains(l.line.as_str())
+            && pipe_lines.contains(l.line.as_str())
+        {
             diags.push(Diagnostic {
                 severity: Severity::Error,
-                file: input.file.clone(),
-                cell: Some(CellRef::new(&l.origin.sheet, l.origin.row, lcol)),
+                file: input.file_of(&l.origin.sheet).to_string(),
+                cell: Some(CellRef::new(
+                    &l.origin.sheet,
+                    l.origin.row,
+                    col_of(input, TableKind::Lines, &l.origin.sheet, "flow"),
+                )),
                 message: format!("line '{}' has no flow", l.line),
                 hint: Some("enter the line's design flow (a blank is not read as zero)".into()),
             });
         }
     }
-    let pcol = col_of(input, TableKind::Pipes, "line");
     let mut reported = HashSet::new();
     for p in &input.pipes {
-        if !listed.contains(p.line.as_str()) && p.flow_m3_s.is_none() && reported.insert(p.line.clone()) {
+        if !listed.contains(p.line.as_str())
+            && p.flow_m3_s.is_none()
+            && reported.insert(p.line.clone())
+        {
             diags.push(Diagnostic {
                 severity: Severity::Error,
-                file: input.file.clone(),
-                cell: Some(CellRef::new(&p.origin.sheet, p.origin.row, pcol)),
-                message: format!("line '{}' has no flow: it is not in Lines and its runs give none", p.line),
-                hint: Some("list the line in Lines with its flow, or add a Flow column to Pipes".into()),
+                file: input.file_of(&p.origin.sheet).to_string(),
+                cell: Some(CellRef::new(
+                    &p.origin.sheet,
+                    p.origin.row,
+                    col_of(input, TableKind::Pipes, &p.origin.sheet, "line"),
+                )),
+                message: format!(
+                    "line '{}' has no flow: it is not in Lines and its runs give none",
+                    p.line
+                ),
+                hint: Some(
+                    "list the line in Lines with its flow, or add a Flow column to Pipes".into(),
+                ),
             });
         }
+    }
+    // A Pipes table with a header and nothing under it would give an empty audit: say so instead.
+    if input.pipes.is_empty()
+        && input.error_count() == 0
+        && diags.is_empty()
+        && let Some(l) = input.layout(TableKind::Pipes)
+    {
+        diags.push(Diagnostic {
+            severity: Severity::Error,
+            file: input.file_of(&l.sheet).to_string(),
+            cell: Some(CellRef::new(&l.sheet, l.header_row, 0)),
+            message: format!(
+                "sheet '{}' has a header row but no pipe runs under it",
+                l.sheet
+            ),
+            hint: Some("enter at least one run (line, size, length) below the header".into()),
+        });
     }
     input.diagnostics.extend(diags);
 }

@@ -18,6 +18,8 @@ pub enum TableKind {
     Systems,
     /// Optional: properties of liquids other than water.
     Fluids,
+    /// Optional: pump head-versus-flow points per system.
+    PumpCurve,
 }
 
 impl TableKind {
@@ -90,87 +92,396 @@ const fn col(
 }
 
 const LINE_ALIASES: &[&str] = &[
-    "Line No", "Line number", "Line ref", "Line id", "Pipe line", "Line tag", "Pipeline",
+    "Line No",
+    "Line number",
+    "Line ref",
+    "Line id",
+    "Pipe line",
+    "Line tag",
+    "Line code",
 ];
 
 static LINES: TableSpec = TableSpec {
     kind: TableKind::Lines,
     sheet: "Lines",
-    sheet_aliases: &["Line list", "Line schedule", "Line register", "Flows", "Duty"],
+    sheet_aliases: &[
+        "Line list",
+        "Line schedule",
+        "Line register",
+        "Flows",
+        "Duty",
+    ],
     required: &["line"],
     columns: &[
-        col("line", "Line", Text, LINE_ALIASES, "Line id, unique in the workbook"),
-        col("service", "Service", Text, &["Duty type", "Line service", "Use"],
-            "pump-suction, pump-discharge, distribution, gravity or general (default general)"),
-        col("flow", "Flow", Number(Flow), &["Flow rate", "Design flow", "Q", "Flowrate", "Duty flow", "Capacity"],
-            "Volume flow the line carries (default unit m3/h)"),
-        col("fluid", "Fluid", Text, &["Medium", "Liquid", "Media"], "Fluid name (default water)"),
-        col("temperature", "Temperature", Number(Temperature), &["Temp", "T", "Fluid temperature", "Operating temperature"],
-            "Fluid temperature (default 20 °C)"),
-        col("from", "From", Text, &["Start", "Origin", "From point"], "Where the line starts"),
-        col("to", "To", Text, &["End", "Destination", "To point"], "Where the line ends"),
-        col("elevation_change", "Elevation change", Number(Length), &["Rise", "Static rise", "dZ", "Elevation diff", "Level change"],
-            "Outlet elevation minus inlet elevation"),
-        col("hours_per_year", "Hours per year", Number(Duration), &["Run hours", "Operating hours", "Hours/yr", "Annual hours", "Hrs per year"],
-            "Hours per year the line runs"),
-        col("system", "System", Text, &["Pump system", "Circuit"], "System the line belongs to"),
-        col("efficiency", "Efficiency", Number(Fraction), &["Pump efficiency", "Wire to water efficiency", "Eta"],
-            "Wire-to-water efficiency of the pump driving the line"),
+        col(
+            "line",
+            "Line",
+            Text,
+            LINE_ALIASES,
+            "Line id, unique in the workbook",
+        ),
+        col(
+            "service",
+            "Service",
+            Text,
+            &["Duty type", "Line service", "Use"],
+            "pump-suction, pump-discharge, distribution, gravity or general (default general)",
+        ),
+        col(
+            "flow",
+            "Flow",
+            Number(Flow),
+            &[
+                "Flow rate",
+                "Design flow",
+                "Q",
+                "Flowrate",
+                "Duty flow",
+                "Capacity",
+            ],
+            "Volume flow the line carries (default unit m3/h)",
+        ),
+        col(
+            "fluid",
+            "Fluid",
+            Text,
+            &["Medium", "Liquid", "Media"],
+            "Fluid name (default water)",
+        ),
+        col(
+            "temperature",
+            "Temperature",
+            Number(Temperature),
+            &["Temp", "T", "Fluid temperature", "Operating temperature"],
+            "Fluid temperature (default 20 °C)",
+        ),
+        col(
+            "from",
+            "From",
+            Text,
+            &["Start", "Origin", "From point"],
+            "Where the line starts",
+        ),
+        col(
+            "to",
+            "To",
+            Text,
+            &["End", "Destination", "To point"],
+            "Where the line ends",
+        ),
+        col(
+            "elevation_change",
+            "Elevation change",
+            Number(Length),
+            &[
+                "Rise",
+                "Static rise",
+                "dZ",
+                "Elevation diff",
+                "Level change",
+            ],
+            "Outlet elevation minus inlet elevation",
+        ),
+        col(
+            "hours_per_year",
+            "Hours per year",
+            Number(Duration),
+            &[
+                "Run hours",
+                "Operating hours",
+                "Hours/yr",
+                "Annual hours",
+                "Hrs per year",
+            ],
+            "Hours per year the line runs",
+        ),
+        col(
+            "system",
+            "System",
+            Text,
+            &["Pump system", "Circuit"],
+            "System the line belongs to",
+        ),
+        col(
+            "efficiency",
+            "Efficiency",
+            Number(Fraction),
+            &["Pump efficiency", "Wire to water efficiency", "Eta"],
+            "Wire-to-water efficiency of the pump driving the line",
+        ),
     ],
 };
 
 static PIPES: TableSpec = TableSpec {
     kind: TableKind::Pipes,
     sheet: "Pipes",
-    sheet_aliases: &["Pipe takeoff", "Pipework", "Pipe runs", "Pipe schedule", "Piping", "Takeoff", "Pipe list"],
+    sheet_aliases: &[
+        "Pipe takeoff",
+        "Pipework",
+        "Pipe runs",
+        "Pipe schedule",
+        "Piping",
+        "Takeoff",
+        "Pipe list",
+    ],
     required: &["line", "length"],
     columns: &[
-        col("line", "Line", Text, LINE_ALIASES, "Line id the run belongs to"),
-        col("seq", "Seq", Plain, &["Sequence", "Run", "Run no", "Order", "Item no"], "Order of the run along its line"),
-        col("size", "Size", Size, &["NB", "Nom size", "Nominal size", "DN", "Dia", "Diameter", "NPS", "Pipe size", "Bore size"],
-            "Nominal size: DN100, 100NB, NPS 4, 4\", 110 OD"),
-        col("schedule", "Schedule", Text, &["Sch", "Sched", "Wall", "Class", "SDR", "Rating"],
-            "Wall schedule: 40, STD, XS, 80, 10S, 40S, SDR11"),
-        col("material", "Material", Text, &["Matl", "Mat", "Pipe material", "Spec", "Material spec"],
-            "Pipe material: carbon steel, stainless, PE, PVC, ductile iron ..."),
-        col("length", "Length", Number(Length), &["Len", "L", "Run length", "Pipe length", "Qty length", "Straight length"],
-            "Run length along the pipe"),
-        col("inner_diameter", "Inner diameter", Number(Length), &["ID", "Bore", "Internal diameter", "Inside diameter", "Actual ID"],
-            "Measured or specified bore (overrides Size and Schedule)"),
-        col("roughness", "Roughness", Number(Length), &["Epsilon", "Abs roughness", "Absolute roughness", "e"],
-            "Absolute roughness (overrides the material's new-pipe value)"),
-        col("age", "Age", Number(Duration), &["Years in service", "Pipe age", "Service years"], "Age in years"),
-        col("c_factor", "C factor", Plain, &["C", "HW C", "Hazen Williams C", "HW factor", "C value"],
-            "Hazen-Williams C (water only; replaces Darcy friction for the run)"),
-        col("flow", "Flow", Number(Flow), &["Flow rate", "Design flow", "Q", "Flowrate"],
-            "Flow, when Lines has none"),
+        col(
+            "line",
+            "Line",
+            Text,
+            LINE_ALIASES,
+            "Line id the run belongs to",
+        ),
+        col(
+            "seq",
+            "Seq",
+            Plain,
+            &["Sequence", "Run", "Run no", "Order", "Item no"],
+            "Order of the run along its line",
+        ),
+        col(
+            "size",
+            "Size",
+            Size,
+            &[
+                "NB",
+                "Nom size",
+                "Nominal size",
+                "DN",
+                "Dia",
+                "Diameter",
+                "NPS",
+                "Pipe size",
+                "Bore size",
+            ],
+            "Nominal size: DN100, 100NB, NPS 4, 4\", 110 OD",
+        ),
+        col(
+            "schedule",
+            "Schedule",
+            Text,
+            &["Sch", "Sched", "Wall", "Class", "SDR", "Rating"],
+            "Wall schedule: 40, STD, XS, 80, 10S, 40S, SDR11",
+        ),
+        col(
+            "material",
+            "Material",
+            Text,
+            &["Matl", "Mat", "Pipe material", "Spec", "Material spec"],
+            "Pipe material: carbon steel, stainless, PE, PVC, ductile iron ...",
+        ),
+        col(
+            "length",
+            "Length",
+            Number(Length),
+            &[
+                "Len",
+                "L",
+                "Run length",
+                "Pipe length",
+                "Qty length",
+                "Straight length",
+            ],
+            "Run length along the pipe",
+        ),
+        col(
+            "inner_diameter",
+            "Inner diameter",
+            Number(Length),
+            &[
+                "ID",
+                "Bore",
+                "Internal diameter",
+                "Inside diameter",
+                "Actual ID",
+            ],
+            "Measured or specified bore (overrides Size and Schedule)",
+        ),
+        col(
+            "roughness",
+            "Roughness",
+            Number(Length),
+            &["Epsilon", "Abs roughness", "Absolute roughness", "e"],
+            "Absolute roughness (overrides the material's new-pipe value)",
+        ),
+        col(
+            "age",
+            "Age",
+            Plain,
+            &["Years in service", "Pipe age", "Service years", "Age years"],
+            "Age in years (roughens unlined iron and steel)",
+        ),
+        col(
+            "c_factor",
+            "C factor",
+            Plain,
+            &["C", "HW C", "Hazen Williams C", "HW factor", "C value"],
+            "Hazen-Williams C (water only; replaces Darcy friction for the run)",
+        ),
+        col(
+            "flow",
+            "Flow",
+            Number(Flow),
+            &["Flow rate", "Design flow", "Q", "Flowrate"],
+            "Flow, when Lines has none",
+        ),
     ],
 };
 
 static FITTINGS: TableSpec = TableSpec {
     kind: TableKind::Fittings,
     sheet: "Fittings",
-    sheet_aliases: &["Fitting schedule", "Valves", "Valve schedule", "Fittings and valves", "Valves and fittings", "Fitting list", "Valve list"],
+    sheet_aliases: &[
+        "Fitting schedule",
+        "Valves",
+        "Valve schedule",
+        "Fittings and valves",
+        "Valves and fittings",
+        "Fitting list",
+        "Valve list",
+    ],
     required: &["line", "item"],
     columns: &[
-        col("tag", "Tag", Text, &["Tag no", "Tag number", "Item tag", "Ref", "Asset", "Asset id"], "Fitting tag"),
-        col("line", "Line", Text, LINE_ALIASES, "Line id the fitting sits on"),
-        col("item", "Item", Text, &["Type", "Fitting", "Fitting type", "Description", "Component", "Kind"],
-            "What the fitting is, in free text: '90 LR elbow', 'gate valve', 'Y strainer'"),
-        col("size", "Size", Size, &["NB", "Nom size", "Nominal size", "DN", "Dia", "Size in", "Inlet size"], "Size (inlet for reducers)"),
-        col("size_out", "Size out", Size, &["Outlet size", "Size 2", "To size", "Reduced size"], "Outlet size of a reducer, expansion or contraction"),
-        col("qty", "Qty", Plain, &["Quantity", "No", "Number", "Count", "Nos"], "How many identical items (default 1)"),
-        col("opening", "Opening", Number(Fraction), &["Position", "Open", "% open", "Valve position", "Travel"],
-            "How far a valve is open (default 100 %)"),
-        col("k", "K", Plain, &["K value", "K factor", "Loss coefficient", "Resistance coefficient"], "Loss coefficient from a datasheet"),
-        col("kv", "Kv", Plain, &["Kvs", "Kv value"], "Flow coefficient Kv, m3/h at 1 bar"),
-        col("cv", "Cv", Plain, &["Cv value", "Flow coefficient"], "Flow coefficient Cv, US gpm at 1 psi"),
-        col("le_d", "Le/D", Plain, &["L/D", "Equivalent length ratio", "Le over D"], "Equivalent length in diameters"),
-        col("bend_radius_d", "Bend radius/D", Plain, &["r/D", "R/D", "Radius ratio", "Bend ratio"], "Bend centreline radius over bore"),
-        col("angle", "Angle", Plain, &["Bend angle", "Deg", "Angle deg", "Cone angle"], "Bend angle or cone angle, degrees"),
-        col("fouling", "Fouling", Plain, &["Fouling factor", "Blockage factor", "Dirt factor"], "Multiplier on a strainer's clean K (default 1)"),
-        col("replacement_cost", "Replacement cost", Plain, &["Cost", "Replace cost", "Upgrade cost", "Capex"], "Cost to replace with the suggested item"),
-        col("beta", "Beta", Plain, &["Beta ratio", "d/D", "Orifice ratio"], "Orifice bore over pipe bore"),
+        col(
+            "tag",
+            "Tag",
+            Text,
+            &[
+                "Tag no",
+                "Tag number",
+                "Item tag",
+                "Ref",
+                "Asset",
+                "Asset id",
+            ],
+            "Fitting tag",
+        ),
+        col(
+            "line",
+            "Line",
+            Text,
+            LINE_ALIASES,
+            "Line id the fitting sits on",
+        ),
+        col(
+            "item",
+            "Item",
+            Text,
+            &[
+                "Type",
+                "Fitting",
+                "Fitting type",
+                "Description",
+                "Component",
+                "Kind",
+            ],
+            "What the fitting is, in free text: '90 LR elbow', 'gate valve', 'Y strainer'",
+        ),
+        col(
+            "size",
+            "Size",
+            Size,
+            &[
+                "NB",
+                "Nom size",
+                "Nominal size",
+                "DN",
+                "Dia",
+                "Size in",
+                "Inlet size",
+            ],
+            "Size (inlet for reducers)",
+        ),
+        col(
+            "size_out",
+            "Size out",
+            Size,
+            &["Outlet size", "Size 2", "To size", "Reduced size"],
+            "Outlet size of a reducer, expansion or contraction",
+        ),
+        col(
+            "qty",
+            "Qty",
+            Plain,
+            &["Quantity", "No", "Number", "Count", "Nos"],
+            "How many identical items (default 1)",
+        ),
+        col(
+            "opening",
+            "Opening",
+            Number(Fraction),
+            &["Position", "Open", "% open", "Valve position", "Travel"],
+            "How far a valve is open (default 100 %)",
+        ),
+        col(
+            "k",
+            "K",
+            Plain,
+            &[
+                "K value",
+                "K factor",
+                "Loss coefficient",
+                "Resistance coefficient",
+            ],
+            "Loss coefficient from a datasheet",
+        ),
+        col(
+            "kv",
+            "Kv",
+            Plain,
+            &["Kvs", "Kv value"],
+            "Flow coefficient Kv, m3/h at 1 bar",
+        ),
+        col(
+            "cv",
+            "Cv",
+            Plain,
+            &["Cv value", "Flow coefficient"],
+            "Flow coefficient Cv, US gpm at 1 psi",
+        ),
+        col(
+            "le_d",
+            "Le/D",
+            Plain,
+            &["L/D", "Equivalent length ratio", "Le over D"],
+            "Equivalent length in diameters",
+        ),
+        col(
+            "bend_radius_d",
+            "Bend radius/D",
+            Plain,
+            &["r/D", "R/D", "Radius ratio", "Bend ratio"],
+            "Bend centreline radius over bore",
+        ),
+        col(
+            "angle",
+            "Angle",
+            Plain,
+            &["Bend angle", "Deg", "Angle deg", "Cone angle"],
+            "Bend angle or cone angle, degrees",
+        ),
+        col(
+            "fouling",
+            "Fouling",
+            Plain,
+            &["Fouling factor", "Blockage factor", "Dirt factor"],
+            "Multiplier on a strainer's clean K (default 1)",
+        ),
+        col(
+            "replacement_cost",
+            "Replacement cost",
+            Plain,
+            &["Cost", "Replace cost", "Upgrade cost", "Capex"],
+            "Cost to replace with the suggested item",
+        ),
+        col(
+            "beta",
+            "Beta",
+            Plain,
+            &["Beta ratio", "d/D", "Orifice ratio"],
+            "Orifice bore over pipe bore",
+        ),
     ],
 };
 
@@ -180,17 +491,62 @@ static SYSTEMS: TableSpec = TableSpec {
     sheet_aliases: &["Pump systems", "Circuits", "Duty points"],
     required: &["system"],
     columns: &[
-        col("system", "System", Text, &["System id", "Pump system", "Circuit"], "System id"),
-        col("lines", "Lines", Text, &["Line sequence", "Route", "Path"], "Line ids in order, suction side first, comma separated"),
-        col("static_head", "Static head", Number(Head), &["Static lift", "Hstat", "Static"], "Static head from source level to delivery"),
-        col("pump_head", "Pump head", Number(Head), &["Duty head", "Rated head", "Pump TDH", "TDH"], "Pump head at duty flow"),
-        col("npsh_required", "NPSH required", Number(Head), &["NPSHr", "NPSH r", "Required NPSH"], "Pump NPSH required at duty flow"),
-        col("source_pressure", "Source pressure", Number(Pressure), &["Suction pressure", "Tank pressure", "Surface pressure"],
-            "Absolute pressure on the source liquid surface (default atmospheric)"),
-        col("suction_level", "Suction level", Number(Length), &["Liquid level", "Suction head", "Level above pump"],
-            "Source liquid level above the pump centreline"),
-        col("efficiency", "Efficiency", Number(Fraction), &["Pump efficiency", "Wire to water efficiency", "Eta"],
-            "Wire-to-water efficiency"),
+        col(
+            "system",
+            "System",
+            Text,
+            &["System id", "Pump system", "Circuit"],
+            "System id",
+        ),
+        col(
+            "lines",
+            "Lines",
+            Text,
+            &["Line sequence", "Route", "Path"],
+            "Line ids in order, suction side first, comma separated",
+        ),
+        col(
+            "static_head",
+            "Static head",
+            Number(Head),
+            &["Static lift", "Hstat", "Static"],
+            "Static head from source level to delivery",
+        ),
+        col(
+            "pump_head",
+            "Pump head",
+            Number(Head),
+            &["Duty head", "Rated head", "Pump TDH", "TDH"],
+            "Pump head at duty flow",
+        ),
+        col(
+            "npsh_required",
+            "NPSH required",
+            Number(Head),
+            &["NPSHr", "NPSH r", "Required NPSH"],
+            "Pump NPSH required at duty flow",
+        ),
+        col(
+            "source_pressure",
+            "Source pressure",
+            Number(Pressure),
+            &["Suction pressure", "Tank pressure", "Surface pressure"],
+            "Absolute pressure on the source liquid surface (default atmospheric)",
+        ),
+        col(
+            "suction_level",
+            "Suction level",
+            Number(Length),
+            &["Liquid level", "Suction head", "Level above pump"],
+            "Source liquid level above the pump centreline",
+        ),
+        col(
+            "efficiency",
+            "Efficiency",
+            Number(Fraction),
+            &["Pump efficiency", "Wire to water efficiency", "Eta"],
+            "Wire-to-water efficiency",
+        ),
     ],
 };
 
@@ -200,10 +556,69 @@ static FLUIDS: TableSpec = TableSpec {
     sheet_aliases: &["Fluid properties", "Liquids", "Media"],
     required: &["fluid", "density", "viscosity"],
     columns: &[
-        col("fluid", "Fluid", Text, &["Name", "Medium", "Liquid"], "Fluid name as used in Lines"),
-        col("density", "Density", Number(Density), &["Rho", "Specific mass"], "Density at operating temperature"),
-        col("viscosity", "Viscosity", Number(Viscosity), &["Dynamic viscosity", "Mu", "Visc"], "Dynamic viscosity"),
-        col("vapour_pressure", "Vapour pressure", Number(Pressure), &["Vapor pressure", "Pv", "Psat"], "Vapour pressure (absolute)"),
+        col(
+            "fluid",
+            "Fluid",
+            Text,
+            &["Name", "Medium", "Liquid"],
+            "Fluid name as used in Lines",
+        ),
+        col(
+            "density",
+            "Density",
+            Number(Density),
+            &["Rho", "Specific mass"],
+            "Density at operating temperature",
+        ),
+        col(
+            "viscosity",
+            "Viscosity",
+            Number(Viscosity),
+            &["Dynamic viscosity", "Mu", "Visc"],
+            "Dynamic viscosity",
+        ),
+        col(
+            "vapour_pressure",
+            "Vapour pressure",
+            Number(Pressure),
+            &["Vapor pressure", "Pv", "Psat"],
+            "Vapour pressure (absolute)",
+        ),
+    ],
+};
+
+static PUMP_CURVE: TableSpec = TableSpec {
+    kind: TableKind::PumpCurve,
+    sheet: "Pump curve",
+    sheet_aliases: &[
+        "Pump curves",
+        "Pump characteristic",
+        "Pump characteristics",
+        "Head flow",
+    ],
+    required: &["system", "flow", "head"],
+    columns: &[
+        col(
+            "system",
+            "System",
+            Text,
+            &["System id", "Pump system", "Circuit"],
+            "System id the point belongs to",
+        ),
+        col(
+            "flow",
+            "Flow",
+            Number(Flow),
+            &["Flow rate", "Q", "Capacity"],
+            "Pump flow at the point (default unit m3/h)",
+        ),
+        col(
+            "head",
+            "Head",
+            Number(Head),
+            &["Pump head", "Total head", "H", "TDH"],
+            "Pump head at that flow",
+        ),
     ],
 };
 
@@ -215,16 +630,18 @@ pub fn spec(kind: TableKind) -> &'static TableSpec {
         TableKind::Fittings => &FITTINGS,
         TableKind::Systems => &SYSTEMS,
         TableKind::Fluids => &FLUIDS,
+        TableKind::PumpCurve => &PUMP_CURVE,
     }
 }
 
 /// All tables in reading order.
-pub const ALL_TABLES: [TableKind; 5] = [
+pub const ALL_TABLES: [TableKind; 6] = [
     TableKind::Lines,
     TableKind::Pipes,
     TableKind::Fittings,
     TableKind::Systems,
     TableKind::Fluids,
+    TableKind::PumpCurve,
 ];
 
 /// Fold a header or sheet name for comparison: lower case, letters and digits only
@@ -267,11 +684,26 @@ mod tests {
 
     #[test]
     fn headers_fold_to_their_columns() {
-        assert_eq!(match_column(TableKind::Pipes, &fold("Line No.")).map(|c| c.key), Some("line"));
-        assert_eq!(match_column(TableKind::Pipes, &fold("Nom. size")).map(|c| c.key), Some("size"));
-        assert_eq!(match_column(TableKind::Fittings, &fold("Size out")).map(|c| c.key), Some("size_out"));
-        assert_eq!(match_column(TableKind::Fittings, &fold("% open")).map(|c| c.key), Some("opening"));
-        assert_eq!(match_column(TableKind::Fittings, &fold("Le/D")).map(|c| c.key), Some("le_d"));
+        assert_eq!(
+            match_column(TableKind::Pipes, &fold("Line No.")).map(|c| c.key),
+            Some("line")
+        );
+        assert_eq!(
+            match_column(TableKind::Pipes, &fold("Nom. size")).map(|c| c.key),
+            Some("size")
+        );
+        assert_eq!(
+            match_column(TableKind::Fittings, &fold("Size out")).map(|c| c.key),
+            Some("size_out")
+        );
+        assert_eq!(
+            match_column(TableKind::Fittings, &fold("% open")).map(|c| c.key),
+            Some("opening")
+        );
+        assert_eq!(
+            match_column(TableKind::Fittings, &fold("Le/D")).map(|c| c.key),
+            Some("le_d")
+        );
         assert_eq!(match_sheet("Pipe takeoff"), Some(TableKind::Pipes));
         assert_eq!(match_sheet("FITTINGS"), Some(TableKind::Fittings));
         assert_eq!(match_sheet("Notes"), None);
@@ -283,7 +715,9 @@ mod tests {
             let mut seen = std::collections::HashMap::new();
             for c in spec(kind).columns {
                 for name in std::iter::once(&c.header).chain(c.aliases) {
-                    if let Some(other) = seen.insert(fold(name), c.key) {
+                    if let Some(other) = seen.insert(fold(name), c.key)
+                        && other != c.key
+                    {
                         panic!("{kind:?}: '{name}' names both {other} and {}", c.key);
                     }
                 }

@@ -182,8 +182,14 @@ fn sorted(mut v: Vec<String>) -> Vec<String> {
     v
 }
 
-/// Token sets of every alias (and the id itself) of every kind.
-fn alias_sets() -> Vec<(&'static Kind, Vec<String>, String)> {
+/// Token sets of every alias (and the id itself) of every kind, built once.
+fn alias_sets() -> &'static [(&'static Kind, Vec<String>, String)] {
+    static SETS: std::sync::OnceLock<Vec<(&'static Kind, Vec<String>, String)>> =
+        std::sync::OnceLock::new();
+    SETS.get_or_init(build_alias_sets)
+}
+
+fn build_alias_sets() -> Vec<(&'static Kind, Vec<String>, String)> {
     let mut out = Vec::new();
     for k in catalogue() {
         let id_text = k.id.replace('-', " ");
@@ -217,7 +223,7 @@ pub fn match_item(text: &str) -> Result<&'static Kind, Vec<&'static str>> {
     // Longest alias contained in the text.
     let mut best: Vec<&'static Kind> = Vec::new();
     let mut best_len = 0;
-    for (k, s, _) in &sets {
+    for (k, s, _) in sets {
         if s.is_empty() || !s.iter().all(|t| toks.contains(t)) {
             continue;
         }
@@ -234,7 +240,7 @@ pub fn match_item(text: &str) -> Result<&'static Kind, Vec<&'static str>> {
     if best.len() > 1 {
         return Err(best.iter().take(3).map(|k| k.id).collect());
     }
-    Err(nearest(&toks, &sets))
+    Err(nearest(&toks, sets))
 }
 
 /// Up to 3 nearest ids: kinds with an alias containing every word of the text come first,

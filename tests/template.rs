@@ -1,0 +1,124 @@
+//! The template round-trips: filled with invented rows programmatically, it reads without error
+//! and audits; its units row is read as units; the Read me lists every column.
+
+use calamine::Data;
+use lossledger::audit::{self, Rules};
+use lossledger::ingest::{self, TableKind, grid};
+use lossledger::report::console::UnitSystem;
+use lossledger::template;
+
+fn sheets(units: UnitSystem, name: &str) -> Vec<lossledger::ingest::SheetGrid> {
+    let bytes = template::build(units).expect("template builds");
+    let path = std::env::temp_dir().join(format!(
+        "lossledger-template-{}-{name}.xlsx",
+        std::process::id()
+    ));
+    std::fs::write(&path, bytes).expect("write");
+    let s = grid::read_xlsx(&path, name).expect("readable");
+    let _ = std::fs::remove_file(&path);
+    s
+}
+
+fn set(
+    sheets: &mut [lossledger::ingest::SheetGrid],
+    sheet: &str,
+    row: u32,
+    values: &[(&str, Data)],
+) {
+    let g = sheets.iter_mut().find(|g| g.name == sheet).expect("sheet");
+    for (header, v) in values {
+        let col = (0..g.end_col())
+            .find(|&c| g.value(0, c) == &Data::String((*header).to_string()))
+            .unwrap_or_else(|| panic!("{header}"));
+        g.values.set_value((row, col), v.clone());
+    }
+}
+
+fn s(t: &str) -> Data {
+    Data::String(t.into())
+}
+
+#[test]
+fn filled_template_audits() {
+    for (units, flow, length) in [(UnitSystem::Si, 36.0, 40.0), (UnitSystem::Us, 158.5, 131.2)] {
+        let mut sh = sheets(units, "fill");
+        assert!(sh.iter().any(|g| g.name == "Read me"));
+        for r in 3..6u32 {
+            let line = format!("TPL-{r}");
+            set(
+                &mut sh,
+                "Lines",
+                r,
+                &[
+                    ("Line", s(&line)),
+                    ("Service", s("distribution")),
+                    ("Flow", Data::Float(flow)),
+                ],
+            );
+            set(
+                &mut sh,
+                "Pipes",
+                r,
+                &[
+                    ("Line", s(&line)),
+                    ("Size", s("DN80")),
+                    ("Material", s("ductile iron")),
+                    ("Length", Data::Float(length)),
+                ],
+            );
+            set(
+                &mut sh,
+                "Fittings",
+                r,
+                &[
+                    ("Line", s(&line)),
+                    ("Item", s("valve-gate")),
+                    ("Size", s("DN80")),
+                ],
+            );
+        }
+        let input = ingest::from_sheets(
+            "template.xlsx".into(),
+            "template.xlsx".into(),
+            String::new(),
+            sh,
+        );
+        assert_eq!(input.error_count(), 0, "{:#?}", input.diagnostics);
+        let pipes = input.layout(TableKind::Pipes).expect("pipes");
+        assert_eq!(
+            (pipes.header_row, pipes.units_row, pipes.data_start),
+            (0, Some(1), 2)
+        );
+        let unit = pipes.column("length").and_then(|c| c.unit).map(|u| u.label);
+        assert_eq!(unit, Some(if units == UnitSystem::Us { "ft" } else { "m" }));
+        // The invented example line and the three filled lines.
+        let a = audit::run(&input, &Rules::default()).unwrap_or_else(|e| panic!("{e:#?}"));
+        assert_eq!(a.lines.len(), 4);
+        assert!(a.lines.iter().all(|l| l.total_head_m > 0.0));
+        let example = input
+            .lines
+            .iter()
+            .find(|l| l.line == "EXAMPLE-1")
+            .expect("example row");
+        assert!(example.flow_m3_s.is_some());
+    }
+}
+
+#[test]
+fn readme_lists_every_column() {
+    let sh = sheets(UnitSystem::Si, "readme");
+    let readme = sh.iter().find(|g| g.name == "Read me").expect("Read me");
+    let text: Vec<String> = (0..readme.end_row())
+        .map(|r| match readme.value(r, 1) {
+            Data::String(t) => t.clone(),
+            _ => String::new(),
+        })
+        .collect();
+    for table in template::TABLES {
+        for c in ingest::schema::spec(table).columns {
+            assert!(text.iter().any(|t| t.starts_with(c.header)), "{}", c.header);
+        }
+    }
+    let lists = sh.iter().find(|g| g.name == "Lists").expect("Lists");
+    assert_eq!(lists.value(1, 0), &s("pump-suction"));
+}
