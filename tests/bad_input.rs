@@ -1,0 +1,728 @@
+//! Bad-input corpus, generated in code and run through the built binary.
+//!
+//! Each case is an input file (raw bytes or a workbook built with rust_xlsxwriter) and what must
+//! happen: either the run is refused (exit 2, the message names the file and, where there is one,
+//! the cell, and no output of any kind is left in the folder), or the run completes with a named
+//! finding and no infinite or NaN figure anywhere in the outputs. No case may panic.
+
+#[path = "bad/support.rs"]
+mod support;
+
+use std::ffi::OsStr;
+use support::{Cell, Sheet, base_station, n, s, sheet, xlsx, zip};
+
+/// What a case must do.
+enum Expect {
+    /// Exit 2, stderr names the file, the cell (when given) and contains the text; nothing written.
+    Refused {
+        cell: Option<&'static str>,
+        says: &'static str,
+    },
+    /// Exit 0, the finding code is raised (when given), the JSON holds the text (when given), and
+    /// the outputs have no inf/NaN.
+    Finding {
+        code: Option<&'static str>,
+        holds: Option<String>,
+    },
+}
+
+struct Case {
+    name: &'static str,
+    /// File name to write the input under (extension matters).
+    file: &'static str,
+    bytes: Vec<u8>,
+    expect: Expect,
+}
+
+fn refused(
+    name: &'static str,
+    bytes: Vec<u8>,
+    cell: Option<&'static str>,
+    says: &'static str,
+) -> Case {
+    Case {
+        name,
+        file: "station.xlsx",
+        bytes,
+        expect: Expect::Refused { cell, says },
+    }
+}
+
+fn finding(name: &'static str, bytes: Vec<u8>, code: &'static str) -> Case {
+    Case {
+        name,
+        file: "station.xlsx",
+        bytes,
+        expect: Expect::Finding {
+            code: Some(code),
+            holds: None,
+        },
+    }
+}
+
+/// Legal but odd content: the run completes and the JSON holds `holds` (JSON-escaped).
+fn completes(name: &'static str, bytes: Vec<u8>, code: Option<&'static str>, holds: &str) -> Case {
+    let holds = serde_json::to_string(holds).expect("json string");
+    Case {
+        name,
+        file: "station.xlsx",
+        bytes,
+        expect: Expect::Finding {
+            code,
+            holds: Some(holds.trim_matches('"').to_string()),
+        },
+    }
+}
+
+/// The base station with one cell changed.
+fn with(sheet_name: &str, row: usize, col: usize, cell: Cell) -> Vec<u8> {
+    let mut st = base_station();
+    sheet(&mut st, sheet_name).set(row, col, cell);
+    xlsx(&st)
+}
+
+/// The base station with several cells changed.
+fn with_all(changes: &[(&str, usize, usize, Cell)]) -> Vec<u8> {
+    let mut st = base_station();
+    for (name, r, c, cell) in changes {
+        sheet(&mut st, name).set(*r, *c, cell.clone());
+    }
+    xlsx(&st)
+}
+
+fn without_sheet(name: &str) -> Vec<Sheet> {
+    base_station()
+        .into_iter()
+        .filter(|s| s.name != name)
+        .collect()
+}
+
+fn ods_bytes() -> Vec<u8> {
+    let content = br#"<?xml version="1.0" encoding="UTF-8"?>
+<office:document-content xmlns:office="urn:oasis:names:tc:opendocument:xmlns:office:1.0" xmlns:table="urn:oasis:names:tc:opendocument:xmlns:table:1.0" xmlns:text="urn:oasis:names:tc:opendocument:xmlns:text:1.0" office:version="1.2"><office:body><office:spreadsheet><table:table table:name="Pipes"><table:table-row><table:table-cell office:value-type="string"><text:p>Line</text:p></table:table-cell></table:table-row></table:table></office:spreadsheet></office:body></office:document-content>"#;
+    let manifest = br#"<?xml version="1.0" encoding="UTF-8"?><manifest:manifest xmlns:manifest="urn:oasis:names:tc:opendocument:xmlns:manifest:1.0"><manifest:file-entry manifest:full-path="/" manifest:media-type="application/vnd.oasis.opendocument.spreadsheet"/><manifest:file-entry manifest:full-path="content.xml" manifest:media-type="text/xml"/></manifest:manifest>"#;
+    zip(&[
+        (
+            "mimetype",
+            b"application/vnd.oasis.opendocument.spreadsheet",
+        ),
+        ("content.xml", content),
+        ("META-INF/manifest.xml", manifest),
+    ])
+}
+
+/// An OLE2 compound file header (the container of .xls and of password-protected .xlsx), followed
+/// by the stream names an encrypted workbook carries. Header layout per [MS-CFB] 2.2.
+fn compound_file(streams: &[&str]) -> Vec<u8> {
+    let mut b = vec![0xD0, 0xCF, 0x11, 0xE0, 0xA1, 0xB1, 0x1A, 0xE1];
+    b.extend_from_slice(&[0u8; 16]);
+    b.extend_from_slice(&[0x3E, 0x00, 0x03, 0x00, 0xFE, 0xFF, 0x09, 0x00]);
+    b.resize(512, 0xFF);
+    for name in streams {
+        for u in name.encode_utf16() {
+            b.extend_from_slice(&u.to_le_bytes());
+        }
+        b.resize(b.len() + 64, 0);
+    }
+    b.resize(4096, 0);
+    b
+}
+
+fn cases() -> Vec<Case> {
+    let valid = xlsx(&base_station());
+    let long_id: String = "L".repeat(32_767);
+    let v = vec![
+        // --- the file is not a readable workbook ---
+        refused(
+            "not-a-zip",
+            b"Line,Seq,Size\nL1,1,DN100\n".to_vec(),
+            None,
+            "cannot read",
+        ),
+        refused("empty-file", Vec::new(), None, "cannot read"),
+        refused(
+            "truncated-zip-half",
+            valid[..valid.len() / 2].to_vec(),
+            None,
+            "cannot read",
+        ),
+        refused(
+            "truncated-zip-100-bytes",
+            valid[..100].to_vec(),
+            None,
+            "cannot read",
+        ),
+        refused(
+            "zip-not-a-workbook",
+            zip(&[("readme.txt", b"hello")]),
+            None,
+            "cannot read",
+        ),
+        refused(
+            "zip-with-garbage-workbook-xml",
+            zip(&[
+                ("[Content_Types].xml", b"<Types/>"),
+                (
+                    "xl/workbook.xml",
+                    b"<workbook><sheets><sheet name=\"Pipes\" r:id=\"rId1\"",
+                ),
+            ]),
+            None,
+            "cannot read",
+        ),
+        refused(
+            "xls-given-as-xlsx",
+            compound_file(&["Workbook"]),
+            None,
+            "cannot read",
+        ),
+        refused("ods-given-as-xlsx", ods_bytes(), None, "cannot read"),
+        refused(
+            "password-protected",
+            compound_file(&["EncryptionInfo", "EncryptedPackage"]),
+            None,
+            "cannot read",
+        ),
+        // Found by fuzzing (fuzz/ ingest_bytes): calamine overflowed on an absurd cell reference.
+        refused(
+            "fuzz-calamine-ref-overflow",
+            include_bytes!("bad/fuzz-calamine-ref-overflow.xlsx").to_vec(),
+            None,
+            "cannot read",
+        ),
+        refused(
+            "random-bytes",
+            (0..5000u32)
+                .map(|i| (i.wrapping_mul(2_654_435_761) >> 13) as u8)
+                .collect(),
+            None,
+            "cannot read",
+        ),
+        Case {
+            name: "ods-extension",
+            file: "station.ods",
+            bytes: ods_bytes(),
+            expect: Expect::Refused {
+                cell: None,
+                says: "unsupported file type",
+            },
+        },
+        Case {
+            name: "xls-extension",
+            file: "station.xls",
+            bytes: compound_file(&["Workbook"]),
+            expect: Expect::Refused {
+                cell: None,
+                says: "unsupported file type",
+            },
+        },
+        // --- workbook without usable tables ---
+        refused(
+            "empty-workbook",
+            xlsx(&[Sheet::new("Sheet1", vec![])]),
+            None,
+            "no Pipes sheet",
+        ),
+        refused(
+            "no-pipes-sheet",
+            xlsx(&without_sheet("Pipes")),
+            None,
+            "no Pipes sheet",
+        ),
+        refused(
+            "pipes-sheet-without-header",
+            xlsx(&[Sheet::new("Pipes", vec![vec![s("hello")], vec![n(1.0)]])]),
+            Some("Pipes!A1"),
+            "no header row",
+        ),
+        refused(
+            "pipes-only-header",
+            xlsx(&[Sheet::new(
+                "Pipes",
+                vec![vec![
+                    s("Line"),
+                    s("Size"),
+                    s("Length [m]"),
+                    s("Flow [m3/h]"),
+                ]],
+            )]),
+            Some("Pipes!A1"),
+            "no pipe runs",
+        ),
+        refused(
+            "all-sheets-only-header",
+            {
+                let mut st = base_station();
+                for sh in &mut st {
+                    sh.rows.truncate(1);
+                }
+                xlsx(&st)
+            },
+            Some("Pipes!A1"),
+            "no pipe runs",
+        ),
+        refused(
+            "required-column-missing",
+            with("Pipes", 0, 0, s("Remarks")),
+            Some("Pipes!A1"),
+            "required column",
+        ),
+        refused(
+            "duplicated-header",
+            with("Pipes", 0, 6, s("Length [m]")),
+            Some("Pipes!G1"),
+            "duplicate",
+        ),
+        refused(
+            "unknown-unit-in-header",
+            with("Pipes", 0, 5, s("Length [furlongs]")),
+            Some("Pipes!F2"),
+            "not understood",
+        ),
+        // --- bad numbers ---
+        refused(
+            "every-numeric-column-text",
+            with_all(&[
+                ("Lines", 1, 2, s("lots")),
+                ("Pipes", 1, 1, s("first")),
+                ("Pipes", 1, 5, s("long")),
+                ("Fittings", 1, 5, s("some")),
+            ]),
+            Some("Pipes!F2"),
+            "long",
+        ),
+        refused(
+            "nan-text",
+            with("Pipes", 1, 5, s("NaN")),
+            Some("Pipes!F2"),
+            "Length",
+        ),
+        refused(
+            "inf-text",
+            with("Pipes", 1, 5, s("inf")),
+            Some("Pipes!F2"),
+            "Length",
+        ),
+        refused(
+            "huge-length-1e308",
+            with("Pipes", 1, 5, n(1e308)),
+            Some("Pipes!A2"),
+            "not a finite",
+        ),
+        refused(
+            "huge-flow-1e308",
+            with("Lines", 1, 2, n(1e308)),
+            Some("Fittings!C2"),
+            "Reynolds",
+        ),
+        refused(
+            "huge-k-1e308",
+            with("Fittings", 1, 7, n(1e308)),
+            Some("Fittings!C2"),
+            "not a finite",
+        ),
+        refused(
+            "negative-length",
+            with("Pipes", 1, 5, n(-12.0)),
+            Some("Pipes!F2"),
+            "greater than zero",
+        ),
+        refused(
+            "zero-length",
+            with("Pipes", 1, 5, n(0.0)),
+            Some("Pipes!F2"),
+            "greater than zero",
+        ),
+        refused(
+            "negative-qty",
+            with("Fittings", 1, 5, n(-1.0)),
+            Some("Fittings!F2"),
+            "greater than zero",
+        ),
+        refused(
+            "opening-above-100",
+            with("Fittings", 2, 6, n(150.0)),
+            Some("Fittings!G3"),
+            "above 100",
+        ),
+        refused(
+            "negative-k",
+            with("Fittings", 1, 7, n(-0.5)),
+            Some("Fittings!H2"),
+            "zero or more",
+        ),
+        refused(
+            "boolean-length",
+            with("Pipes", 1, 5, Cell::B(true)),
+            Some("Pipes!F2"),
+            "TRUE/FALSE",
+        ),
+        refused(
+            "date-where-number-belongs",
+            with("Pipes", 1, 5, Cell::D("2024-03-01")),
+            Some("Pipes!F2"),
+            "date",
+        ),
+        refused(
+            "div0-formula-length",
+            with("Pipes", 1, 5, Cell::F("=1/0".into(), "#DIV/0!".into())),
+            Some("Pipes!F2"),
+            "#DIV/0!",
+        ),
+        refused(
+            "ref-formula-flow",
+            with("Lines", 1, 2, Cell::F("=#REF!*2".into(), "#REF!".into())),
+            Some("Lines!C2"),
+            "#REF!",
+        ),
+        refused(
+            "reverse-flow",
+            with("Lines", 1, 2, n(-50.0)),
+            Some("Lines!C2"),
+            "negative",
+        ),
+        refused(
+            "blank-flow",
+            with("Lines", 1, 2, s(" ")),
+            Some("Lines!C2"),
+            "no flow",
+        ),
+        // --- bad text and references ---
+        refused(
+            "unknown-size",
+            with("Pipes", 1, 2, s("DN7")),
+            Some("Pipes!C2"),
+            "Size",
+        ),
+        refused(
+            "bare-number-size",
+            with("Pipes", 1, 2, n(100.0)),
+            Some("Pipes!C2"),
+            "Size",
+        ),
+        refused(
+            "unknown-material",
+            with("Pipes", 1, 4, s("unobtainium")),
+            Some("Pipes!E2"),
+            "unobtainium",
+        ),
+        refused(
+            "unknown-item",
+            with("Fittings", 1, 2, s("flux capacitor")),
+            Some("Fittings!C2"),
+            "flux capacitor",
+        ),
+        refused(
+            "fitting-line-absent-from-pipes",
+            with("Fittings", 1, 1, s("L9")),
+            Some("Fittings!B2"),
+            "L9",
+        ),
+        refused(
+            "duplicate-line-id",
+            {
+                let mut st = base_station();
+                sheet(&mut st, "Lines")
+                    .rows
+                    .push(vec![s("L1"), s("general"), n(10.0)]);
+                xlsx(&st)
+            },
+            Some("Lines!A3"),
+            "listed twice",
+        ),
+        refused(
+            "blank-line-id-in-pipes",
+            with("Pipes", 1, 0, s("   ")),
+            Some("Pipes!A2"),
+            "blank",
+        ),
+        refused(
+            "water-too-hot",
+            with_all(&[
+                ("Lines", 0, 3, s("Temperature [°C]")),
+                ("Lines", 1, 3, n(150.0)),
+            ]),
+            Some("Lines!D2"),
+            "150",
+        ),
+        // --- odd but legal content: the run completes with a clear finding ---
+        finding("zero-flow", with("Lines", 1, 2, n(0.0)), "zero-flow"),
+        finding(
+            "valve-zero-open",
+            with("Fittings", 2, 6, n(0.0)),
+            "valve-closed",
+        ),
+        finding(
+            "reducer-equal-sizes",
+            with_all(&[
+                ("Fittings", 1, 2, s("reducer")),
+                ("Fittings", 1, 4, s("DN100")),
+            ]),
+            "same-size-reducer",
+        ),
+        completes(
+            "max-length-ids",
+            // Zero flow too, so a finding message carries the 32,767-character id.
+            with_all(&[
+                ("Lines", 1, 0, Cell::S(long_id.clone())),
+                ("Lines", 1, 2, n(0.0)),
+                ("Pipes", 1, 0, Cell::S(long_id.clone())),
+                ("Fittings", 1, 1, Cell::S(long_id.clone())),
+                ("Fittings", 2, 1, Cell::S(long_id.clone())),
+            ]),
+            Some("zero-flow"),
+            &long_id,
+        ),
+        completes(
+            "control-characters-in-ids",
+            with_all(&[
+                ("Lines", 1, 0, s(CTRL)),
+                ("Lines", 1, 2, n(0.0)),
+                ("Pipes", 1, 0, s(CTRL)),
+                ("Fittings", 1, 1, s(CTRL)),
+                ("Fittings", 2, 1, s(CTRL)),
+            ]),
+            Some("zero-flow"),
+            CTRL,
+        ),
+        completes(
+            "right-to-left-ids",
+            with_all(&[
+                ("Lines", 1, 0, s(RTL)),
+                ("Pipes", 1, 0, s(RTL)),
+                ("Fittings", 1, 1, s(RTL)),
+                ("Fittings", 2, 1, s(RTL)),
+                ("Fittings", 1, 0, s("שסתום")),
+            ]),
+            None,
+            RTL,
+        ),
+    ];
+    v
+}
+
+/// A line id with control characters (SOH, BEL, tab inside).
+const CTRL: &str = "L\u{1}1\u{7}\tx";
+/// A line id in Arabic script with a right-to-left override character.
+const RTL: &str = "خط-١\u{202E}";
+
+fn check(case: &Case) -> Result<(), String> {
+    let dir = support::temp_dir(case.name);
+    let input = dir.join(case.file);
+    std::fs::write(&input, &case.bytes).map_err(|e| e.to_string())?;
+    let json = dir.join("out.json");
+    let out = support::run(&[
+        OsStr::new("audit"),
+        input.as_os_str(),
+        OsStr::new("--json"),
+        json.as_os_str(),
+    ]);
+    let stderr = String::from_utf8_lossy(&out.stderr).into_owned();
+    let stdout = String::from_utf8_lossy(&out.stdout).into_owned();
+    let code = out.status.code();
+    let ctx = || {
+        format!(
+            "exit {code:?}\n--- stderr ---\n{}\n--- stdout ---\n{}",
+            clip(&stderr),
+            clip(&stdout)
+        )
+    };
+    if stderr.contains("panicked") || code == Some(3) {
+        return Err(format!("panicked or internal error; {}", ctx()));
+    }
+    if std::fs::read(&input).map_err(|e| e.to_string())? != case.bytes {
+        return Err("the input file was changed".into());
+    }
+    match &case.expect {
+        Expect::Refused { cell, says } => {
+            if code != Some(2) {
+                return Err(format!("expected exit 2; {}", ctx()));
+            }
+            if !stderr.contains(&input.display().to_string()) {
+                return Err(format!("message does not name the file; {}", ctx()));
+            }
+            if let Some(cell) = cell
+                && !stderr.contains(cell)
+            {
+                return Err(format!("message does not name cell {cell}; {}", ctx()));
+            }
+            if !stderr.to_lowercase().contains(&says.to_lowercase()) {
+                return Err(format!("message does not say {says:?}; {}", ctx()));
+            }
+            let left = support::entries(&dir);
+            if left != [case.file.to_string()] {
+                return Err(format!("files left in the folder: {left:?}"));
+            }
+        }
+        Expect::Finding {
+            code: finding,
+            holds,
+        } => {
+            if code != Some(0) {
+                return Err(format!("expected exit 0; {}", ctx()));
+            }
+            let text = std::fs::read_to_string(&json).map_err(|e| format!("no JSON: {e}"))?;
+            if let Some(finding) = finding
+                && !text.contains(&format!("\"code\": \"{finding}\""))
+            {
+                return Err(format!("finding {finding} not raised; {}", ctx()));
+            }
+            if let Some(h) = holds
+                && !text.contains(h.as_str())
+            {
+                return Err("the JSON does not hold the id as written".into());
+            }
+            let doc: serde_json::Value = serde_json::from_str(&text).map_err(|e| e.to_string())?;
+            if let Some(p) = non_finite(&doc, "$", baseline_nulls()) {
+                return Err(format!("JSON has a missing (non-finite) number at {p}"));
+            }
+            let out = dir.join("station.audit.xlsx");
+            check_workbook_finite(&out)?;
+        }
+    }
+    let _ = std::fs::remove_dir_all(&dir);
+    Ok(())
+}
+
+fn clip(s: &str) -> String {
+    s.chars().take(1500).collect()
+}
+
+/// serde_json writes NaN and infinities as `null`, as it writes a value that is absent by
+/// contract. A null is accepted only under a key that is also null in the audit of the valid base
+/// station (an optional field); any other null means a non-finite figure escaped.
+fn non_finite(
+    v: &serde_json::Value,
+    path: &str,
+    optional: &std::collections::HashSet<String>,
+) -> Option<String> {
+    match v {
+        serde_json::Value::Object(m) => m.iter().find_map(|(k, x)| {
+            if x.is_null() && !optional.contains(k) {
+                Some(format!("{path}.{k}"))
+            } else {
+                non_finite(x, &format!("{path}.{k}"), optional)
+            }
+        }),
+        serde_json::Value::Array(a) => a
+            .iter()
+            .enumerate()
+            .find_map(|(i, x)| non_finite(x, &format!("{path}[{i}]"), optional)),
+        _ => None,
+    }
+}
+
+fn null_keys(v: &serde_json::Value, out: &mut std::collections::HashSet<String>) {
+    match v {
+        serde_json::Value::Object(m) => {
+            for (k, x) in m {
+                if x.is_null() {
+                    out.insert(k.clone());
+                }
+                null_keys(x, out);
+            }
+        }
+        serde_json::Value::Array(a) => a.iter().for_each(|x| null_keys(x, out)),
+        _ => {}
+    }
+}
+
+/// Keys that are null in the JSON of the valid base station.
+fn baseline_nulls() -> &'static std::collections::HashSet<String> {
+    static NULLS: std::sync::OnceLock<std::collections::HashSet<String>> =
+        std::sync::OnceLock::new();
+    NULLS.get_or_init(|| {
+        let dir = support::temp_dir("baseline");
+        let input = dir.join("base.xlsx");
+        std::fs::write(&input, xlsx(&base_station())).expect("write base");
+        let json = dir.join("base.json");
+        let out = support::run(&[
+            OsStr::new("audit"),
+            input.as_os_str(),
+            OsStr::new("--json"),
+            json.as_os_str(),
+        ]);
+        assert_eq!(
+            out.status.code(),
+            Some(0),
+            "base station must audit: {}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        let doc: serde_json::Value =
+            serde_json::from_str(&std::fs::read_to_string(&json).expect("json")).expect("parse");
+        // Finding fields that are optional by contract (a finding need not name a line or tag).
+        let mut keys: std::collections::HashSet<String> =
+            ["line", "tag", "cell"].map(String::from).into();
+        null_keys(&doc, &mut keys);
+        let _ = std::fs::remove_dir_all(&dir);
+        keys
+    })
+}
+
+fn check_workbook_finite(path: &std::path::Path) -> Result<(), String> {
+    use calamine::{Data, Reader, Xlsx, open_workbook};
+    let mut wb: Xlsx<_> =
+        open_workbook(path).map_err(|e| format!("annotated copy unreadable: {e}"))?;
+    for name in wb.sheet_names() {
+        let range = wb.worksheet_range(&name).map_err(|e| e.to_string())?;
+        for (r, c, d) in range.used_cells() {
+            let bad = match d {
+                Data::Float(x) => !x.is_finite(),
+                Data::String(t) => {
+                    matches!(t.trim().to_lowercase().as_str(), "inf" | "-inf" | "nan")
+                }
+                _ => false,
+            };
+            if bad {
+                return Err(format!("annotated copy {name} row {r} col {c} holds {d:?}"));
+            }
+        }
+    }
+    Ok(())
+}
+
+#[test]
+fn bad_input_corpus() {
+    let cases = cases();
+    assert!(
+        cases.len() >= 40,
+        "the corpus must hold at least 40 cases, has {}",
+        cases.len()
+    );
+    let names: std::collections::HashSet<_> = cases.iter().map(|c| c.name).collect();
+    assert_eq!(names.len(), cases.len(), "case names must be unique");
+    let failures: Vec<String> = cases
+        .iter()
+        .filter_map(|c| check(c).err().map(|e| format!("[{}] {e}", c.name)))
+        .collect();
+    assert!(
+        failures.is_empty(),
+        "{} of {} cases failed:\n\n{}",
+        failures.len(),
+        cases.len(),
+        failures.join("\n\n")
+    );
+}
+
+#[test]
+fn missing_input_and_directory_input_are_refused() {
+    let dir = support::temp_dir("missing");
+    let missing = dir.join("nope.xlsx");
+    let out = support::run(&[OsStr::new("audit"), missing.as_os_str()]);
+    assert_eq!(out.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("nope.xlsx") && !err.contains("panicked"),
+        "{err}"
+    );
+    let sub = dir.join("folder.xlsx");
+    std::fs::create_dir(&sub).unwrap();
+    let out = support::run(&[OsStr::new("audit"), sub.as_os_str()]);
+    assert_eq!(out.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("folder.xlsx") && !err.contains("panicked"),
+        "{err}"
+    );
+    assert_eq!(support::entries(&dir), ["folder.xlsx"]);
+}
