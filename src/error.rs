@@ -74,7 +74,9 @@ pub fn column_letters(col: u32) -> String {
 }
 
 /// How serious a diagnostic or finding is.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize, serde::Deserialize)]
+#[derive(
+    Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize, serde::Deserialize,
+)]
 #[serde(rename_all = "kebab-case")]
 pub enum Severity {
     /// Worth knowing; no action needed.

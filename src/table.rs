@@ -103,7 +103,12 @@ pub fn run_hydraulics(runs: &DataFrame, lines: &DataFrame) -> PolarsResult<DataF
 }
 
 /// A frame of per-item head losses (line, head, low, high).
-pub fn heads_frame(lines: Vec<&str>, head: Vec<f64>, low: Vec<f64>, high: Vec<f64>) -> PolarsResult<DataFrame> {
+pub fn heads_frame(
+    lines: Vec<&str>,
+    head: Vec<f64>,
+    low: Vec<f64>,
+    high: Vec<f64>,
+) -> PolarsResult<DataFrame> {
     df!(col::LINE => lines, col::HEAD => head, col::HEAD_LOW => low, col::HEAD_HIGH => high)
 }
 
@@ -131,12 +136,21 @@ pub struct LineTotals {
 /// The eager group-by aggregations are marked deprecated in favour of the lazy API; the lazy
 /// engine would multiply build time on small machines for four sums, so the eager ones are kept.
 #[allow(deprecated)]
-pub fn line_totals(runs: &DataFrame, fittings: &DataFrame) -> PolarsResult<Vec<(String, LineTotals)>> {
+pub fn line_totals(
+    runs: &DataFrame,
+    fittings: &DataFrame,
+) -> PolarsResult<Vec<(String, LineTotals)>> {
     let gb = runs.group_by_stable([col::LINE])?;
     let sums = gb.select([col::HEAD, col::LENGTH]).sum()?;
-    let maxes = runs.group_by_stable([col::LINE])?.select([col::VELOCITY]).max()?;
+    let maxes = runs
+        .group_by_stable([col::LINE])?
+        .select([col::VELOCITY])
+        .max()?;
     let per_run = sums.left_join(&maxes, [col::LINE], [col::LINE])?;
-    let fit = fittings.group_by_stable([col::LINE])?.select([col::HEAD, col::HEAD_LOW, col::HEAD_HIGH]).sum()?;
+    let fit = fittings
+        .group_by_stable([col::LINE])?
+        .select([col::HEAD, col::HEAD_LOW, col::HEAD_HIGH])
+        .sum()?;
     // Name the fitting sums apart before the join.
     let mut fit = fit;
     fit.rename(&format!("{}_sum", col::HEAD), "fit_head".into())?;
@@ -145,7 +159,12 @@ pub fn line_totals(runs: &DataFrame, fittings: &DataFrame) -> PolarsResult<Vec<(
     let all = per_run.left_join(&fit, [col::LINE], [col::LINE])?;
     let line = all.column(col::LINE)?.str()?;
     let get = |name: &str| -> PolarsResult<Vec<f64>> {
-        Ok(all.column(name)?.f64()?.iter().map(|v| v.unwrap_or(0.0)).collect())
+        Ok(all
+            .column(name)?
+            .f64()?
+            .iter()
+            .map(|v| v.unwrap_or(0.0))
+            .collect())
     };
     let head = get(&format!("{}_sum", col::HEAD))?;
     let length = get(&format!("{}_sum", col::LENGTH))?;

@@ -9,7 +9,10 @@ fn build(path: &std::path::Path) {
     let mut wb = Workbook::new();
     let ws = wb.add_worksheet();
     ws.set_name("Lines").unwrap();
-    for (c, h) in ["Line", "Service", "Flow [m3/h]", "Temperature [°C]"].iter().enumerate() {
+    for (c, h) in ["Line", "Service", "Flow [m3/h]", "Temperature [°C]"]
+        .iter()
+        .enumerate()
+    {
         ws.write_string(0, c as u16, *h).unwrap();
     }
     ws.write_string(1, 0, "WX-1").unwrap();
@@ -18,7 +21,18 @@ fn build(path: &std::path::Path) {
     ws.write_number(1, 3, 15.0).unwrap();
     let ws = wb.add_worksheet();
     ws.set_name("Pipes").unwrap();
-    for (c, h) in ["Line", "Seq", "Size", "Schedule", "Material", "Length [m]", "Roughness [mm]"].iter().enumerate() {
+    for (c, h) in [
+        "Line",
+        "Seq",
+        "Size",
+        "Schedule",
+        "Material",
+        "Length [m]",
+        "Roughness [mm]",
+    ]
+    .iter()
+    .enumerate()
+    {
         ws.write_string(0, c as u16, *h).unwrap();
     }
     for (r, (size, len)) in [("DN100", 12.0), ("DN150", 30.0)].iter().enumerate() {
@@ -33,10 +47,16 @@ fn build(path: &std::path::Path) {
     }
     let ws = wb.add_worksheet();
     ws.set_name("Fittings").unwrap();
-    for (c, h) in ["Tag", "Line", "Item", "Size", "Size out"].iter().enumerate() {
+    for (c, h) in ["Tag", "Line", "Item", "Size", "Size out"]
+        .iter()
+        .enumerate()
+    {
         ws.write_string(0, c as u16, *h).unwrap();
     }
-    for (c, v) in ["WX-1-X", "WX-1", "sudden expansion", "DN100", "DN150"].iter().enumerate() {
+    for (c, v) in ["WX-1-X", "WX-1", "sudden expansion", "DN100", "DN150"]
+        .iter()
+        .enumerate()
+    {
         ws.write_string(1, c as u16, *v).unwrap();
     }
     wb.save(path).unwrap();
@@ -44,7 +64,10 @@ fn build(path: &std::path::Path) {
 
 fn close(actual: f64, expected: f64, what: &str) {
     let rel = (actual - expected).abs() / expected.abs();
-    assert!(rel < 1e-3, "{what}: {actual} vs hand-worked {expected} (rel {rel:.2e})");
+    assert!(
+        rel < 1e-3,
+        "{what}: {actual} vs hand-worked {expected} (rel {rel:.2e})"
+    );
 }
 
 #[test]
