@@ -22,7 +22,6 @@ struct Fmt {
     n3: Format,
     pct: Format,
     wrap: Format,
-    link: Format,
     bad: Format,
     good: Format,
 }
@@ -42,9 +41,6 @@ impl Fmt {
             n3: Format::new().set_num_format("0.000"),
             pct: Format::new().set_num_format("0.0%"),
             wrap: Format::new().set_text_wrap().set_align(FormatAlign::Top),
-            link: Format::new()
-                .set_font_color(Color::RGB(0x1F4E79))
-                .set_underline(rust_xlsxwriter::FormatUnderline::Single),
             bad: Format::new()
                 .set_bold()
                 .set_background_color(Color::RGB(0xEFB1AB)),
@@ -56,6 +52,15 @@ impl Fmt {
 fn opt(ws: &mut Worksheet, r: u32, c: u16, v: Option<f64>, f: &Format) -> Result<(), XlsxError> {
     match v.filter(|x| x.is_finite()) {
         Some(x) => ws.write_number_with_format(r, c, x, f).map(|_| ()),
+        None => Ok(()),
+    }
+}
+
+/// A number in a column whose format was set once with `set_column_format` (no per-cell format
+/// lookup: the ranking sheet has a row per fitting).
+fn num(ws: &mut Worksheet, r: u32, c: u16, v: Option<f64>) -> Result<(), XlsxError> {
+    match v.filter(|x| x.is_finite()) {
+        Some(x) => ws.write_number(r, c, x).map(|_| ()),
         None => Ok(()),
     }
 }
@@ -137,16 +142,27 @@ pub fn write_ranking(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(
     ])
     .chain(["Payback [years]", "Cell"].iter().map(|s| s.to_string()))
     .collect();
-    let hr = 4u32;
+    // The chart of the worst items sits above the table (rows 3–22), where it is seen first.
+    let hr = 24u32;
     for (c, h) in headers.iter().enumerate() {
         ws.write_string_with_format(hr, c as u16, h, &st.header)?;
     }
     ws.set_row_height(hr, 45)?;
+    for (cols, fmt) in [
+        (&[0u16, 14, 15][..], &st.n0),
+        (&[8, 9, 10, 11, 12, 13, 23][..], &st.n3),
+        (&[16, 17, 18, 24, 25, 26][..], &st.n2),
+        (&[19, 20][..], &st.pct),
+    ] {
+        for &c in cols {
+            ws.set_column_format(c, fmt)?;
+        }
+    }
     let items = ranked(audit);
     for (i, f) in items.iter().enumerate() {
         let r = hr + 1 + i as u32;
         let rk = f.ranking;
-        opt(ws, r, 0, f.rank.map(|x| x as f64), &st.n0)?;
+        num(ws, r, 0, f.rank.map(|x| x as f64))?;
         if let Some(k) = rk {
             ws.write_string(r, 1, format!("{}–{}", k.best, k.worst))?;
             ws.write_string_with_format(
@@ -171,8 +187,8 @@ pub fn write_ranking(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(
         ] {
             opt(ws, r, c, Some(v), &st.n3)?;
         }
-        opt(ws, r, 14, f.power_loss_w, &st.n0)?;
-        opt(ws, r, 15, f.annual_energy_kwh, &st.n0)?;
+        num(ws, r, 14, f.power_loss_w)?;
+        num(ws, r, 15, f.annual_energy_kwh)?;
         let scale = |h: f64| {
             if f.head_m > 0.0 {
                 f.annual_cost.map(|c| c * h / f.head_m)
@@ -180,12 +196,12 @@ pub fn write_ranking(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(
                 f.annual_cost
             }
         };
-        opt(ws, r, 16, f.annual_cost, &st.n2)?;
-        opt(ws, r, 17, scale(f.head_low_m), &st.n2)?;
-        opt(ws, r, 18, scale(f.head_high_m), &st.n2)?;
+        num(ws, r, 16, f.annual_cost)?;
+        num(ws, r, 17, scale(f.head_low_m))?;
+        num(ws, r, 18, scale(f.head_high_m))?;
         if let Some(k) = rk {
-            opt(ws, r, 19, Some(k.share), &st.pct)?;
-            opt(ws, r, 20, Some(k.cumulative_share), &st.pct)?;
+            num(ws, r, 19, Some(k.share))?;
+            num(ws, r, 20, Some(k.cumulative_share))?;
             ws.write_string(
                 r,
                 21,
@@ -198,14 +214,13 @@ pub fn write_ranking(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(
         }
         if let Some(s) = &f.suggestion {
             ws.write_string(r, 22, &s.replace_with)?;
-            opt(ws, r, 23, Some(s.k_after), &st.n3)?;
-            opt(ws, r, 24, s.annual_saving, &st.n2)?;
-            opt(ws, r, 26, s.payback_years, &st.n2)?;
+            num(ws, r, 23, Some(s.k_after))?;
+            num(ws, r, 24, s.annual_saving)?;
+            num(ws, r, 26, s.payback_years)?;
         }
-        opt(ws, r, 25, f.replacement_cost, &st.n2)?;
+        num(ws, r, 25, f.replacement_cost)?;
         let target = format!("internal:{}!{}", quote_sheet(&f.cell.sheet), f.cell.a1());
         ws.write_url_with_text(r, 27, Url::new(target), f.cell.to_string())?;
-        ws.set_cell_format(r, 27, &st.link)?;
     }
     ws.set_column_width(0, 6)?;
     for c in 1..headers.len() as u16 {
@@ -267,7 +282,7 @@ pub fn write_ranking(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(
             .set_max(1.0)
             .set_min(0.0);
         bars.set_width(900).set_height(380);
-        ws.insert_chart(hr + 2 + items.len() as u32, 3, &bars)?;
+        ws.insert_chart(3, 3, &bars)?;
     }
     Ok(())
 }
