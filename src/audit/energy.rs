@@ -272,8 +272,12 @@ pub fn is_pumped(service: Service) -> bool {
 
 /// Energy basis of a line: efficiency from the Lines row, else its system's row, else the rules;
 /// hours from the Lines row, else the rules.
-fn line_basis(input: &Input, rules: &Rules, line: &LineResult) -> (EnergyBasis, &'static str) {
-    let row = input.lines.iter().find(|l| l.line == line.line);
+fn line_basis(
+    input: &Input,
+    rules: &Rules,
+    line: &LineResult,
+    row: Option<&crate::ingest::LineRow>,
+) -> (EnergyBasis, &'static str) {
     let system = input.systems.iter().find(|s| {
         s.lines.contains(&line.line)
             || row.and_then(|r| r.system.as_deref()) == Some(s.system.as_str())
@@ -444,9 +448,11 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
     let co2 = rules.energy.kg_co2_per_kwh > 0.0;
     let mut co2_total = 0.0;
     let mut bases: Vec<Option<EnergyBasis>> = Vec::with_capacity(audit.lines.len());
+    let rows: std::collections::HashMap<&str, &crate::ingest::LineRow> =
+        input.lines.iter().map(|l| (l.line.as_str(), l)).collect();
     for line in &mut audit.lines {
         let pumped = is_pumped(line.service);
-        let (basis, from) = line_basis(input, rules, line);
+        let (basis, from) = line_basis(input, rules, line, rows.get(line.line.as_str()).copied());
         line.hours_per_year = Some(basis.hours_per_year);
         line.power_loss_w = Some(line.total_dp_pa * line.flow_m3_s);
         if pumped && let Some(e) = loss_energy(line.total_dp_pa, line.flow_m3_s, &basis) {
@@ -468,11 +474,7 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
 
     let mut items = Vec::with_capacity(audit.fittings.len());
     for fi in 0..audit.fittings.len() {
-        let Some(li) = audit
-            .lines
-            .iter()
-            .position(|l| l.line == audit.fittings[fi].line)
-        else {
+        let Some(li) = audit.line_of(&audit.fittings[fi].line) else {
             items.push(RankItem {
                 energy_kwh: None,
                 head_m: (0.0, 0.0, 0.0),
@@ -531,7 +533,7 @@ fn throttled_valves(
         if f.eval.kind.group != Group::Valve || opening >= rules.valve.min_opening {
             continue;
         }
-        let Some(li) = audit.lines.iter().position(|l| l.line == f.line) else {
+        let Some(li) = audit.line_of(&f.line) else {
             continue;
         };
         let line = &audit.lines[li];
@@ -570,7 +572,7 @@ fn throttled_valves(
     }
     for (line, tag, cell, message) in found {
         super::findings::push(
-            audit,
+            &mut audit.findings,
             Severity::Warning,
             "throttled-valve",
             &line,

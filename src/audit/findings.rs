@@ -82,7 +82,7 @@ pub const CODES: &[(&str, &str)] = &[
 /// Add a finding about a line (and optionally a fitting tag) at a cell.
 #[allow(clippy::too_many_arguments)]
 pub(crate) fn push(
-    audit: &mut Audit,
+    found: &mut Vec<Finding>,
     severity: Severity,
     code: &'static str,
     line: &str,
@@ -91,7 +91,7 @@ pub(crate) fn push(
     message: String,
     action: &str,
 ) {
-    audit.findings.push(Finding {
+    found.push(Finding {
         severity,
         code,
         line: Some(line.to_string()),
@@ -102,33 +102,26 @@ pub(crate) fn push(
     });
 }
 
-fn col(input: &Input, table: TableKind, key: &str) -> Option<u32> {
-    input
-        .layout(table)
-        .and_then(|l| l.column(key))
-        .map(|c| c.col)
-}
-
 /// Raise the rule findings and sort all findings (worst first, then by cell).
 pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
-    let size_col = col(input, TableKind::Pipes, "size")
-        .or(col(input, TableKind::Pipes, "inner_diameter"))
-        .unwrap_or(0);
-    let flow_col = col(input, TableKind::Lines, "flow").unwrap_or(0);
-    let lines = audit.lines.clone();
-    for line in &lines {
+    let size_col = |sheet: &str| {
+        input
+            .layout_on(TableKind::Pipes, sheet)
+            .and_then(|l| l.column("size").or(l.column("inner_diameter")))
+            .map_or(0, |c| c.col)
+    };
+    let mut found = Vec::new();
+    let lines = &audit.lines;
+    for line in lines {
         if line.flow_m3_s == 0.0 {
-            let cell = match line.row {
-                Some(r) => CellRef::new(TableKind::Lines.sheet_name(), r, flow_col),
-                None => audit.runs[line.runs[0]].cell.clone(),
+            let cell = match (&line.sheet, line.row) {
+                (Some(sheet), Some(r)) => {
+                    CellRef::new(sheet, r, input.column_of(TableKind::Lines, sheet, "flow"))
+                }
+                _ => audit.runs[line.runs[0]].cell.clone(),
             };
-            let cell = input
-                .layout(TableKind::Lines)
-                .filter(|_| line.row.is_some())
-                .map(|l| CellRef::new(&l.sheet, cell.row, cell.col))
-                .unwrap_or(cell);
             push(
-                audit,
+                &mut found,
                 Severity::Info,
                 "zero-flow",
                 &line.line,
@@ -141,14 +134,14 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
         }
         let band = rules.band(line.service);
         for &i in &line.runs {
-            let run = audit.runs[i].clone();
-            let cell = CellRef::new(&run.cell.sheet, run.row, size_col);
+            let run = &audit.runs[i];
+            let cell = CellRef::new(&run.cell.sheet, run.row, size_col(&run.cell.sheet));
             let v = run.velocity_m_s;
             if let Some(max) = band.max_m_s
                 && v > max
             {
                 push(
-                    audit,
+                    &mut found,
                     Severity::Warning,
                     "velocity-high",
                     &line.line,
@@ -165,7 +158,7 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
                 && v < min
             {
                 push(
-                    audit,
+                    &mut found,
                     Severity::Warning,
                     "velocity-low",
                     &line.line,
@@ -185,7 +178,7 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
             let gradient = run.head_m / run.length_m * 100.0;
             if gradient > rules.gradient.max_m_per_100m {
                 push(
-                    audit,
+                    &mut found,
                     Severity::Warning,
                     "steep-gradient",
                     &line.line,
@@ -200,7 +193,7 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
             }
             if run.regime == Regime::Transition {
                 push(
-                    audit,
+                    &mut found,
                     Severity::Info,
                     "transition-regime",
                     &line.line,
@@ -233,9 +226,9 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
             s.as_ref().and_then(super::lines::size_key)
         };
         if key(&f.size).is_some() && key(&f.size) == key(&f.size_out) {
-            let c = col(input, TableKind::Fittings, "size_out").unwrap_or(0);
+            let c = input.column_of(TableKind::Fittings, &f.origin.sheet, "size_out");
             push(
-                audit,
+                &mut found,
                 Severity::Warning,
                 "same-size-reducer",
                 &f.line,
@@ -250,9 +243,8 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
             );
         }
     }
-    let fittings = audit.fittings.clone();
-    for f in &fittings {
-        let Some(line) = lines.iter().find(|l| l.line == f.line) else {
+    for f in &audit.fittings {
+        let Some(line) = audit.line_of(&f.line).map(|i| &lines[i]) else {
             continue;
         };
         let share = if line.total_head_m > 0.0 {
@@ -276,7 +268,7 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
                 why.push(format!("K {:.2} is above {:.2}", f.k, rules.fitting.max_k));
             }
             push(
-                audit,
+                &mut found,
                 Severity::Warning,
                 "high-loss-fitting",
                 &f.line,
@@ -293,6 +285,7 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
             );
         }
     }
+    audit.findings.extend(found);
     sort(&mut audit.findings);
 }
 
@@ -308,7 +301,7 @@ pub fn sort(findings: &mut [Finding]) {
 
 /// A fitting whose size matches no run of its line.
 pub fn size_mismatch(input: &Input, audit: &mut Audit, f: &FittingRow, run: usize) {
-    let c = col(input, TableKind::Fittings, "size").unwrap_or(0);
+    let c = input.column_of(TableKind::Fittings, &f.origin.sheet, "size");
     let cell = CellRef::new(&f.origin.sheet, f.origin.row, c);
     let run_cell = audit.runs[run].cell.clone();
     let what = if f.size.is_some() {
@@ -317,7 +310,7 @@ pub fn size_mismatch(input: &Input, audit: &mut Audit, f: &FittingRow, run: usiz
         "it has no size and line has runs of several sizes:"
     };
     push(
-        audit,
+        &mut audit.findings,
         Severity::Warning,
         "size-mismatch",
         &f.line,
@@ -334,10 +327,10 @@ pub fn size_mismatch(input: &Input, audit: &mut Audit, f: &FittingRow, run: usiz
 
 /// A closed valve on a line that carries flow.
 pub fn closed_valve(input: &Input, audit: &mut Audit, f: &FittingRow) {
-    let c = col(input, TableKind::Fittings, "opening").unwrap_or(0);
+    let c = input.column_of(TableKind::Fittings, &f.origin.sheet, "opening");
     let cell = CellRef::new(&f.origin.sheet, f.origin.row, c);
     push(
-        audit,
+        &mut audit.findings,
         Severity::Error,
         "valve-closed",
         &f.line,

@@ -38,6 +38,7 @@ pub fn size_key(size: &SizeSpec) -> Option<SizeKey> {
 struct LineState {
     service: Service,
     row: Option<u32>,
+    sheet: String,
     flow_m3_s: f64,
     fluid: String,
     temperature_c: f64,
@@ -52,13 +53,7 @@ struct Ctx<'a> {
 
 impl Ctx<'_> {
     fn cell(&self, table: TableKind, sheet: &str, row: u32, key: &str) -> CellRef {
-        let col = self
-            .input
-            .layout_on(table, sheet)
-            .and_then(|l| l.column(key))
-            .map(|c| c.col)
-            .unwrap_or(0);
-        CellRef::new(sheet, row, col)
+        CellRef::new(sheet, row, self.input.column_of(table, sheet, key))
     }
 
     fn error(&mut self, cell: CellRef, message: String, hint: Option<String>) {
@@ -128,6 +123,7 @@ fn line_states(
                     LineState {
                         service,
                         row,
+                        sheet: sheet.to_string(),
                         flow_m3_s: flow,
                         fluid: fluid_name.to_string(),
                         temperature_c: t,
@@ -161,11 +157,11 @@ fn line_states(
             l.elevation_change_m.unwrap_or(0.0),
         );
     }
+    let mut seen: std::collections::HashSet<&str> =
+        input.lines.iter().map(|l| l.line.as_str()).collect();
     let mut implicit: Vec<&PipeRow> = Vec::new();
     for p in &input.pipes {
-        if !input.lines.iter().any(|l| l.line == p.line)
-            && !implicit.iter().any(|q| q.line == p.line)
-        {
+        if seen.insert(p.line.as_str()) {
             implicit.push(p);
         }
     }
@@ -622,6 +618,7 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
             line: l.clone(),
             service: s.service,
             row: s.row,
+            sheet: s.row.map(|_| s.sheet.clone()),
             flow_m3_s: s.flow_m3_s,
             fluid: s.fluid.clone(),
             temperature_c: s.temperature_c,
@@ -642,6 +639,7 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
             total_dp_pa: total * s.props.density_kg_m3 * G,
             max_velocity_m_s: t.max_velocity_m_s,
             runs: run_index.get(l.as_str()).cloned().unwrap_or_default(),
+            fittings: Vec::new(),
             power_loss_w: None,
             annual_energy_kwh: None,
             annual_cost: None,
@@ -653,7 +651,18 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
     }
     kinds_used.sort_unstable();
 
+    let line_index: HashMap<String, usize> = lines
+        .iter()
+        .enumerate()
+        .map(|(i, l)| (l.line.clone(), i))
+        .collect();
+    for (i, f) in fittings.iter().enumerate() {
+        if let Some(&li) = line_index.get(&f.line) {
+            lines[li].fittings.push(i);
+        }
+    }
     let mut audit = Audit {
+        line_index,
         lines,
         runs,
         fittings,
@@ -851,10 +860,10 @@ pub fn line_heads_at(audit: &Audit, line: &LineResult, flow_m3_s: f64) -> LineHe
         friction_head_m +=
             run_friction(d, r.length_m, r.roughness_m, r.c_factor, flow_m3_s, v, re).head_m;
     }
-    let fittings_head_m: f64 = audit
+    let fittings_head_m: f64 = line
         .fittings
         .iter()
-        .filter(|f| f.line == line.line)
+        .map(|&i| &audit.fittings[i])
         .filter_map(|f| fitting_at(&f.eval, flow_m3_s, rho, mu).ok())
         .map(|h| h.head_m)
         .sum();

@@ -139,6 +139,9 @@ pub struct LineResult {
     /// The Lines row the line came from (None when only Pipes names it).
     #[serde(skip)]
     pub row: Option<u32>,
+    /// The Lines sheet that row is on.
+    #[serde(skip)]
+    pub sheet: Option<String>,
     /// Flow, m³/s.
     pub flow_m3_s: f64,
     /// Fluid name.
@@ -174,6 +177,9 @@ pub struct LineResult {
     /// Runs of the line, in order (indices into [`Audit::runs`]).
     #[serde(skip)]
     pub runs: Vec<usize>,
+    /// Fittings of the line, in input order (indices into [`Audit::fittings`]).
+    #[serde(skip)]
+    pub fittings: Vec<usize>,
     /// Hydraulic power dissipated by the line's losses, W (Δp·Q); filled by the energy review.
     pub power_loss_w: Option<f64>,
     /// Electrical energy per year the losses cost the pump, kWh (None on gravity lines).
@@ -229,9 +235,16 @@ pub struct Audit {
     pub energy: energy::EnergySummary,
     /// Pumped systems: required head, pump head, NPSH, system curve.
     pub systems: Vec<system::SystemResult>,
+    /// Line id → index into [`Audit::lines`].
+    pub line_index: std::collections::HashMap<String, usize>,
 }
 
 impl Audit {
+    /// The index of a line in [`Audit::lines`].
+    pub fn line_of(&self, id: &str) -> Option<usize> {
+        self.line_index.get(id).copied()
+    }
+
     /// Count of findings of a severity.
     pub fn count(&self, severity: Severity) -> usize {
         self.findings

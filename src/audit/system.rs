@@ -219,14 +219,6 @@ pub fn required_head_at(audit: &Audit, lines: &[usize], static_head_m: f64, frac
             .sum::<f64>()
 }
 
-fn col(input: &Input, table: TableKind, key: &str) -> u32 {
-    input
-        .layout(table)
-        .and_then(|l| l.column(key))
-        .map(|c| c.col)
-        .unwrap_or(0)
-}
-
 /// The systems named in the input: Systems rows, then ids only the Lines sheet names.
 fn definitions(input: &Input) -> Vec<(String, Vec<String>, Option<&SystemRow>)> {
     let from_lines = |id: &str| -> Vec<String> {
@@ -268,7 +260,7 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
         let mut notes = Vec::new();
         let mut idx = Vec::new();
         for n in &names {
-            match audit.lines.iter().position(|l| l.line == *n) {
+            match audit.line_of(n) {
                 Some(i) => idx.push(i),
                 None => notes.push(format!(
                     "line {n} is not among the audited lines: left out of the system's head"
@@ -280,7 +272,7 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
                 CellRef::new(
                     &r.origin.sheet,
                     r.origin.row,
-                    col(input, TableKind::Systems, key),
+                    input.column_of(TableKind::Systems, &r.origin.sheet, key),
                 )
             })
         };
@@ -292,7 +284,7 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
             Some(CellRef::new(
                 &first.origin.sheet,
                 first.origin.row,
-                col(input, TableKind::Lines, "system"),
+                input.column_of(TableKind::Lines, &first.origin.sheet, "system"),
             ))
         };
         let duty = idx
@@ -514,10 +506,10 @@ fn suction_layout(
 ) {
     let Some(&last) = suction.last() else { return };
     let line = &audit.lines[last];
-    let at_pump = audit
+    let at_pump = line
         .fittings
         .iter()
-        .filter(|f| f.line == line.line)
+        .map(|&i| &audit.fittings[i])
         .max_by_key(|f| (f.cell.sheet.clone(), f.row));
     if let Some(f) = at_pump {
         let group = f.eval.kind.group;
@@ -554,7 +546,6 @@ fn suction_layout(
     {
         runs.push(next);
     }
-    let size_col = col(input, TableKind::Pipes, "size");
     for w in runs.windows(2) {
         let (a, b) = (&audit.runs[w[0]], &audit.runs[w[1]]);
         let a_is_suction = suction.iter().any(|&i| audit.lines[i].line == a.line);
@@ -564,7 +555,7 @@ fn suction_layout(
                 code: "suction-layout",
                 line: Some(a.line.clone()),
                 tag: None,
-                cell: Some(CellRef::new(&a.cell.sheet, a.row, size_col)),
+                cell: Some(CellRef::new(&a.cell.sheet, a.row, input.column_of(TableKind::Pipes, &a.cell.sheet, "size"))),
                 message: format!(
                     "suction run of line {} has a bore of {:.1} mm, smaller than the {:.1} mm of the run after it (line {})",
                     a.line,

@@ -147,6 +147,14 @@ impl Input {
             .or_else(|| self.layout(table))
     }
 
+    /// The zero-based column of a canonical column in the table on `sheet` (the first table of
+    /// that kind when the sheet has none); 0 when the column is absent.
+    pub fn column_of(&self, table: TableKind, sheet: &str, key: &str) -> u32 {
+        self.layout_on(table, sheet)
+            .and_then(|l| l.column(key))
+            .map_or(0, |c| c.col)
+    }
+
     /// The file a sheet came from.
     pub fn file_of(&self, sheet: &str) -> &str {
         self.sources

@@ -518,12 +518,8 @@ fn computed_columns(
             ]
         }
         TableKind::Lines => {
-            let here = |l: &crate::audit::LineResult| {
-                input
-                    .lines
-                    .iter()
-                    .any(|x| x.line == l.line && x.origin.sheet == layout.sheet)
-            };
+            let here =
+                |l: &crate::audit::LineResult| l.sheet.as_deref() == Some(layout.sheet.as_str());
             let ls: Vec<_> = audit
                 .lines
                 .iter()
