@@ -3,6 +3,7 @@
 pub mod console;
 pub mod json;
 pub mod ranking;
+mod style;
 pub mod workbook;
 
 use std::path::{Path, PathBuf};

@@ -1,10 +1,10 @@
 //! The `Fitting ranking` and `Systems` sheets, and the energy block of `Summary`.
 
 use rust_xlsxwriter::{
-    Chart, ChartMarker, ChartMarkerType, ChartType, Color, Format, FormatAlign, Url, Worksheet,
-    XlsxError,
+    Chart, ChartMarker, ChartMarkerType, ChartType, Format, Url, Worksheet, XlsxError,
 };
 
+use super::style::{MAX_CELL_CHARS, Styles, truncate};
 use crate::audit::energy::{RankBasis, SAVINGS_CAUTION};
 use crate::audit::system::SystemResult;
 use crate::audit::{Audit, FittingResult};
@@ -12,42 +12,6 @@ use crate::error::quote_sheet;
 
 /// Number of items in the ranking chart.
 pub const CHART_ITEMS: usize = 20;
-
-struct Fmt {
-    title: Format,
-    bold: Format,
-    header: Format,
-    n0: Format,
-    n2: Format,
-    n3: Format,
-    pct: Format,
-    wrap: Format,
-    bad: Format,
-    good: Format,
-}
-
-impl Fmt {
-    fn new() -> Self {
-        Fmt {
-            title: Format::new().set_bold().set_font_size(14),
-            bold: Format::new().set_bold(),
-            header: Format::new()
-                .set_bold()
-                .set_font_color(Color::RGB(0xFFFFFF))
-                .set_background_color(Color::RGB(0x34495E))
-                .set_align(FormatAlign::Center),
-            n0: Format::new().set_num_format("#,##0"),
-            n2: Format::new().set_num_format("#,##0.00"),
-            n3: Format::new().set_num_format("0.000"),
-            pct: Format::new().set_num_format("0.0%"),
-            wrap: Format::new().set_text_wrap().set_align(FormatAlign::Top),
-            bad: Format::new()
-                .set_bold()
-                .set_background_color(Color::RGB(0xEFB1AB)),
-            good: Format::new().set_background_color(Color::RGB(0xDCE8F0)),
-        }
-    }
-}
 
 fn opt(ws: &mut Worksheet, r: u32, c: u16, v: Option<f64>, f: &Format) -> Result<(), XlsxError> {
     match v.filter(|x| x.is_finite()) {
@@ -82,7 +46,7 @@ pub fn ranked(audit: &Audit) -> Vec<&FittingResult> {
 
 /// Write the `Fitting ranking` sheet, with a bar-and-line chart of the worst items.
 pub fn write_ranking(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(), XlsxError> {
-    let st = Fmt::new();
+    let st = Styles::new();
     let cur = &audit.energy.currency;
     ws.write_string_with_format(
         0,
@@ -293,7 +257,7 @@ fn m3h(q: f64) -> f64 {
 
 /// Write the `Systems` sheet: one block per system with its figures, curve table and chart.
 pub fn write_systems(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(), XlsxError> {
-    let st = Fmt::new();
+    let st = Styles::new();
     ws.write_string_with_format(
         0,
         0,
@@ -325,7 +289,7 @@ fn write_system(
     sheet: &str,
     s: &SystemResult,
     start: u32,
-    st: &Fmt,
+    st: &Styles,
 ) -> Result<u32, XlsxError> {
     let mut r = start;
     let verdict = match (s.fails_duty, s.fails_npsh) {
@@ -375,7 +339,7 @@ fn write_system(
         Ok(())
     };
     ws.write_string_with_format(r, 0, "Lines (suction first)", &st.bold)?;
-    ws.write_string(r, 1, s.lines.join(", "))?;
+    ws.write_string(r, 1, truncate(&s.lines.join(", "), MAX_CELL_CHARS))?;
     r += 1;
     num_row(ws, &mut r, "Duty flow [m3/h]", Some(m3h(s.flow_m3_s)), "")?;
     num_row(
@@ -516,7 +480,7 @@ pub fn write_summary_block(
     audit: &Audit,
     start: u32,
 ) -> Result<u32, XlsxError> {
-    let st = Fmt::new();
+    let st = Styles::new();
     let cur = &audit.energy.currency;
     let mut r = start;
     ws.write_string_with_format(r, 0, format!("Annual cost of losses [{cur}]"), &st.bold)?;

@@ -3,68 +3,17 @@
 
 use calamine::Data;
 use rust_xlsxwriter::{
-    Color, DocProperties, ExcelDateTime, Format, FormatAlign, FormatBorder, Formula, Note, Table,
-    TableColumn, Workbook, Worksheet, XlsxError,
+    DocProperties, ExcelDateTime, Format, Formula, Note, Table, TableColumn, Workbook, Worksheet,
+    XlsxError,
 };
 use std::collections::{BTreeMap, HashSet};
 
 use super::console::{UnitSystem, header_in};
+use super::style::{MAX_CELL_CHARS, Styles, truncate};
 use crate::audit::Audit;
 use crate::error::{Severity, quote_sheet};
 use crate::ingest::{Input, Layout, SheetGrid, TableKind};
 use crate::physics::fitting;
-
-/// Palette of our own: deep slate for computed headers, soft tints for severities.
-struct Styles {
-    title: Format,
-    bold: Format,
-    computed_header: Format,
-    number: Format,
-    number3: Format,
-    wrap: Format,
-    severity: [Format; 3],
-    assumed: Format,
-    link: Format,
-    date: Format,
-    units: UnitSystem,
-}
-
-impl Styles {
-    fn new() -> Self {
-        let sev = |c: u32| {
-            Format::new()
-                .set_background_color(Color::RGB(c))
-                .set_border(FormatBorder::Thin)
-                .set_border_color(Color::RGB(0x7A7A7A))
-        };
-        Styles {
-            title: Format::new().set_bold().set_font_size(14),
-            bold: Format::new().set_bold(),
-            computed_header: Format::new()
-                .set_bold()
-                .set_font_color(Color::RGB(0xFFFFFF))
-                .set_background_color(Color::RGB(0x34495E))
-                .set_align(FormatAlign::Center),
-            number: Format::new().set_num_format("0.00"),
-            number3: Format::new().set_num_format("0.000"),
-            wrap: Format::new().set_text_wrap().set_align(FormatAlign::Top),
-            severity: [sev(0xDCE8F0), sev(0xF7E1A1), sev(0xEFB1AB)],
-            assumed: Format::new()
-                .set_italic()
-                .set_background_color(Color::RGB(0xEDEDED))
-                .set_font_color(Color::RGB(0x555555)),
-            link: Format::new()
-                .set_font_color(Color::RGB(0x1F4E79))
-                .set_underline(rust_xlsxwriter::FormatUnderline::Single),
-            date: Format::new().set_num_format("yyyy-mm-dd hh:mm"),
-            units: UnitSystem::Si,
-        }
-    }
-
-    fn severity(&self, s: Severity) -> &Format {
-        &self.severity[s as usize]
-    }
-}
 
 /// Deflate level of the written workbook (1 fastest … 9 smallest).
 const ZIP_LEVEL: u8 = 2;
@@ -239,7 +188,7 @@ fn copy_sheet(
         })
     };
     // Computed cells by row, headers first.
-    let mut extra: BTreeMap<u32, Vec<(u16, &Value, Option<&Format>)>> = BTreeMap::new();
+    let mut extra: BTreeMap<u32, Vec<ComputedCell<'_>>> = BTreeMap::new();
     for block in computed {
         for (i, c) in block.columns.iter().enumerate() {
             let col = (block.first_col + i as u32) as u16;
@@ -248,12 +197,11 @@ fn copy_sheet(
                 .values
                 .iter()
                 .any(|(_, v)| matches!(v, Value::Num(_, true, _)));
-            ws.set_column_format(col, if three { &st.number3 } else { &st.number })?;
-            extra.entry(block.header_row).or_default().push((
-                col,
-                &c.header,
-                Some(&st.computed_header),
-            ));
+            ws.set_column_format(col, if three { &st.n3 } else { &st.n2 })?;
+            extra
+                .entry(block.header_row)
+                .or_default()
+                .push((col, &c.header, Some(&st.header)));
             for (row, v) in &c.values {
                 extra.entry(*row).or_default().push((col, v, None));
             }
@@ -396,23 +344,14 @@ fn error_formula(e: &calamine::CellErrorType) -> &'static str {
     }
 }
 
-/// Excel's limit on the characters in one cell; longer text (a message quoting a 32,767-character
-/// id) is cut with an ellipsis rather than failing the whole workbook.
-const MAX_CELL_CHARS: usize = 32_767;
-
-fn truncate(s: &str, max: usize) -> String {
-    if s.chars().count() <= max {
-        s.to_string()
-    } else {
-        s.chars().take(max - 1).chain(['…']).collect()
-    }
-}
-
 /// One computed column: header and a value per source row.
 struct Computed {
     header: &'static str,
     values: Vec<(u32, Value)>,
 }
+
+/// A computed cell placed in a row: column, value, and the header format for header cells.
+type ComputedCell<'a> = (u16, &'a Value, Option<&'a Format>);
 
 /// One computed column ready to write: header text (in the report's units) and values.
 struct ComputedColumn {
@@ -588,6 +527,8 @@ fn write_summary(
     audit: &Audit,
     st: &Styles,
 ) -> Result<(), XlsxError> {
+    // Printed on landscape pages one page wide, so the summary table is not cut at the margin.
+    ws.set_landscape().set_print_fit_to_pages(1, 0);
     ws.write_string_with_format(
         0,
         0,
@@ -638,7 +579,7 @@ fn write_summary(
     ];
     let converted: Vec<(String, f64)> = headers.iter().map(|h| header_in(h, st.units)).collect();
     for (c, (h, _)) in converted.iter().enumerate() {
-        ws.write_string_with_format(r, c as u16, h, &st.computed_header)?;
+        ws.write_string_with_format(r, c as u16, h, &st.header)?;
     }
     for l in &audit.lines {
         r += 1;
@@ -659,7 +600,7 @@ fn write_summary(
         .enumerate()
         {
             let factor = converted.get(c + 2).map_or(1.0, |(_, f)| *f);
-            ws.write_number_with_format(r, c as u16 + 2, v * factor, &st.number3)?;
+            ws.write_number_with_format(r, c as u16 + 2, v * factor, &st.n3)?;
         }
     }
     ws.set_column_width(0, 18)?;
@@ -670,6 +611,7 @@ fn write_summary(
 }
 
 fn write_findings(ws: &mut Worksheet, audit: &Audit, st: &Styles) -> Result<(), XlsxError> {
+    ws.set_landscape().set_print_fit_to_pages(1, 0);
     let headers = [
         "Severity", "Code", "Line", "Tag", "Cell", "Message", "Action",
     ];
