@@ -605,7 +605,7 @@ fn write_summary(
     }
     ws.set_column_width(0, 18)?;
     for c in 1..headers.len() as u16 {
-        ws.set_column_width(c, 13)?;
+        ws.set_column_width(c, 17)?;
     }
     Ok(())
 }
