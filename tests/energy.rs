@@ -2,65 +2,14 @@
 //! resolution, gravity lines, ranking (ties, no energy data, rank stability), payback,
 //! suggestions, `throttled-valve`, partial rules files and the JSON names.
 
+use lossledger::audit::Rules;
 use lossledger::audit::energy::{
     EnergyBasis, RankBasis, RankItem, loss_energy, payback_years, rank,
 };
-use lossledger::audit::{Audit, Rules};
-use rust_xlsxwriter::Workbook;
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
-/// One test sheet: name, headers, rows.
-type Sheet<'a> = (&'a str, &'a [&'a str], Vec<Vec<C>>);
-
-/// A cell of a test sheet.
-enum C {
-    S(&'static str),
-    N(f64),
-    E,
-}
-
-fn temp_path(name: &str) -> PathBuf {
-    let dir = std::env::temp_dir().join(format!("lossledger-energy-{}-{name}", std::process::id()));
-    std::fs::create_dir_all(&dir).unwrap();
-    dir.join(format!("{name}.xlsx"))
-}
-
-fn book(name: &str, sheets: &[Sheet<'_>]) -> PathBuf {
-    let mut wb = Workbook::new();
-    for (sheet, headers, rows) in sheets {
-        let ws = wb.add_worksheet();
-        ws.set_name(*sheet).unwrap();
-        for (c, h) in headers.iter().enumerate() {
-            ws.write_string(0, c as u16, *h).unwrap();
-        }
-        for (r, row) in rows.iter().enumerate() {
-            for (c, v) in row.iter().enumerate() {
-                match v {
-                    C::S(s) => {
-                        ws.write_string(r as u32 + 1, c as u16, *s).unwrap();
-                    }
-                    C::N(x) => {
-                        ws.write_number(r as u32 + 1, c as u16, *x).unwrap();
-                    }
-                    C::E => {}
-                }
-            }
-        }
-    }
-    let path = temp_path(name);
-    wb.save(&path).unwrap();
-    path
-}
-
-fn audit(path: &Path, rules: &Rules) -> Audit {
-    let input = lossledger::ingest::read_path(path).unwrap();
-    assert_eq!(input.error_count(), 0, "{:?}", input.diagnostics);
-    lossledger::audit::run(&input, rules).unwrap()
-}
-
-fn rel(a: f64, b: f64) -> f64 {
-    ((a - b) / b).abs()
-}
+mod common;
+use common::{C, audit, book, rel};
 
 // Source: docs/energy.md, worked example 1 (hand-worked, step by step).
 #[test]

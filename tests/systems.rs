@@ -2,63 +2,15 @@
 //! system curve recomputed per flow, the operating point, NPSH available at two temperatures
 //! against the iapws fixtures, the NPSH margin rule and the suction-layout checks.
 
+use lossledger::audit::Rules;
 use lossledger::audit::system::{CurvePoint, npsh_available, npsh_needed, operating_point};
-use lossledger::audit::{Audit, Rules};
 use lossledger::error::Severity;
-use rust_xlsxwriter::Workbook;
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
-/// One test sheet: name, headers, rows.
-type Sheet<'a> = (&'a str, &'a [&'a str], Vec<Vec<C>>);
+mod common;
+use common::{C, Sheet, audit, book, rel};
 
 const G: f64 = 9.80665;
-
-/// A cell of a test sheet.
-enum C {
-    S(&'static str),
-    N(f64),
-    E,
-}
-
-fn book(name: &str, sheets: &[Sheet<'_>]) -> PathBuf {
-    let dir =
-        std::env::temp_dir().join(format!("lossledger-systems-{}-{name}", std::process::id()));
-    std::fs::create_dir_all(&dir).unwrap();
-    let path = dir.join(format!("{name}.xlsx"));
-    let mut wb = Workbook::new();
-    for (sheet, headers, rows) in sheets {
-        let ws = wb.add_worksheet();
-        ws.set_name(*sheet).unwrap();
-        for (c, h) in headers.iter().enumerate() {
-            ws.write_string(0, c as u16, *h).unwrap();
-        }
-        for (r, row) in rows.iter().enumerate() {
-            for (c, v) in row.iter().enumerate() {
-                match v {
-                    C::S(s) => {
-                        ws.write_string(r as u32 + 1, c as u16, *s).unwrap();
-                    }
-                    C::N(x) => {
-                        ws.write_number(r as u32 + 1, c as u16, *x).unwrap();
-                    }
-                    C::E => {}
-                }
-            }
-        }
-    }
-    wb.save(&path).unwrap();
-    path
-}
-
-fn audit(path: &Path, rules: &Rules) -> Audit {
-    let input = lossledger::ingest::read_path(path).unwrap();
-    assert_eq!(input.error_count(), 0, "{:?}", input.diagnostics);
-    lossledger::audit::run(&input, rules).unwrap()
-}
-
-fn rel(a: f64, b: f64) -> f64 {
-    ((a - b) / b).abs()
-}
 
 fn two_line_book(name: &str) -> PathBuf {
     book(
