@@ -721,7 +721,7 @@ fn write_basis(
         ),
         (
             "Pipe bores",
-            "ASME B36.10M (carbon steel), ASME B36.19M (stainless); default schedule 40 (STD where 40 is not defined) for steel. 'Inner diameter' overrides.",
+            "ASME B36.10M (carbon and galvanised steel; default schedule 40, STD where 40 is not defined), ASME B36.19M (stainless; default 40S), ISO 4427-2 / ISO 1452-2 (PE, PVC-U by OD and SDR; no default SDR), EN 545 class K9 with ISO 4179 cement lining (ductile iron), EN 1057 and ASTM B88 (copper). 'Inner diameter' overrides; the bore used is in each run's 'Bore from' column.",
         ),
         ("Gravity", "g = 9.80665 m/s²"),
         (
