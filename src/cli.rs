@@ -333,10 +333,15 @@ pub fn audit_sources_to_files(
     rules: &Rules,
     units: report::console::UnitSystem,
 ) -> Result<audit::Audit, u8> {
+    let progress = progress("reading inputs");
+    // Messages go around the progress line so they never garble it.
+    macro_rules! say {
+        ($($t:tt)*) => { progress.suspend(|| eprintln!($($t)*)) };
+    }
     let input = match ingest::read_inputs(sources, options) {
         Ok(i) => i,
         Err(e) => {
-            eprintln!("error: {e}");
+            say!("error: {e}");
             return Err(2);
         }
     };
@@ -345,15 +350,16 @@ pub fn audit_sources_to_files(
         .iter()
         .filter(|d| d.severity != Severity::Error)
     {
-        eprintln!("{d}");
+        say!("{d}");
     }
+    progress.set_message("computing losses");
     let done = match audit::run(&input, rules) {
         Ok(a) => a,
         Err(errors) => {
             for d in &errors {
-                eprintln!("{d}");
+                say!("{d}");
             }
-            eprintln!(
+            say!(
                 "{} error(s) in {}; nothing was written",
                 errors.len(),
                 input.file
@@ -364,9 +370,9 @@ pub fn audit_sources_to_files(
     let overflow = non_finite_results(&input, &done);
     if !overflow.is_empty() {
         for d in &overflow {
-            eprintln!("{d}");
+            say!("{d}");
         }
-        eprintln!(
+        say!(
             "{} error(s) in {}; nothing was written",
             overflow.len(),
             input.file
@@ -377,19 +383,20 @@ pub fn audit_sources_to_files(
     inputs.extend(input.sources.iter().map(|s| s.path.clone()));
     if let Some(j) = json.filter(|j| *j != "-") {
         if let Err(e) = report::check_not_input(Path::new(j), &inputs) {
-            eprintln!("error: {e}");
+            say!("error: {e}");
             return Err(2);
         }
         inputs.push(PathBuf::from(j));
     }
     if let Err(e) = report::check_not_input(out, &inputs) {
-        eprintln!("error: {e}");
+        say!("error: {e}");
         return Err(2);
     }
+    progress.set_message("writing the annotated workbook");
     let bytes = match report::workbook::build_in(&input, &done, units) {
         Ok(b) => b,
         Err(e) => {
-            eprintln!("internal error: building the workbook failed: {e}");
+            say!("internal error: building the workbook failed: {e}");
             return Err(3);
         }
     };
@@ -399,7 +406,7 @@ pub fn audit_sources_to_files(
     {
         Ok(t) => t,
         Err(e) => {
-            eprintln!("internal error: building JSON failed: {e}");
+            say!("internal error: building JSON failed: {e}");
             return Err(3);
         }
     };
@@ -407,7 +414,7 @@ pub fn audit_sources_to_files(
     let staged_book = match report::stage(out, &bytes) {
         Ok(s) => s,
         Err(e) => {
-            eprintln!("error: {e}; nothing was written");
+            say!("error: {e}; nothing was written");
             return Err(2);
         }
     };
@@ -416,7 +423,7 @@ pub fn audit_sources_to_files(
             match report::stage(Path::new(path), text.as_bytes()) {
                 Ok(s) => Some(s),
                 Err(e) => {
-                    eprintln!("error: {e}; nothing was written");
+                    say!("error: {e}; nothing was written");
                     return Err(2);
                 }
             }
@@ -424,18 +431,19 @@ pub fn audit_sources_to_files(
         _ => None,
     };
     if let Err(e) = staged_book.commit() {
-        eprintln!("error: {e}; nothing was written");
+        say!("error: {e}; nothing was written");
         return Err(2);
     }
     if let Some(s) = staged_json
         && let Err(e) = s.commit()
     {
-        eprintln!(
+        say!(
             "error: {e}; the workbook {} was written, the JSON was not",
             out.display()
         );
         return Err(2);
     }
+    progress.finish_and_clear();
     if let (Some("-"), Some(text)) = (json, json_text) {
         println!("{text}");
     }
@@ -547,4 +555,42 @@ fn kinds_json() -> String {
         })
         .collect();
     serde_json::to_string_pretty(&serde_json::json!({ "kinds": kinds })).unwrap_or_default()
+}
+
+/// A spinner with the current phase on stderr, shown only when stderr is a terminal and only once
+/// the run has taken more than a second (short runs print nothing extra). Cleared when dropped,
+/// on every return path.
+struct Progress(indicatif::ProgressBar);
+
+impl std::ops::Deref for Progress {
+    type Target = indicatif::ProgressBar;
+    fn deref(&self) -> &Self::Target {
+        &self.0
+    }
+}
+
+impl Drop for Progress {
+    fn drop(&mut self) {
+        self.0.finish_and_clear();
+    }
+}
+
+fn progress(first: &'static str) -> Progress {
+    use std::io::IsTerminal;
+    let bar = indicatif::ProgressBar::hidden();
+    if let Ok(style) = indicatif::ProgressStyle::with_template("{spinner} {elapsed} {msg}") {
+        bar.set_style(style);
+    }
+    bar.set_message(first);
+    if std::io::stderr().is_terminal() {
+        let shown = bar.clone();
+        std::thread::spawn(move || {
+            std::thread::sleep(std::time::Duration::from_secs(1));
+            if !shown.is_finished() {
+                shown.set_draw_target(indicatif::ProgressDrawTarget::stderr());
+                shown.enable_steady_tick(std::time::Duration::from_millis(120));
+            }
+        });
+    }
+    Progress(bar)
 }
