@@ -347,34 +347,26 @@ fn parse_part(source: Source, sheets: Vec<SheetGrid>, options: &ReadOptions) -> 
         options.map.as_ref(),
         &mut diagnostics,
     );
-    let mut input = Input {
-        file: source.file.clone(),
-        path: source.path.clone(),
-        sha256: source.sha256.clone(),
-        sources: vec![source],
-        sheets,
-        layouts,
-        lines: Vec::new(),
-        pipes: Vec::new(),
-        fittings: Vec::new(),
-        systems: Vec::new(),
-        fluids: Vec::new(),
-        pump_curves: Vec::new(),
-        diagnostics,
-        report: ParseReport::default(),
-    };
+    let mut input = Input::unread(
+        source.file.clone(),
+        source.path.clone(),
+        source.sha256.clone(),
+    );
+    input.sources = vec![source];
+    input.sheets = sheets;
+    input.layouts = layouts;
+    input.diagnostics = diagnostics;
     rows::read_all(&mut input);
     input
 }
 
-/// Concatenate parsed files into one input (sheet indices shifted; names are already unique).
-fn merge(parts: Vec<Input>) -> Input {
-    let mut iter = parts.into_iter();
-    let Some(mut all) = iter.next() else {
-        return Input {
-            file: String::new(),
-            path: PathBuf::new(),
-            sha256: String::new(),
+impl Input {
+    /// An input with its identity set and nothing read yet.
+    fn unread(file: String, path: PathBuf, sha256: String) -> Input {
+        Input {
+            file,
+            path,
+            sha256,
             sources: Vec::new(),
             sheets: Vec::new(),
             layouts: Vec::new(),
@@ -386,7 +378,15 @@ fn merge(parts: Vec<Input>) -> Input {
             pump_curves: Vec::new(),
             diagnostics: Vec::new(),
             report: ParseReport::default(),
-        };
+        }
+    }
+}
+
+/// Concatenate parsed files into one input (sheet indices shifted; names are already unique).
+fn merge(parts: Vec<Input>) -> Input {
+    let mut iter = parts.into_iter();
+    let Some(mut all) = iter.next() else {
+        return Input::unread(String::new(), PathBuf::new(), String::new());
     };
     let mut merged = false;
     for mut part in iter {
