@@ -11,6 +11,7 @@ use rust_xlsxwriter::{Formula, Workbook};
 use std::process::ExitCode;
 
 fn copy(input: &str, output: &str) -> Result<usize, String> {
+    let start = std::time::Instant::now();
     let mut src: Xlsx<_> = open_workbook(input).map_err(|e| format!("{input}: {e}"))?;
     let mut wb = Workbook::new();
     let mut cells = 0;
@@ -48,7 +49,17 @@ fn copy(input: &str, output: &str) -> Result<usize, String> {
             }
         }
     }
+    if std::env::var_os("LOSSLEDGER_TIMINGS").is_some() {
+        eprintln!(
+            "timing: read and queue cells: {:.3} s",
+            start.elapsed().as_secs_f64()
+        );
+    }
+    let saving = std::time::Instant::now();
     wb.save(output).map_err(|e| format!("{output}: {e}"))?;
+    if std::env::var_os("LOSSLEDGER_TIMINGS").is_some() {
+        eprintln!("timing: save: {:.3} s", saving.elapsed().as_secs_f64());
+    }
     Ok(cells)
 }
 

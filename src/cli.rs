@@ -129,6 +129,10 @@ pub enum Command {
         /// Units of the console summary and the workbook's computed columns (JSON stays SI).
         #[arg(long, value_enum, default_value = "si")]
         units: report::console::UnitSystem,
+        /// Rows of the Fitting ranking sheet: the worst N fittings, or "all". Every fitting's rank
+        /// and cost are in its input sheet's computed columns either way.
+        #[arg(long, value_name = "N|all", default_value = "1000", value_parser = parse_rows)]
+        ranking_rows: RankingRows,
     },
     /// Read and validate inputs only: print every diagnostic with its cell, the header mapping
     /// used (as a map file) and the defaults that would apply. Exit 0 when clean, 2 on errors.
@@ -192,6 +196,7 @@ fn run(cli: Cli) -> u8 {
             rules,
             fail_on,
             units,
+            ranking_rows,
         } => {
             let rules = match rules.as_deref().map(Rules::from_file).transpose() {
                 Ok(r) => r.unwrap_or_default(),
@@ -217,7 +222,10 @@ fn run(cli: Cli) -> u8 {
                 &out,
                 json.as_deref(),
                 &rules,
-                units,
+                &report::workbook::BookOptions {
+                    units,
+                    ranking_rows: ranking_rows.0,
+                },
             ) {
                 Ok(done) => {
                     let summary = report::console::summary_in(&done, units);
@@ -250,6 +258,19 @@ fn run(cli: Cli) -> u8 {
     }
 }
 
+/// `--ranking-rows`: a count, or `None` for all.
+#[derive(Clone, Copy, Debug)]
+pub struct RankingRows(Option<usize>);
+
+fn parse_rows(s: &str) -> Result<RankingRows, String> {
+    if s.eq_ignore_ascii_case("all") {
+        return Ok(RankingRows(None));
+    }
+    s.parse()
+        .map(|n| RankingRows(Some(n)))
+        .map_err(|_| format!("'{s}' is not a number of rows or \"all\""))
+}
+
 fn exit_for(audit: &audit::Audit, fail_on: Option<FailOn>) -> u8 {
     let threshold = match fail_on {
         None => return 0,
@@ -276,7 +297,7 @@ pub fn audit_to_files(
         out,
         json,
         rules,
-        report::console::UnitSystem::Si,
+        &report::workbook::BookOptions::default(),
     )
 }
 
@@ -331,7 +352,7 @@ pub fn audit_sources_to_files(
     out: &Path,
     json: Option<&str>,
     rules: &Rules,
-    units: report::console::UnitSystem,
+    book: &report::workbook::BookOptions,
 ) -> Result<audit::Audit, u8> {
     let progress = progress("reading inputs");
     // Messages go around the progress line so they never garble it.
@@ -393,11 +414,36 @@ pub fn audit_sources_to_files(
         return Err(2);
     }
     progress.set_message("writing the annotated workbook");
-    let bytes = match report::workbook::build_in(&input, &done, units) {
+    let mut book = match report::workbook::prepare(&input, &done, book) {
         Ok(b) => b,
         Err(e) => {
             say!("internal error: building the workbook failed: {e}");
             return Err(3);
+        }
+    };
+    // Saved straight into the staged file: a failure to assemble it is ours (exit 3), a failure
+    // to write it is the disk's (exit 2); either way nothing is left behind.
+    progress.set_message("saving the workbook");
+    let mut internal = None;
+    let staged_book = report::stage_with(out, |f| {
+        book.save_to_writer(f).map_err(|e| match e {
+            rust_xlsxwriter::XlsxError::IoError(io) => io,
+            other => {
+                internal = Some(other);
+                std::io::Error::other("the workbook could not be assembled")
+            }
+        })
+    });
+    drop(book);
+    if let Some(e) = internal {
+        say!("internal error: building the workbook failed: {e}");
+        return Err(3);
+    }
+    let staged_book = match staged_book {
+        Ok(s) => s,
+        Err(e) => {
+            say!("error: {e}; nothing was written");
+            return Err(2);
         }
     };
     let json_text = match json
@@ -408,14 +454,6 @@ pub fn audit_sources_to_files(
         Err(e) => {
             say!("internal error: building JSON failed: {e}");
             return Err(3);
-        }
-    };
-    // Stage every output in full before renaming any into place: a failure leaves none of them.
-    let staged_book = match report::stage(out, &bytes) {
-        Ok(s) => s,
-        Err(e) => {
-            say!("error: {e}; nothing was written");
-            return Err(2);
         }
     };
     let staged_json = match (json, &json_text) {
@@ -560,18 +598,47 @@ fn kinds_json() -> String {
 /// A spinner with the current phase on stderr, shown only when stderr is a terminal and only once
 /// the run has taken more than a second (short runs print nothing extra). Cleared when dropped,
 /// on every return path.
-struct Progress(indicatif::ProgressBar);
+///
+/// With the environment variable `LOSSLEDGER_TIMINGS` set, the wall time of each phase is printed
+/// to stderr when the next one starts (used by `scripts/bench.sh`).
+struct Progress {
+    bar: indicatif::ProgressBar,
+    phase: std::cell::RefCell<(&'static str, std::time::Instant)>,
+    timings: bool,
+}
 
-impl std::ops::Deref for Progress {
-    type Target = indicatif::ProgressBar;
-    fn deref(&self) -> &Self::Target {
-        &self.0
+impl Progress {
+    fn set_message(&self, next: &'static str) {
+        self.lap(next);
+        self.bar.set_message(next);
+    }
+
+    fn lap(&self, next: &'static str) {
+        let mut phase = self.phase.borrow_mut();
+        if self.timings {
+            let (name, start) = *phase;
+            self.bar.suspend(|| {
+                eprintln!("timing: {name}: {:.3} s", start.elapsed().as_secs_f64());
+            });
+        }
+        *phase = (next, std::time::Instant::now());
+    }
+
+    fn suspend<R>(&self, f: impl FnOnce() -> R) -> R {
+        self.bar.suspend(f)
+    }
+
+    fn finish_and_clear(&self) {
+        if !self.bar.is_finished() {
+            self.lap("");
+        }
+        self.bar.finish_and_clear();
     }
 }
 
 impl Drop for Progress {
     fn drop(&mut self) {
-        self.0.finish_and_clear();
+        self.finish_and_clear();
     }
 }
 
@@ -592,5 +659,9 @@ fn progress(first: &'static str) -> Progress {
             }
         });
     }
-    Progress(bar)
+    Progress {
+        bar,
+        phase: std::cell::RefCell::new((first, std::time::Instant::now())),
+        timings: std::env::var_os("LOSSLEDGER_TIMINGS").is_some(),
+    }
 }

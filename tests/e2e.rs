@@ -154,10 +154,9 @@ fn demo_audit_keeps_every_input_cell_and_matches_json() {
             panic!("no total for line {i}: {cell:?}")
         };
         let j = l["total_head_m"].as_f64().unwrap();
-        assert!(
-            (v - j).abs() <= 1e-12 * j.abs().max(1.0),
-            "workbook {v} vs JSON {j}"
-        );
+        // The workbook shows six significant figures; the JSON keeps full precision.
+        assert!((v - j).abs() <= 5e-6 * j.abs(), "workbook {v} vs JSON {j}");
+        assert!(v.to_string().trim_start_matches(['-', '0', '.']).len() <= 7);
     }
     let codes: Vec<&str> = doc["findings"]
         .as_array()

@@ -305,8 +305,7 @@ fn line_basis(
 }
 
 /// Candidate replacements of one item: (model after, words).
-fn alternatives(f: &FittingResult, pumped: bool) -> Vec<(FittingModel, String)> {
-    let m = f.eval;
+fn alternatives(m: FittingModel, pumped: bool) -> Vec<(FittingModel, String)> {
     let kind = m.kind;
     let swap = |id: &str| -> Option<FittingModel> {
         let k = find_kind(id)?;
@@ -334,7 +333,7 @@ fn alternatives(f: &FittingResult, pumped: bool) -> Vec<(FittingModel, String)> 
             .filter_map(|id| swap(id).map(|s| (s, format!("{words} ({id})"))))
             .collect()
     };
-    let opening = f.opening.unwrap_or(1.0);
+    let opening = m.input.opening.unwrap_or(1.0);
     if kind.group == Group::Valve && opening < 1.0 {
         if !pumped {
             return Vec::new();
@@ -409,6 +408,7 @@ fn alternatives(f: &FittingResult, pumped: bool) -> Vec<(FittingModel, String)> 
 /// The best alternative of an item (lowest head at the line's flow), when it lowers the loss.
 fn suggest(
     f: &FittingResult,
+    model: FittingModel,
     line: &LineResult,
     basis: Option<&EnergyBasis>,
     pumped: bool,
@@ -417,7 +417,7 @@ fn suggest(
         return None;
     }
     let (rho, mu, q) = (line.density_kg_m3, line.viscosity_pa_s, line.flow_m3_s);
-    let best = alternatives(f, pumped)
+    let best = alternatives(model, pumped)
         .into_iter()
         .filter_map(|(m, words)| fitting_at(&m, q, rho, mu).ok().map(|h| (h, words)))
         .min_by(|a, b| a.0.head_m.total_cmp(&b.0.head_m))?;
@@ -439,7 +439,8 @@ fn suggest(
 }
 
 /// Fill energy, cost, rank and suggestion on every line and fitting; raise `throttled-valve`.
-pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
+/// `models` are the fittings' models, in the order of `audit.fittings`.
+pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit, models: &[FittingModel]) {
     let mut summary = EnergySummary {
         currency: rules.energy.currency.clone(),
         tariff_per_kwh: rules.energy.tariff_per_kwh,
@@ -485,7 +486,9 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
         let basis = bases[li];
         let f = &audit.fittings[fi];
         let energy = basis.and_then(|b| loss_energy(f.dp_pa, line.flow_m3_s, &b));
-        let suggestion = suggest(f, line, basis.as_ref(), is_pumped(line.service));
+        let suggestion = models
+            .get(fi)
+            .and_then(|&m| suggest(f, m, line, basis.as_ref(), is_pumped(line.service)));
         let scale = |x: f64| if f.head_m > 0.0 { x / f.head_m } else { 0.0 };
         items.push(RankItem {
             energy_kwh: energy.map(|e| {
@@ -530,7 +533,7 @@ fn throttled_valves(
     let mut found = Vec::new();
     for f in &audit.fittings {
         let Some(opening) = f.opening else { continue };
-        if f.eval.kind.group != Group::Valve || opening >= rules.valve.min_opening {
+        if f.group != Group::Valve || opening >= rules.valve.min_opening {
             continue;
         }
         let Some(li) = audit.line_of(&f.line) else {

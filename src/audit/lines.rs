@@ -303,8 +303,12 @@ fn resolve_run(ctx: &mut Ctx<'_>, p: &PipeRow) -> Option<ResolvedRun> {
     })
 }
 
-/// Compute runs, fittings and line totals.
-pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
+/// Compute runs, fittings and line totals; also returns each fitting's model, in the order of
+/// `Audit::fittings`.
+pub fn compute(
+    input: &Input,
+    rules: &Rules,
+) -> Result<(Audit, Vec<FittingModel>), Vec<Diagnostic>> {
     let mut ctx = Ctx {
         input,
         errors: Vec::new(),
@@ -424,7 +428,8 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
     }
 
     // Fittings on the run of their line with the same size.
-    let mut fittings = Vec::new();
+    let mut fittings = Vec::with_capacity(input.fittings.len());
+    let mut models = Vec::with_capacity(input.fittings.len());
     let mut kinds_used: Vec<&'static str> = Vec::new();
     let mut mismatches = Vec::new();
     let mut closed = Vec::new();
@@ -571,8 +576,9 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
                     rank_uncertain: None,
                     suggestion: None,
                     ranking: None,
-                    eval: model,
+                    group: f.kind.group,
                 });
+                models.push(model);
             }
             Err(fitting::FittingError::Closed { .. }) => closed.push(f),
             Err(e) => {
@@ -680,7 +686,7 @@ pub fn compute(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
     for f in closed {
         super::findings::closed_valve(input, &mut audit, f);
     }
-    Ok(audit)
+    Ok((audit, models))
 }
 
 /// Bore of a size written on a fitting that matches no run: looked up with the run's material and schedule.
@@ -831,7 +837,13 @@ pub struct LineHeads {
 ///
 /// Fittings whose K cannot be evaluated at the new flow are left out (none is expected: the same
 /// inputs evaluated at duty flow).
-pub fn line_heads_at(audit: &Audit, line: &LineResult, flow_m3_s: f64) -> LineHeads {
+/// `models` are the fittings' models from [`compute`].
+pub fn line_heads_at(
+    audit: &Audit,
+    models: &[FittingModel],
+    line: &LineResult,
+    flow_m3_s: f64,
+) -> LineHeads {
     let (rho, mu) = (line.density_kg_m3, line.viscosity_pa_s);
     let first_regime = line.runs.first().map(|&i| {
         let r = &audit.runs[i];
@@ -863,8 +875,7 @@ pub fn line_heads_at(audit: &Audit, line: &LineResult, flow_m3_s: f64) -> LineHe
     let fittings_head_m: f64 = line
         .fittings
         .iter()
-        .map(|&i| &audit.fittings[i])
-        .filter_map(|f| fitting_at(&f.eval, flow_m3_s, rho, mu).ok())
+        .filter_map(|&i| fitting_at(models.get(i)?, flow_m3_s, rho, mu).ok())
         .map(|h| h.head_m)
         .sum();
     LineHeads {

@@ -124,9 +124,9 @@ pub struct FittingResult {
     /// Ranking details (share, rank range), filled by the energy review.
     #[serde(skip)]
     pub ranking: Option<energy::Ranking>,
-    /// What is needed to re-evaluate the item at another flow or as another kind.
+    /// Group of the catalogue kind.
     #[serde(skip)]
-    pub eval: lines::FittingModel,
+    pub group: crate::physics::fitting::Group,
 }
 
 /// One line's totals.
@@ -265,10 +265,12 @@ pub fn run(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
             .cloned()
             .collect());
     }
-    let mut audit = lines::compute(input, rules)?;
+    // The fitting models (what re-evaluates an item at another flow or as another kind) live
+    // only while the audit runs: on huge registers they are a good share of the memory.
+    let (mut audit, models) = lines::compute(input, rules)?;
     findings::apply(input, rules, &mut audit);
-    energy::apply(input, rules, &mut audit);
-    system::apply(input, rules, &mut audit);
+    energy::apply(input, rules, &mut audit, &models);
+    system::apply(input, rules, &mut audit, &models);
     findings::sort(&mut audit.findings);
     audit.notes = input.diagnostics.clone();
     Ok(audit)

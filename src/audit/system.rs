@@ -7,7 +7,7 @@
 
 use serde::Serialize;
 
-use super::lines::line_heads_at;
+use super::lines::{FittingModel, line_heads_at};
 use super::{Audit, Finding, Rules};
 use crate::error::{CellRef, Severity};
 use crate::ingest::{Input, Service, SystemRow, TableKind};
@@ -208,13 +208,25 @@ pub fn operating_point(
 /// Required head of a system when every line carries `fraction` of its own duty flow:
 /// static head plus each line's losses recomputed at that flow (friction factors and Re-dependent
 /// K re-evaluated; not a Q² scaling).
-pub fn required_head_at(audit: &Audit, lines: &[usize], static_head_m: f64, fraction: f64) -> f64 {
+/// `models` are the fittings' models from [`super::lines::compute`].
+pub fn required_head_at(
+    audit: &Audit,
+    models: &[FittingModel],
+    lines: &[usize],
+    static_head_m: f64,
+    fraction: f64,
+) -> f64 {
     static_head_m
         + lines
             .iter()
             .map(|&i| {
-                line_heads_at(audit, &audit.lines[i], audit.lines[i].flow_m3_s * fraction)
-                    .total_head_m
+                line_heads_at(
+                    audit,
+                    models,
+                    &audit.lines[i],
+                    audit.lines[i].flow_m3_s * fraction,
+                )
+                .total_head_m
             })
             .sum::<f64>()
 }
@@ -253,7 +265,8 @@ fn definitions(input: &Input) -> Vec<(String, Vec<String>, Option<&SystemRow>)> 
 }
 
 /// Compute every system and raise `pump-head-short`, `npsh-margin` and `suction-layout`.
-pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
+/// `models` are the fittings' models, in the order of `audit.fittings`.
+pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit, models: &[FittingModel]) {
     let mut results = Vec::new();
     let mut found: Vec<Finding> = Vec::new();
     for (id, names, row) in definitions(input) {
@@ -325,7 +338,7 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
             .iter()
             .map(|&x| CurvePoint {
                 flow_m3_s: duty * x,
-                head_m: required_head_at(audit, &idx, static_head_m, x),
+                head_m: required_head_at(audit, models, &idx, static_head_m, x),
             })
             .collect();
         let mut pump_curve: Vec<CurvePoint> = input
@@ -350,7 +363,7 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
         };
         let operating_point = if duty > 0.0 && pump_curve.len() >= 2 {
             let op = operating_point(&pump_curve, |q| {
-                required_head_at(audit, &idx, static_head_m, q / duty)
+                required_head_at(audit, models, &idx, static_head_m, q / duty)
             });
             if op.is_none() {
                 notes.push(
@@ -512,7 +525,7 @@ fn suction_layout(
         .map(|&i| &audit.fittings[i])
         .max_by_key(|f| (f.cell.sheet.clone(), f.row));
     if let Some(f) = at_pump {
-        let group = f.eval.kind.group;
+        let group = f.group;
         let what = match group {
             Group::Elbow | Group::Bend => Some(("an elbow or bend at the pump inlet gives the impeller uneven flow", format!(
                 "provide about {SUCTION_STRAIGHT_DIAMETERS:.0} pipe diameters of straight pipe before the pump (common practice, no source), or confirm the layout on the drawings"

@@ -1,7 +1,7 @@
 //! Raw sheets as read by calamine: values, formulas, merged ranges and visibility, kept whole so the
 //! annotated copy can reproduce every input cell.
 
-use calamine::{Data, Dimensions, Range, Reader, SheetVisible, Xlsx, open_workbook};
+use calamine::{Data, Dimensions, Range, Reader, SheetVisible, Xlsx};
 use std::path::Path;
 
 use crate::error::InputError;
@@ -72,16 +72,36 @@ impl SheetGrid {
     }
 }
 
-/// Read every sheet of an `.xlsx` workbook.
+/// Read every sheet of an `.xlsx` workbook file.
 pub fn read_xlsx(path: &Path, file: &str) -> Result<Vec<SheetGrid>, InputError> {
+    let bytes = std::fs::read(path).map_err(|e| InputError::Unreadable {
+        file: file.to_string(),
+        reason: e.to_string(),
+    })?;
+    read_xlsx_bytes(&bytes, file)
+}
+
+/// Read every sheet of an `.xlsx` workbook held in memory. The cell values are read on one
+/// thread while the formulas and merged ranges (two more passes over each sheet's XML in
+/// calamine) are read on another.
+pub fn read_xlsx_bytes(bytes: &[u8], file: &str) -> Result<Vec<SheetGrid>, InputError> {
     // calamine 0.38 can panic on some malformed files (an arithmetic overflow on an absurd cell
     // reference when overflow checks are on; found by fuzzing, tests/bad/fuzz-*.xlsx). Treat that
-    // as an unreadable file, without the panic message. The CLI is single-threaded here.
+    // as an unreadable file, without the panic message. Both reading threads run inside this
+    // window and are joined before the hook is restored.
     let hook = std::panic::take_hook();
     std::panic::set_hook(Box::new(|_| {}));
-    let result = std::panic::catch_unwind(|| read_xlsx_inner(path, file));
+    let result = std::thread::scope(|scope| {
+        let extras = scope.spawn(|| read_formulas_and_merges(bytes, file));
+        let values = read_values(bytes, file);
+        match (values, extras.join()) {
+            (Ok(Err(e)), _) => Some(Err(e)),
+            (Ok(Ok(sheets)), Ok(extras)) => Some(Ok(join_sheets(sheets, extras))),
+            _ => None,
+        }
+    });
     std::panic::set_hook(hook);
-    result.unwrap_or_else(|_| {
+    result.unwrap_or_else(|| {
         Err(InputError::Unreadable {
             file: file.to_string(),
             reason: "the workbook's XML is malformed (the reader stopped on it); re-save it from the spreadsheet application".into(),
@@ -89,43 +109,83 @@ pub fn read_xlsx(path: &Path, file: &str) -> Result<Vec<SheetGrid>, InputError> 
     })
 }
 
-fn read_xlsx_inner(path: &Path, file: &str) -> Result<Vec<SheetGrid>, InputError> {
-    let unreadable = |reason: String| InputError::Unreadable {
+type Book<'a> = Xlsx<std::io::Cursor<&'a [u8]>>;
+
+fn open<'a>(bytes: &'a [u8], file: &str) -> Result<Book<'a>, InputError> {
+    Xlsx::new(std::io::Cursor::new(bytes)).map_err(|e| InputError::Unreadable {
         file: file.to_string(),
-        reason,
-    };
-    let mut wb: Xlsx<_> = open_workbook(path).map_err(|e| unreadable(describe_xlsx_error(&e)))?;
-    let metas: Vec<(String, bool)> = wb
-        .sheets_metadata()
+        reason: describe_xlsx_error(&e),
+    })
+}
+
+/// Sheet names with their visibility, in workbook order.
+fn sheet_list(wb: &Book<'_>) -> Vec<(String, bool)> {
+    wb.sheets_metadata()
         .iter()
         .map(|s| (s.name.clone(), s.visible != SheetVisible::Visible))
-        .collect();
-    let mut sheets = Vec::with_capacity(metas.len());
-    for (name, hidden) in metas {
-        let values = match wb.worksheet_range(&name) {
-            Ok(r) => r,
-            // Chart sheets and dialog sheets have no cells: skip them.
-            Err(calamine::XlsxError::WorksheetNotFound(_)) => continue,
-            Err(e) => {
-                return Err(unreadable(format!(
-                    "sheet '{name}': {}",
-                    describe_xlsx_error(&e)
-                )));
-            }
-        };
-        let formulas = wb
-            .worksheet_formula(&name)
-            .unwrap_or_else(|_| Range::empty());
-        let merged = wb.merge_cells_by_sheet_name(&name).unwrap_or_default();
-        sheets.push(SheetGrid {
-            name,
-            hidden,
-            values,
-            formulas,
-            merged,
-        });
+        .collect()
+}
+
+/// The sheets with their values (formulas and merges still empty); chart and dialog sheets,
+/// which have no cells, are skipped.
+fn read_values(
+    bytes: &[u8],
+    file: &str,
+) -> std::thread::Result<Result<Vec<SheetGrid>, InputError>> {
+    std::panic::catch_unwind(|| {
+        let mut wb = open(bytes, file)?;
+        let mut sheets = Vec::new();
+        for (name, hidden) in sheet_list(&wb) {
+            let values = match wb.worksheet_range(&name) {
+                Ok(r) => r,
+                Err(calamine::XlsxError::WorksheetNotFound(_)) => continue,
+                Err(e) => {
+                    return Err(InputError::Unreadable {
+                        file: file.to_string(),
+                        reason: format!("sheet '{name}': {}", describe_xlsx_error(&e)),
+                    });
+                }
+            };
+            sheets.push(SheetGrid {
+                name,
+                hidden,
+                values,
+                formulas: Range::empty(),
+                merged: Vec::new(),
+            });
+        }
+        Ok(sheets)
+    })
+}
+
+/// Formulas and merged ranges by sheet name. A file the values pass can read but these passes
+/// cannot leaves them empty, as before.
+type Extras = Vec<(String, Range<String>, Vec<Dimensions>)>;
+
+fn read_formulas_and_merges(bytes: &[u8], file: &str) -> Extras {
+    let Ok(mut wb) = open(bytes, file) else {
+        return Vec::new();
+    };
+    sheet_list(&wb)
+        .into_iter()
+        .map(|(name, _)| {
+            let formulas = wb
+                .worksheet_formula(&name)
+                .unwrap_or_else(|_| Range::empty());
+            let merged = wb.merge_cells_by_sheet_name(&name).unwrap_or_default();
+            (name, formulas, merged)
+        })
+        .collect()
+}
+
+fn join_sheets(mut sheets: Vec<SheetGrid>, extras: Extras) -> Vec<SheetGrid> {
+    for (name, formulas, merged) in extras {
+        if let Some(s) = sheets.iter_mut().find(|s| s.name == name) {
+            s.formulas = formulas;
+            s.merged = merged;
+        }
     }
-    Ok(sheets)
+    sheets
 }
 
 fn describe_xlsx_error(e: &calamine::XlsxError) -> String {

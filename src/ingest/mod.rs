@@ -228,7 +228,7 @@ fn read_file(
     })?;
     let sha256 = hex(&Sha256::digest(&bytes));
     let sheets = match extension(path).as_str() {
-        "xlsx" | "xlsm" if table.is_none() => grid::read_xlsx(path, &file)?,
+        "xlsx" | "xlsm" if table.is_none() => grid::read_xlsx_bytes(&bytes, &file)?,
         "csv" | "txt" => {
             let text = match String::from_utf8(bytes) {
                 Ok(t) => t,

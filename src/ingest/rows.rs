@@ -764,6 +764,7 @@ pub fn read_all(input: &mut Input) {
             assumed,
         });
     });
+    lines.shrink_to_fit();
     input.lines = lines;
 
     let mut pipes = Vec::new();
@@ -879,6 +880,7 @@ pub fn read_all(input: &mut Input) {
             });
         }
     });
+    pipes.shrink_to_fit();
     input.pipes = pipes;
 
     let mut fittings = Vec::new();
@@ -983,6 +985,7 @@ pub fn read_all(input: &mut Input) {
             fittings.push(row);
         }
     });
+    fittings.shrink_to_fit();
     input.fittings = fittings;
 
     let mut systems = Vec::new();

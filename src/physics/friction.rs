@@ -25,6 +25,17 @@ pub enum Regime {
     Turbulent,
 }
 
+impl Regime {
+    /// The regime as written in reports (as in JSON).
+    pub fn name(self) -> &'static str {
+        match self {
+            Regime::Laminar => "laminar",
+            Regime::Transition => "transition",
+            Regime::Turbulent => "turbulent",
+        }
+    }
+}
+
 /// A Darcy friction factor and the regime it was computed in.
 #[derive(Clone, Copy, Debug, PartialEq, Serialize)]
 pub struct Friction {

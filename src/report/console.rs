@@ -55,6 +55,9 @@ pub fn summary(audit: &Audit) -> String {
     summary_in(audit, UnitSystem::Si)
 }
 
+/// Lines listed on the console at most (all of them up to this many, in input order).
+pub const CONSOLE_LINES: usize = 25;
+
 /// Render the summary as text in the given units.
 pub fn summary_in(audit: &Audit, units: UnitSystem) -> String {
     let mut out = String::new();
@@ -75,7 +78,14 @@ pub fn summary_in(audit: &Audit, units: UnitSystem) -> String {
         format!("Total {len} (range)"),
         format!("Max v {vel}"),
     ]);
-    for l in &audit.lines {
+    // A huge register would scroll the terminal for minutes: list the lines with the highest
+    // total head and say where the rest are.
+    let mut shown: Vec<&crate::audit::LineResult> = audit.lines.iter().collect();
+    if shown.len() > CONSOLE_LINES {
+        shown.sort_by(|a, b| b.total_head_m.total_cmp(&a.total_head_m));
+        shown.truncate(CONSOLE_LINES);
+    }
+    for l in &shown {
         t.add_row([
             l.line.clone(),
             l.service.id().to_string(),
@@ -94,6 +104,13 @@ pub fn summary_in(audit: &Audit, units: UnitSystem) -> String {
     }
     out.push_str(&t.to_string());
     out.push('\n');
+    if audit.lines.len() > shown.len() {
+        out.push_str(&format!(
+            "The {} lines of {} with the highest total head; every line is in the workbook's Summary and Lines sheets.\n",
+            shown.len(),
+            audit.lines.len()
+        ));
+    }
     let mut worst: Vec<_> = audit.fittings.iter().collect();
     worst.sort_by(|a, b| b.head_m.total_cmp(&a.head_m));
     if !worst.is_empty() {

@@ -79,6 +79,16 @@ impl Drop for Staged {
 /// A target that is a folder is refused before anything is written.
 pub fn stage(path: &Path, bytes: &[u8]) -> Result<Staged, OutputError> {
     use std::io::Write;
+    stage_with(path, |f| f.write_all(bytes))
+}
+
+/// Like [`stage`], with `write` writing the content into the temporary file (so a large output
+/// is never held in memory whole). Whatever `write` fails with is reported against `path`.
+pub fn stage_with(
+    path: &Path,
+    write: impl FnOnce(&mut std::io::BufWriter<std::fs::File>) -> std::io::Result<()>,
+) -> Result<Staged, OutputError> {
+    use std::io::Write;
     let io = |source| OutputError::Io {
         path: path.display().to_string(),
         source,
@@ -102,8 +112,10 @@ pub fn stage(path: &Path, bytes: &[u8]) -> Result<Staged, OutputError> {
         path: path.to_path_buf(),
         committed: false,
     };
-    let mut f = std::fs::File::create(&staged.tmp).map_err(io)?;
-    f.write_all(bytes).map_err(io)?;
-    f.sync_all().map_err(io)?;
+    let file = std::fs::File::create(&staged.tmp).map_err(io)?;
+    let mut f = std::io::BufWriter::with_capacity(1 << 20, file);
+    write(&mut f).map_err(io)?;
+    f.flush().map_err(io)?;
+    f.get_ref().sync_all().map_err(io)?;
     Ok(staged)
 }

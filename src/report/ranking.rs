@@ -4,7 +4,7 @@ use rust_xlsxwriter::{
     Chart, ChartMarker, ChartMarkerType, ChartType, Format, Url, Worksheet, XlsxError,
 };
 
-use super::style::{MAX_CELL_CHARS, Styles, truncate};
+use super::style::{MAX_CELL_CHARS, Styles, shown, truncate};
 use crate::audit::energy::{RankBasis, SAVINGS_CAUTION};
 use crate::audit::system::SystemResult;
 use crate::audit::{Audit, FittingResult};
@@ -21,10 +21,10 @@ fn opt(ws: &mut Worksheet, r: u32, c: u16, v: Option<f64>, f: &Format) -> Result
 }
 
 /// A number in a column whose format was set once with `set_column_format` (no per-cell format
-/// lookup: the ranking sheet has a row per fitting).
+/// lookup: the ranking sheet has a row per fitting), to six significant figures.
 fn num(ws: &mut Worksheet, r: u32, c: u16, v: Option<f64>) -> Result<(), XlsxError> {
     match v.filter(|x| x.is_finite()) {
-        Some(x) => ws.write_number(r, c, x).map(|_| ()),
+        Some(x) => ws.write_number(r, c, shown(x)).map(|_| ()),
         None => Ok(()),
     }
 }
@@ -44,8 +44,18 @@ pub fn ranked(audit: &Audit) -> Vec<&FittingResult> {
     v.into_iter().map(|(_, f)| f).collect()
 }
 
-/// Write the `Fitting ranking` sheet, with a bar-and-line chart of the worst items.
-pub fn write_ranking(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(), XlsxError> {
+/// Worksheet rows (the format's limit).
+const SHEET_ROWS: u32 = 1_048_576;
+
+/// Write the `Fitting ranking` sheet, with a bar-and-line chart of the worst items: the worst
+/// `rows` items (all when `None`, up to the sheet's row limit) and, when some are left out, a
+/// closing line saying how many and what share of the cost they carry.
+pub fn write_ranking(
+    ws: &mut Worksheet,
+    sheet: &str,
+    audit: &Audit,
+    rows: Option<usize>,
+) -> Result<(), XlsxError> {
     let st = Styles::new();
     let cur = &audit.energy.currency;
     ws.write_string_with_format(
@@ -122,7 +132,9 @@ pub fn write_ranking(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(
             ws.set_column_format(c, fmt)?;
         }
     }
-    let items = ranked(audit);
+    let all = ranked(audit);
+    let fits = (SHEET_ROWS - hr - 2) as usize;
+    let items = &all[..all.len().min(rows.unwrap_or(usize::MAX)).min(fits)];
     for (i, f) in items.iter().enumerate() {
         let r = hr + 1 + i as u32;
         let rk = f.ranking;
@@ -149,7 +161,7 @@ pub fn write_ranking(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(
             (12, f.head_low_m),
             (13, f.head_high_m),
         ] {
-            opt(ws, r, c, Some(v), &st.n3)?;
+            num(ws, r, c, Some(v))?;
         }
         num(ws, r, 14, f.power_loss_w)?;
         num(ws, r, 15, f.annual_energy_kwh)?;
@@ -185,6 +197,28 @@ pub fn write_ranking(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(
         num(ws, r, 25, f.replacement_cost)?;
         let target = format!("internal:{}!{}", quote_sheet(&f.cell.sheet), f.cell.a1());
         ws.write_url_with_text(r, 27, Url::new(target), f.cell.to_string())?;
+    }
+    let left = &all[items.len()..];
+    if !left.is_empty() {
+        let cost = |fs: &[&FittingResult]| fs.iter().filter_map(|f| f.annual_cost).sum::<f64>();
+        let total = cost(&all);
+        let share = if total > 0.0 {
+            format!(
+                ", {:.1} % of the annual loss cost",
+                100.0 * cost(left) / total
+            )
+        } else {
+            String::new()
+        };
+        ws.write_string_with_format(
+            hr + 2 + items.len() as u32,
+            0,
+            format!(
+                "{} more fittings are not listed here{share}. Every fitting's rank, energy and cost are in the computed columns of its input sheet (sort or filter by Rank); `lossledger audit --ranking-rows all` lists them all.",
+                left.len()
+            ),
+            &st.bold,
+        )?;
     }
     ws.set_column_width(0, 6)?;
     for c in 1..headers.len() as u16 {

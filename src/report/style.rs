@@ -83,6 +83,29 @@ impl Styles {
     pub fn severity(&self, s: Severity) -> &Format {
         &self.severity[s as usize]
     }
+
+    /// Every format, in a fixed order. Registering them with the workbook before sheets are
+    /// written on several threads fixes their indices, so the file does not depend on which
+    /// thread uses a format first.
+    pub fn all(&self) -> Vec<&Format> {
+        let mut v = vec![
+            &self.title,
+            &self.bold,
+            &self.header,
+            &self.n0,
+            &self.n2,
+            &self.n3,
+            &self.pct,
+            &self.wrap,
+            &self.assumed,
+            &self.link,
+            &self.date,
+            &self.bad,
+            &self.good,
+        ];
+        v.extend(&self.severity);
+        v
+    }
 }
 
 /// Excel's limit on the characters in one cell; longer text (a message quoting a 32,767-character
@@ -95,5 +118,56 @@ pub(crate) fn truncate(s: &str, max: usize) -> String {
         s.to_string()
     } else {
         s.chars().take(max - 1).chain(['…']).collect()
+    }
+}
+
+/// Significant figures of computed numbers in the workbook (the JSON keeps full precision).
+/// Six is far finer than any input or method here, and it keeps float noise such as
+/// `102.25999999999999` out of the cells.
+pub(crate) const SIGNIFICANT_FIGURES: i32 = 6;
+
+/// `x` rounded to [`SIGNIFICANT_FIGURES`]: the nearest double to the rounded decimal, so the
+/// workbook stores (and shows in the formula bar) the short decimal. Values too small or large
+/// for an exact power of ten, and non-finite values, pass unchanged.
+pub(crate) fn shown(x: f64) -> f64 {
+    if x == 0.0 || !x.is_finite() {
+        return x;
+    }
+    // Powers of ten that a double holds exactly.
+    const POW10: [f64; 23] = [
+        1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16,
+        1e17, 1e18, 1e19, 1e20, 1e21, 1e22,
+    ];
+    let k = SIGNIFICANT_FIGURES - 1 - x.abs().log10().floor() as i32;
+    match POW10.get(k.unsigned_abs() as usize) {
+        Some(&p) if k >= 0 => (x * p).round() / p,
+        Some(&p) => (x / p).round() * p,
+        None => x,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::shown;
+
+    #[test]
+    fn six_significant_figures_print_short() {
+        for (x, text) in [
+            (102.25999999999999, "102.26"),
+            (1.6855518972125698, "1.68555"),
+            (0.0014629498974323488, "0.00146295"),
+            (1096027.8446583124, "1096030"),
+            (-23.95294081425862, "-23.9529"),
+            (178104.52475697576, "178105"),
+            (3.0, "3"),
+        ] {
+            assert_eq!(shown(x).to_string(), text, "{x}");
+        }
+        assert_eq!(shown(1e-300), 1e-300);
+        assert!(shown(f64::NAN).is_nan());
+        for x in [0.999_999_7, 9.999_995, 123_456.5e-9] {
+            let r = shown(x);
+            assert!((r - x).abs() <= 5e-6 * x.abs(), "{x} -> {r}");
+        }
     }
 }

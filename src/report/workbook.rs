@@ -9,8 +9,8 @@ use rust_xlsxwriter::{
 use std::collections::{BTreeMap, HashSet};
 
 use super::console::{UnitSystem, header_in};
-use super::style::{MAX_CELL_CHARS, Styles, truncate};
-use crate::audit::Audit;
+use super::style::{MAX_CELL_CHARS, Styles, shown, truncate};
+use crate::audit::{Audit, FittingResult, LineResult, RunResult};
 use crate::error::{Severity, quote_sheet};
 use crate::ingest::{Input, Layout, SheetGrid, TableKind};
 use crate::physics::fitting;
@@ -36,13 +36,42 @@ fn unique_name(wanted: &str, taken: &HashSet<String>) -> String {
         .unwrap_or_default()
 }
 
-/// Build the annotated workbook in memory and return its bytes.
-pub fn build(input: &Input, audit: &Audit) -> Result<Vec<u8>, XlsxError> {
-    build_in(input, audit, UnitSystem::Si)
+/// Choices that shape the annotated workbook.
+#[derive(Clone, Copy, Debug)]
+pub struct BookOptions {
+    /// Units of the computed columns and the summary.
+    pub units: UnitSystem,
+    /// Rows of the `Fitting ranking` sheet: the worst N items (`None`: every item). Every item's
+    /// rank and cost stay in the computed columns of its input sheet either way.
+    pub ranking_rows: Option<usize>,
 }
 
-/// Build the annotated workbook with the computed columns and the summary in `units`.
-pub fn build_in(input: &Input, audit: &Audit, units: UnitSystem) -> Result<Vec<u8>, XlsxError> {
+/// Rows listed in `Fitting ranking` unless asked otherwise.
+pub const DEFAULT_RANKING_ROWS: usize = 1_000;
+
+impl Default for BookOptions {
+    fn default() -> Self {
+        BookOptions {
+            units: UnitSystem::Si,
+            ranking_rows: Some(DEFAULT_RANKING_ROWS),
+        }
+    }
+}
+
+/// Build the annotated workbook in memory with the default options and return its bytes.
+pub fn build(input: &Input, audit: &Audit) -> Result<Vec<u8>, XlsxError> {
+    build_in(input, audit, &BookOptions::default())
+}
+
+/// Build the annotated workbook as `options` say and return its bytes.
+pub fn build_in(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Vec<u8>, XlsxError> {
+    prepare(input, audit, options)?.save_to_buffer()
+}
+
+/// Write every sheet of the annotated workbook; what is left is to save it (the input copies
+/// wait in temporary files until then).
+pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Workbook, XlsxError> {
+    let units = options.units;
     let mut wb = Workbook::new();
     // Fixed creation time: the same input gives a byte-identical workbook.
     let created = ExcelDateTime::from_ymd(2000, 1, 1)?;
@@ -68,45 +97,106 @@ pub fn build_in(input: &Input, audit: &Audit, units: UnitSystem) -> Result<Vec<u
         "Systems".to_string()
     };
 
-    let ws = wb.add_worksheet();
-    ws.set_name(&summary_name)?;
-    write_summary(ws, input, audit, &st)?;
-
-    let ws = wb.add_worksheet();
-    ws.set_name(&findings_name)?;
-    write_findings(ws, audit, &st)?;
-
-    let ws = wb.add_worksheet_with_constant_memory()?;
-    ws.set_name(&ranking_name)?;
-    super::ranking::write_ranking(ws, &ranking_name, audit)?;
-
-    if !audit.systems.is_empty() {
-        let ws = wb.add_worksheet();
-        ws.set_name(&systems_name)?;
-        super::ranking::write_systems(ws, &systems_name, audit)?;
+    // Every sheet is built detached and pushed in order at the end, so the largest input copy
+    // can be written on a second thread while this one writes the rest.
+    let named = |mut ws: Worksheet, name: &str| -> Result<Worksheet, XlsxError> {
+        ws.set_name(name)?;
+        Ok(ws)
+    };
+    wb.register_format(&Format::new());
+    for f in st.all() {
+        wb.register_format(f);
     }
-
     let marks = collect_marks(input, audit);
+    let biggest = input
+        .sheets
+        .iter()
+        .enumerate()
+        .max_by_key(|(_, s)| s.values.get_size().0 * s.values.get_size().1)
+        .map(|(i, _)| i);
+    let mut copies = Vec::with_capacity(input.sheets.len());
     for (i, sheet) in input.sheets.iter().enumerate() {
-        // Input copies are the largest sheets: stream them row by row in constant memory.
-        let ws = wb.add_worksheet_with_constant_memory()?;
-        ws.set_name(&sheet.name)?;
-        let computed: Vec<ComputedBlock> = input
-            .layouts
-            .iter()
-            .filter(|l| l.sheet_index == i)
-            .map(|l| computed_columns(input, audit, l, st.units))
-            .collect();
-        copy_sheet(ws, sheet, marks.get(&sheet.name), &computed, &st)?;
+        // Input copies are the largest sheets: stream them row by row. Only the one written on
+        // the second thread uses the shared string table; the sheets written meanwhile on this
+        // thread keep their strings inline, so the table's order (and the file's bytes) do not
+        // depend on how the threads interleave.
+        let ws = if Some(i) == biggest {
+            wb.new_worksheet_with_low_memory()?
+        } else {
+            wb.new_worksheet_with_constant_memory()?
+        };
+        let mut ws = named(ws, &sheet.name)?;
         if sheet.hidden {
             ws.set_hidden(true);
         }
+        let blocks: Vec<_> = input
+            .layouts
+            .iter()
+            .filter(|l| l.sheet_index == i)
+            .filter_map(|l| computed_block(input, audit, l, st.units))
+            .collect();
+        copies.push((ws, sheet, blocks));
     }
-
-    let ws = wb.add_worksheet();
-    ws.set_name(&basis_name)?;
-    write_basis(ws, input, audit, &st)?;
-    wb.save_to_buffer()
+    let mut ranking_ws = named(wb.new_worksheet_with_constant_memory()?, &ranking_name)?;
+    let mut findings_ws = named(wb.new_worksheet_with_constant_memory()?, &findings_name)?;
+    let (written, others) = std::thread::scope(|scope| {
+        let st = &st;
+        let marks = &marks;
+        let mut worker = None;
+        let mut rest = Vec::new();
+        for (i, (mut ws, sheet, mut blocks)) in copies.into_iter().enumerate() {
+            let job = move || {
+                copy_sheet(&mut ws, sheet, marks.get(&sheet.name), &mut blocks, st).map(|_| ws)
+            };
+            if Some(i) == biggest {
+                worker = Some(scope.spawn(job));
+            } else {
+                rest.push(job);
+            }
+        }
+        let others = (|| -> Result<Vec<Worksheet>, XlsxError> {
+            let mut summary = named(Worksheet::new(), &summary_name)?;
+            write_summary(&mut summary, input, audit, st)?;
+            write_findings(&mut findings_ws, audit, st)?;
+            let ranking_rows = options.ranking_rows;
+            super::ranking::write_ranking(&mut ranking_ws, &ranking_name, audit, ranking_rows)?;
+            let mut done = vec![summary, findings_ws, ranking_ws];
+            if !audit.systems.is_empty() {
+                let mut ws = named(Worksheet::new(), &systems_name)?;
+                super::ranking::write_systems(&mut ws, &systems_name, audit)?;
+                done.push(ws);
+            }
+            for job in rest {
+                done.push(job()?);
+            }
+            let mut basis = named(Worksheet::new(), &basis_name)?;
+            write_basis(&mut basis, input, audit, st)?;
+            done.push(basis);
+            Ok(done)
+        })();
+        (worker.map(|h| h.join()), others)
+    });
+    let mut others = others?;
+    let big = match written {
+        Some(Ok(ws)) => Some(ws?),
+        Some(Err(_)) => {
+            return Err(XlsxError::ParameterError(
+                "writing the largest input copy stopped unexpectedly".into(),
+            ));
+        }
+        None => None,
+    };
+    // Order: the report sheets, the input copies in input order, Basis last.
+    let basis = others.pop();
+    let report_sheets = 3 + usize::from(!audit.systems.is_empty());
+    let mut copies = others.split_off(report_sheets);
+    if let (Some(i), Some(ws)) = (biggest, big) {
+        copies.insert(i, ws);
+    }
+    for ws in others.into_iter().chain(copies).chain(basis) {
+        wb.push_worksheet(ws);
+    }
+    Ok(wb)
 }
 
 fn collect_marks(input: &Input, audit: &Audit) -> BTreeMap<String, BTreeMap<(u32, u32), Mark>> {
@@ -168,44 +258,38 @@ fn data_result(d: &Data) -> String {
     }
 }
 
-/// Copy every cell, row by row (the sheet is in constant-memory mode): values by type, formulas
-/// as formulas with their cached result, strings always as strings (a text starting with `=`
-/// stays text), merged ranges, the computed columns, and marks as fill and note. Notes are capped
-/// at [`MAX_NOTES_PER_SHEET`] per sheet on huge registers; every finding stays in Findings.
+/// Copy every cell, row by row (the sheet streams in low- or constant-memory mode): values by
+/// type, formulas as formulas with their cached result, strings always as strings (a text
+/// starting with `=` stays text), merged ranges, the computed columns, and marks as fill and
+/// note. Notes are capped at [`MAX_NOTES_PER_SHEET`] per sheet on huge registers; every finding
+/// stays in Findings.
 fn copy_sheet(
     ws: &mut Worksheet,
     sheet: &SheetGrid,
     marks: Option<&BTreeMap<(u32, u32), Mark>>,
-    computed: &[ComputedBlock],
+    blocks: &mut [Box<dyn Block + Send + '_>],
     st: &Styles,
 ) -> Result<(), XlsxError> {
     let empty = BTreeMap::new();
     let marks = marks.unwrap_or(&empty);
-    let fmt_of = |pos: &(u32, u32)| -> Option<&Format> {
-        marks.get(pos).map(|m| match m.severity {
-            Some(s) => st.severity(s),
-            None => &st.assumed,
-        })
+    let mark_format = |m: &Mark| match m.severity {
+        Some(s) => st.severity(s),
+        None => &st.assumed,
     };
-    // Computed cells by row, headers first.
-    let mut extra: BTreeMap<u32, Vec<ComputedCell<'_>>> = BTreeMap::new();
-    for block in computed {
-        for (i, c) in block.columns.iter().enumerate() {
-            let col = (block.first_col + i as u32) as u16;
+    // Computed headers by row; computed columns take a column format set once.
+    let mut headers: BTreeMap<u32, Vec<(u16, String)>> = BTreeMap::new();
+    let mut last_computed_row = 0;
+    for block in blocks.iter() {
+        for (i, (h, three)) in block.headers().iter().enumerate() {
+            let col = (block.first_col() + i as u32) as u16;
             ws.set_column_width(col, 13)?;
-            let three = c
-                .values
-                .iter()
-                .any(|(_, v)| matches!(v, Value::Num(_, true, _)));
-            ws.set_column_format(col, if three { &st.n3 } else { &st.n2 })?;
-            extra
-                .entry(block.header_row)
+            ws.set_column_format(col, if *three { &st.n3 } else { &st.n2 })?;
+            headers
+                .entry(block.header_row())
                 .or_default()
-                .push((col, &c.header, Some(&st.header)));
-            for (row, v) in &c.values {
-                extra.entry(*row).or_default().push((col, v, None));
-            }
+                .push((col, h.clone()));
         }
+        last_computed_row = last_computed_row.max(block.header_row() + 1);
     }
     let mut merges: BTreeMap<u32, Vec<&calamine::Dimensions>> = BTreeMap::new();
     for m in &sheet.merged {
@@ -215,10 +299,9 @@ fn copy_sheet(
     }
     let mut notes_left = MAX_NOTES_PER_SHEET;
     let plain = Format::new();
-    let mut marks_iter = marks.iter().peekable();
     let last_row = sheet
         .end_row()
-        .max(extra.keys().next_back().map_or(0, |r| r + 1))
+        .max(last_computed_row)
         .max(marks.keys().next_back().map_or(0, |k| k.0 + 1));
     let first_col = sheet
         .values
@@ -226,6 +309,9 @@ fn copy_sheet(
         .map_or(0, |s| s.1)
         .min(sheet.formulas.start().map_or(u32::MAX, |s| s.1));
     let end_col = sheet.end_col();
+    let has_formulas = !sheet.formulas.is_empty();
+    let mut marks_iter = marks.iter().peekable();
+    let mut row_marks: Vec<(u32, &Mark)> = Vec::new();
     for row in 0..last_row {
         for m in merges.get(&row).into_iter().flatten() {
             ws.merge_range(
@@ -237,11 +323,23 @@ fn copy_sheet(
                 &plain,
             )?;
         }
+        // This row's marks, in column order (usually none).
+        row_marks.clear();
+        while let Some(&(&(r, c), m)) = marks_iter.peek() {
+            if r != row {
+                break;
+            }
+            row_marks.push((c, m));
+            marks_iter.next();
+        }
         for col in first_col..end_col {
             let c16 = col as u16;
-            let fmt = fmt_of(&(row, col));
+            let fmt = row_marks
+                .iter()
+                .find(|(c, _)| *c == col)
+                .map(|(_, m)| mark_format(m));
             let d = sheet.value(row, col);
-            if let Some(formula) = sheet.formula(row, col) {
+            if has_formulas && let Some(formula) = sheet.formula(row, col) {
                 let formula = Formula::new(formula).set_result(data_result(d));
                 match fmt {
                     Some(f) => ws.write_formula_with_format(row, c16, formula, f)?,
@@ -275,28 +373,27 @@ fn copy_sheet(
                 )?,
             };
         }
-        for (col, v, header_fmt) in extra.get(&row).into_iter().flatten() {
-            write_value(ws, row, *col, v, *header_fmt)?;
+        for (col, h) in headers.get(&row).into_iter().flatten() {
+            ws.write_string_with_format(row, *col, h, &st.header)?;
         }
-        while let Some(&(&(r, col), m)) = marks_iter.peek() {
-            if r != row {
-                break;
-            }
+        for block in blocks.iter_mut() {
+            block.write_row(ws, row)?;
+        }
+        for &(col, m) in &row_marks {
             if col >= end_col || col < first_col {
-                ws.write_blank(r, col as u16, fmt_of(&(r, col)).unwrap_or(&st.assumed))?;
+                ws.write_blank(row, col as u16, mark_format(m))?;
             }
             if notes_left > 0 {
                 notes_left -= 1;
                 let text: String = m.note.join("\n");
                 ws.insert_note(
-                    r,
+                    row,
                     col as u16,
                     &Note::new(truncate(&text, 2000))
                         .set_author("lossledger")
                         .add_author_prefix(false),
                 )?;
             }
-            marks_iter.next();
         }
     }
     Ok(())
@@ -305,29 +402,6 @@ fn copy_sheet(
 /// Cell notes written per sheet at most; beyond this the cells are still filled by severity and
 /// every finding is listed in Findings (a note per cell makes huge registers slow to open).
 pub const MAX_NOTES_PER_SHEET: usize = 10_000;
-
-/// A computed cell: numbers take their column's format (set once per column), headers theirs.
-fn write_value(
-    ws: &mut Worksheet,
-    row: u32,
-    col: u16,
-    v: &Value,
-    header: Option<&Format>,
-) -> Result<(), XlsxError> {
-    match (v, header) {
-        (Value::Num(x, _, factor), _) if x.is_finite() => {
-            ws.write_number(row, col, x * factor)?;
-        }
-        (Value::Num(..), _) => {}
-        (Value::Text(t), Some(f)) => {
-            ws.write_string_with_format(row, col, t, f)?;
-        }
-        (Value::Text(t), None) => {
-            ws.write_string(row, col, t)?;
-        }
-    }
-    Ok(())
-}
 
 /// A formula that evaluates to an error value, for error cells that had no formula of their own.
 fn error_formula(e: &calamine::CellErrorType) -> &'static str {
@@ -344,181 +418,230 @@ fn error_formula(e: &calamine::CellErrorType) -> &'static str {
     }
 }
 
-/// One computed column: header and a value per source row.
-struct Computed {
+/// A computed cell: a number (in SI; converted and rounded when written) or text borrowed from
+/// the audit. Non-finite numbers and empty text leave the cell empty.
+#[derive(Clone, Copy)]
+enum Value<'a> {
+    Num(f64),
+    Text(&'a str),
+}
+
+/// One computed column over results of type `T`: SI header, three decimals (else two), value.
+struct Column<T> {
     header: &'static str,
-    values: Vec<(u32, Value)>,
+    three: bool,
+    get: fn(&T) -> Value<'_>,
 }
 
-/// A computed cell placed in a row: column, value, and the header format for header cells.
-type ComputedCell<'a> = (u16, &'a Value, Option<&'a Format>);
-
-/// One computed column ready to write: header text (in the report's units) and values.
-struct ComputedColumn {
-    header: Value,
-    values: Vec<(u32, Value)>,
+const fn col<T>(header: &'static str, three: bool, get: fn(&T) -> Value<'_>) -> Column<T> {
+    Column { header, three, get }
 }
 
-/// The computed columns appended to one table's sheet.
-struct ComputedBlock {
+fn opt(v: Option<f64>) -> Value<'static> {
+    Value::Num(v.unwrap_or(f64::NAN))
+}
+
+const RUN_COLUMNS: &[Column<RunResult>] = &[
+    col("Bore [mm]", false, |r| Value::Num(r.inner_diameter_m * 1e3)),
+    col("Bore from", false, |r| Value::Text(&r.bore_basis)),
+    col("Roughness [mm]", true, |r| Value::Num(r.roughness_m * 1e3)),
+    col("Velocity [m/s]", false, |r| Value::Num(r.velocity_m_s)),
+    col("Reynolds", false, |r| Value::Num(r.reynolds.round())),
+    col("Friction factor", true, |r| Value::Num(r.friction_factor)),
+    col("Regime", false, |r| Value::Text(r.regime.name())),
+    col("Friction head [m]", true, |r| Value::Num(r.head_m)),
+    col("Friction loss [kPa]", true, |r| Value::Num(r.dp_pa / 1e3)),
+    col("Gradient [m/100 m]", false, |r| {
+        Value::Num(r.head_m / r.length_m * 100.0)
+    }),
+];
+
+const FITTING_COLUMNS: &[Column<FittingResult>] = &[
+    col("Kind", false, |f| Value::Text(f.kind)),
+    col("Model", false, |f| Value::Text(f.model)),
+    col("K", true, |f| Value::Num(f.k)),
+    col("K low", true, |f| Value::Num(f.k_low)),
+    col("K high", true, |f| Value::Num(f.k_high)),
+    col("K refers to bore [mm]", false, |f| {
+        Value::Num(f.reference_diameter_m * 1e3)
+    }),
+    col("Velocity [m/s]", false, |f| Value::Num(f.velocity_m_s)),
+    col("Head [m]", true, |f| Value::Num(f.head_m)),
+    col("Head low [m]", true, |f| Value::Num(f.head_low_m)),
+    col("Head high [m]", true, |f| Value::Num(f.head_high_m)),
+    col("Loss [kPa]", true, |f| Value::Num(f.dp_pa / 1e3)),
+    col("Source", false, |f| Value::Text(f.source)),
+    col("Rank", false, |f| opt(f.rank.map(|r| r as f64))),
+    col("Annual energy [kWh]", false, |f| opt(f.annual_energy_kwh)),
+    col("Annual cost", false, |f| opt(f.annual_cost)),
+    col("Suggestion (estimate)", false, |f| {
+        Value::Text(
+            f.suggestion
+                .as_ref()
+                .map_or("", |s| s.replace_with.as_str()),
+        )
+    }),
+];
+
+const LINE_COLUMNS: &[Column<LineResult>] = &[
+    col("Length [m]", false, |l| Value::Num(l.length_m)),
+    col("Friction head [m]", true, |l| Value::Num(l.friction_head_m)),
+    col("Fittings head [m]", true, |l| Value::Num(l.fittings_head_m)),
+    col("Total head [m]", true, |l| Value::Num(l.total_head_m)),
+    col("Total low [m]", true, |l| Value::Num(l.total_head_low_m)),
+    col("Total high [m]", true, |l| Value::Num(l.total_head_high_m)),
+    col("Total loss [kPa]", true, |l| {
+        Value::Num(l.total_dp_pa / 1e3)
+    }),
+    col("Max velocity [m/s]", false, |l| {
+        Value::Num(l.max_velocity_m_s)
+    }),
+    col("Density [kg/m3]", false, |l| Value::Num(l.density_kg_m3)),
+    col("Power lost [W]", false, |l| opt(l.power_loss_w)),
+    col("Efficiency used", true, |l| opt(l.efficiency)),
+    col("Hours per year used", false, |l| opt(l.hours_per_year)),
+    col("Annual energy [kWh]", false, |l| opt(l.annual_energy_kwh)),
+    col("Annual cost", false, |l| opt(l.annual_cost)),
+];
+
+/// The computed columns appended to one table's sheet, written row by row as the copy is
+/// streamed: the results are visited in source-row order and nothing is materialised.
+trait Block {
+    /// Row of the table's header (the computed headers go there).
+    fn header_row(&self) -> u32;
+    /// First computed column (one past the sheet's last used column, plus a gap).
+    fn first_col(&self) -> u32;
+    /// Headers in the report's units, and whether each takes three decimals.
+    fn headers(&self) -> &[(String, bool)];
+    /// Write the computed cells of source row `row`, if a result comes from it. Rows must be
+    /// asked for in increasing order.
+    fn write_row(&mut self, ws: &mut Worksheet, row: u32) -> Result<(), XlsxError>;
+}
+
+struct Computed<'a, T: 'static> {
     header_row: u32,
     first_col: u32,
-    columns: Vec<ComputedColumn>,
+    headers: Vec<(String, bool)>,
+    factors: Vec<f64>,
+    columns: &'static [Column<T>],
+    /// Results with their source rows, in row order.
+    items: Vec<(u32, &'a T)>,
+    next: usize,
 }
 
-/// A computed cell: a number (with "three decimals" flag and the unit factor) or text.
-enum Value {
-    Num(f64, bool, f64),
-    Text(String),
+impl<'a, T: 'static> Computed<'a, T> {
+    fn new(
+        layout: &Layout,
+        grid: &SheetGrid,
+        columns: &'static [Column<T>],
+        mut items: Vec<(u32, &'a T)>,
+        units: UnitSystem,
+    ) -> Self {
+        items.sort_by_key(|(r, _)| *r);
+        let (headers, factors) = columns
+            .iter()
+            .map(|c| {
+                let (h, f) = header_in(c.header, units);
+                ((h, c.three), f)
+            })
+            .unzip();
+        Computed {
+            header_row: layout.header_row,
+            first_col: grid.end_col() + 1,
+            headers,
+            factors,
+            columns,
+            items,
+            next: 0,
+        }
+    }
 }
 
-fn computed_columns(
+impl<T: 'static> Block for Computed<'_, T> {
+    fn header_row(&self) -> u32 {
+        self.header_row
+    }
+    fn first_col(&self) -> u32 {
+        self.first_col
+    }
+    fn headers(&self) -> &[(String, bool)] {
+        &self.headers
+    }
+    fn write_row(&mut self, ws: &mut Worksheet, row: u32) -> Result<(), XlsxError> {
+        while self.items.get(self.next).is_some_and(|(r, _)| *r < row) {
+            self.next += 1;
+        }
+        let Some(&(r, item)) = self.items.get(self.next) else {
+            return Ok(());
+        };
+        if r != row {
+            return Ok(());
+        }
+        self.next += 1;
+        for (i, (c, factor)) in self.columns.iter().zip(&self.factors).enumerate() {
+            let col = (self.first_col + i as u32) as u16;
+            match (c.get)(item) {
+                Value::Num(x) if x.is_finite() => {
+                    ws.write_number(row, col, shown(x * factor))?;
+                }
+                Value::Text(t) if !t.is_empty() => {
+                    ws.write_string(row, col, t)?;
+                }
+                _ => {}
+            }
+        }
+        Ok(())
+    }
+}
+
+/// The computed block of one input table, if its kind has computed columns.
+fn computed_block<'a>(
     input: &Input,
-    audit: &Audit,
+    audit: &'a Audit,
     layout: &Layout,
     units: UnitSystem,
-) -> ComputedBlock {
-    let table = layout.table;
+) -> Option<Box<dyn Block + Send + 'a>> {
     let grid = &input.sheets[layout.sheet_index];
-    let first = grid.end_col() + 1;
-    let num = |v: f64| Value::Num(v, false, 1.0);
-    let num3 = |v: f64| Value::Num(v, true, 1.0);
-    let cols: Vec<Computed> = match table {
-        TableKind::Pipes => {
-            let runs: Vec<_> = audit
+    let here = |sheet: &str| sheet == layout.sheet;
+    Some(match layout.table {
+        TableKind::Pipes => Box::new(Computed::new(
+            layout,
+            grid,
+            RUN_COLUMNS,
+            audit
                 .runs
                 .iter()
-                .filter(|r| r.cell.sheet == layout.sheet)
-                .collect();
-            let c = |header, f: &dyn Fn(&crate::audit::RunResult) -> Value| Computed {
-                header,
-                values: runs.iter().map(|r| (r.row, f(r))).collect(),
-            };
-            vec![
-                c("Bore [mm]", &|r| num(r.inner_diameter_m * 1e3)),
-                c("Bore from", &|r| Value::Text(r.bore_basis.clone())),
-                c("Roughness [mm]", &|r| num3(r.roughness_m * 1e3)),
-                c("Velocity [m/s]", &|r| num(r.velocity_m_s)),
-                c("Reynolds", &|r| Value::Num(r.reynolds.round(), false, 1.0)),
-                c("Friction factor", &|r| {
-                    Value::Num(r.friction_factor, true, 1.0)
-                }),
-                c("Regime", &|r| {
-                    Value::Text(format!("{:?}", r.regime).to_lowercase())
-                }),
-                c("Friction head [m]", &|r| num3(r.head_m)),
-                c("Friction loss [kPa]", &|r| num3(r.dp_pa / 1e3)),
-                c(
-                    "Gradient [m/100 m]",
-                    &|r| num(r.head_m / r.length_m * 100.0),
-                ),
-            ]
-        }
-        TableKind::Fittings => {
-            let fs: Vec<_> = audit
+                .filter(|r| here(&r.cell.sheet))
+                .map(|r| (r.row, r))
+                .collect(),
+            units,
+        )),
+        TableKind::Fittings => Box::new(Computed::new(
+            layout,
+            grid,
+            FITTING_COLUMNS,
+            audit
                 .fittings
                 .iter()
-                .filter(|f| f.cell.sheet == layout.sheet)
-                .collect();
-            let c = |header, f: &dyn Fn(&crate::audit::FittingResult) -> Value| Computed {
-                header,
-                values: fs.iter().map(|x| (x.row, f(x))).collect(),
-            };
-            vec![
-                c("Kind", &|f| Value::Text(f.kind.to_string())),
-                c("Model", &|f| Value::Text(f.model.to_string())),
-                c("K", &|f| num3(f.k)),
-                c("K low", &|f| num3(f.k_low)),
-                c("K high", &|f| num3(f.k_high)),
-                c("K refers to bore [mm]", &|f| {
-                    num(f.reference_diameter_m * 1e3)
-                }),
-                c("Velocity [m/s]", &|f| num(f.velocity_m_s)),
-                c("Head [m]", &|f| num3(f.head_m)),
-                c("Head low [m]", &|f| num3(f.head_low_m)),
-                c("Head high [m]", &|f| num3(f.head_high_m)),
-                c("Loss [kPa]", &|f| num3(f.dp_pa / 1e3)),
-                c("Source", &|f| Value::Text(f.source.to_string())),
-                c("Rank", &|f| {
-                    Value::Num(f.rank.map_or(f64::NAN, |r| r as f64), false, 1.0)
-                }),
-                c("Annual energy [kWh]", &|f| {
-                    num(f.annual_energy_kwh.unwrap_or(f64::NAN))
-                }),
-                c("Annual cost", &|f| num(f.annual_cost.unwrap_or(f64::NAN))),
-                c("Suggestion (estimate)", &|f| {
-                    Value::Text(
-                        f.suggestion
-                            .as_ref()
-                            .map(|s| s.replace_with.clone())
-                            .unwrap_or_default(),
-                    )
-                }),
-            ]
-        }
-        TableKind::Lines => {
-            let here =
-                |l: &crate::audit::LineResult| l.sheet.as_deref() == Some(layout.sheet.as_str());
-            let ls: Vec<_> = audit
+                .filter(|f| here(&f.cell.sheet))
+                .map(|f| (f.row, f))
+                .collect(),
+            units,
+        )),
+        TableKind::Lines => Box::new(Computed::new(
+            layout,
+            grid,
+            LINE_COLUMNS,
+            audit
                 .lines
                 .iter()
-                .filter(|l| here(l))
+                .filter(|l| l.sheet.as_deref().is_some_and(here))
                 .filter_map(|l| l.row.map(|r| (r, l)))
-                .collect();
-            let c = |header, f: &dyn Fn(&crate::audit::LineResult) -> Value| Computed {
-                header,
-                values: ls.iter().map(|(r, l)| (*r, f(l))).collect(),
-            };
-            vec![
-                c("Length [m]", &|l| num(l.length_m)),
-                c("Friction head [m]", &|l| num3(l.friction_head_m)),
-                c("Fittings head [m]", &|l| num3(l.fittings_head_m)),
-                c("Total head [m]", &|l| num3(l.total_head_m)),
-                c("Total low [m]", &|l| num3(l.total_head_low_m)),
-                c("Total high [m]", &|l| num3(l.total_head_high_m)),
-                c("Total loss [kPa]", &|l| num3(l.total_dp_pa / 1e3)),
-                c("Max velocity [m/s]", &|l| num(l.max_velocity_m_s)),
-                c("Density [kg/m3]", &|l| num(l.density_kg_m3)),
-                c("Power lost [W]", &|l| {
-                    num(l.power_loss_w.unwrap_or(f64::NAN))
-                }),
-                c("Efficiency used", &|l| {
-                    num3(l.efficiency.unwrap_or(f64::NAN))
-                }),
-                c("Hours per year used", &|l| {
-                    num(l.hours_per_year.unwrap_or(f64::NAN))
-                }),
-                c("Annual energy [kWh]", &|l| {
-                    num(l.annual_energy_kwh.unwrap_or(f64::NAN))
-                }),
-                c("Annual cost", &|l| num(l.annual_cost.unwrap_or(f64::NAN))),
-            ]
-        }
-        _ => Vec::new(),
-    };
-    let columns = cols
-        .into_iter()
-        .map(|c| {
-            let (header, factor) = header_in(c.header, units);
-            let values = c
-                .values
-                .into_iter()
-                .map(|(r, v)| match v {
-                    Value::Num(x, three, f) => (r, Value::Num(x, three, f * factor)),
-                    text => (r, text),
-                })
-                .collect();
-            ComputedColumn {
-                header: Value::Text(header),
-                values,
-            }
-        })
-        .collect();
-    ComputedBlock {
-        header_row: layout.header_row,
-        first_col: first,
-        columns,
-    }
+                .collect(),
+            units,
+        )),
+        _ => return None,
+    })
 }
 
 fn write_summary(
@@ -610,12 +733,25 @@ fn write_summary(
     Ok(())
 }
 
+/// The Findings sheet, an Excel table with a link to each finding's cell. Written row by row
+/// (the sheet streams in constant-memory mode: a huge register has a finding on many rows).
 fn write_findings(ws: &mut Worksheet, audit: &Audit, st: &Styles) -> Result<(), XlsxError> {
     ws.set_landscape().set_print_fit_to_pages(1, 0);
     let headers = [
         "Severity", "Code", "Line", "Tag", "Cell", "Message", "Action",
     ];
+    for (c, w) in [10, 18, 12, 12, 14, 80, 60].into_iter().enumerate() {
+        ws.set_column_width(c as u16, w)?;
+    }
+    ws.set_freeze_panes(1, 0)?;
+    // The table first: it writes the header row, which must come before the data rows here.
     let n = audit.findings.len() as u32;
+    let columns: Vec<TableColumn> = headers
+        .iter()
+        .map(|h| TableColumn::new().set_header(*h))
+        .collect();
+    let table = Table::new().set_columns(&columns).set_name("Findings");
+    ws.add_table(0, 0, n.max(1), headers.len() as u16 - 1, &table)?;
     for (i, f) in audit.findings.iter().enumerate() {
         let r = i as u32 + 1;
         ws.write_string_with_format(r, 0, f.severity.label(), st.severity(f.severity))?;
@@ -625,8 +761,8 @@ fn write_findings(ws: &mut Worksheet, audit: &Audit, st: &Styles) -> Result<(), 
         match &f.cell {
             Some(c) => {
                 let target = format!("internal:{}!{}", quote_sheet(&c.sheet), c.a1());
-                ws.write_url_with_text(r, 4, rust_xlsxwriter::Url::new(target), c.to_string())?;
-                ws.set_cell_format(r, 4, &st.link)?;
+                let url = rust_xlsxwriter::Url::new(target).set_text(c.to_string());
+                ws.write_url_with_format(r, 4, url, &st.link)?;
             }
             None => {
                 ws.write_string(r, 4, "")?;
@@ -635,16 +771,6 @@ fn write_findings(ws: &mut Worksheet, audit: &Audit, st: &Styles) -> Result<(), 
         ws.write_string(r, 5, truncate(&f.message, MAX_CELL_CHARS))?;
         ws.write_string(r, 6, truncate(&f.action, MAX_CELL_CHARS))?;
     }
-    let columns: Vec<TableColumn> = headers
-        .iter()
-        .map(|h| TableColumn::new().set_header(*h))
-        .collect();
-    let table = Table::new().set_columns(&columns).set_name("Findings");
-    ws.add_table(0, 0, n.max(1), headers.len() as u16 - 1, &table)?;
-    for (c, w) in [10, 18, 12, 12, 14, 80, 60].into_iter().enumerate() {
-        ws.set_column_width(c as u16, w)?;
-    }
-    ws.set_freeze_panes(1, 0)?;
     Ok(())
 }
 
