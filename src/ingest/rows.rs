@@ -549,32 +549,40 @@ fn decimal_comma_columns(grid: &SheetGrid, layout: &Layout) -> HashMap<u32, bool
 
 /// Why a row inside a table is not data, when it is not: a header repeated (page breaks), a
 /// totals row, or a note written across the row.
-fn skip_reason(grid: &SheetGrid, layout: &Layout, row: u32) -> Option<String> {
+/// Why a data row is not read, if it is not: a repeated header, a totals row or a note.
+/// `folded_headers` are the layout's headers folded, in column order. Runs on every row, so the
+/// common case (a plain data row) allocates nothing.
+fn skip_reason(
+    grid: &SheetGrid,
+    layout: &Layout,
+    folded_headers: &[String],
+    row: u32,
+) -> Option<String> {
     let text = |col: u32| match grid.value(row, col) {
-        Data::String(s) => Some(s.trim().to_string()),
+        Data::String(s) => Some(s.trim()),
         _ => None,
     };
     let repeated = layout
         .columns
         .iter()
-        .filter(|c| {
-            text(c.col).is_some_and(|t| super::schema::fold(&t) == super::schema::fold(&c.header))
-        })
+        .zip(folded_headers)
+        .filter(|(c, h)| text(c.col).is_some_and(|t| super::schema::fold_eq(t, h)))
         .count();
     if repeated >= 2 {
         return Some("the header repeated".into());
     }
     let first = layout.columns.iter().map(|c| c.col).min()?;
-    let filled: Vec<u32> = (0..grid.end_col())
-        .filter(|&c| !matches!(grid.value(row, c), Data::Empty))
-        .collect();
-    let leading = filled.first().and_then(|&c| text(c)).unwrap_or_default();
-    let folded = super::schema::fold(&leading);
+    let mut filled = (0..grid.end_col()).filter(|&c| !matches!(grid.value(row, c), Data::Empty));
+    let first_filled = filled.next();
+    let only_one_filled = first_filled.is_some() && filled.next().is_none();
+    let leading = first_filled.and_then(text).unwrap_or_default();
+    // The words below are at most 14 characters: fold no more of the text than that.
+    let folded = super::schema::fold_prefix(leading, 14);
     let line_text = layout
         .column("line")
         .and_then(|c| text(c.col))
         .unwrap_or_default();
-    let line_folded = super::schema::fold(&line_text);
+    let line_folded = super::schema::fold_prefix(line_text, 14);
     for word in [
         "total",
         "subtotal",
@@ -584,9 +592,9 @@ fn skip_reason(grid: &SheetGrid, layout: &Layout, row: u32) -> Option<String> {
     ] {
         if folded.starts_with(word) || line_folded.starts_with(word) {
             let t = if line_folded.starts_with(word) {
-                line_text.clone()
+                line_text
             } else {
-                leading.clone()
+                leading
             };
             return Some(format!("a totals row ('{t}')"));
         }
@@ -600,8 +608,8 @@ fn skip_reason(grid: &SheetGrid, layout: &Layout, row: u32) -> Option<String> {
                     .get(w.len()..w.len() + 1)
                     .is_none_or(|c| !c.chars().all(char::is_alphanumeric))
         });
-    if is_note && filled.len() == 1 && filled.first().is_some_and(|&c| c <= first + 1) {
-        return Some(format!("a note ('{}')", truncate(&leading, 40)));
+    if is_note && only_one_filled && first_filled.is_some_and(|c| c <= first + 1) {
+        return Some(format!("a note ('{}')", truncate(leading, 40)));
     }
     None
 }
@@ -615,12 +623,22 @@ fn truncate(s: &str, n: usize) -> String {
 }
 
 /// Visit each non-blank data row of a table; skipped and blank rows go to the parse report.
-fn for_each_row(input: &mut Input, table: TableKind, mut f: impl FnMut(&mut Cells<'_>)) {
+fn for_each_row(
+    input: &Input,
+    sink: &mut Sink,
+    table: TableKind,
+    mut f: impl FnMut(&mut Cells<'_>),
+) {
     let Some(layout) = input.layout(table).cloned() else {
         return;
     };
     let grid = &input.sheets[layout.sheet_index];
     let dc = decimal_comma_columns(grid, &layout);
+    let folded_headers: Vec<String> = layout
+        .columns
+        .iter()
+        .map(|c| super::schema::fold(&c.header))
+        .collect();
     let mut blanks = 0;
     let end = grid.end_row();
     let is_blank = |row: u32| {
@@ -649,16 +667,16 @@ fn for_each_row(input: &mut Input, table: TableKind, mut f: impl FnMut(&mut Cell
             }
             continue;
         }
-        if let Some(reason) = skip_reason(grid, &layout, row) {
+        if let Some(reason) = skip_reason(grid, &layout, &folded_headers, row) {
             let cell = CellRef::new(&layout.sheet, row, 0);
-            input.diagnostics.push(Diagnostic {
+            sink.diagnostics.push(Diagnostic {
                 severity: Severity::Warning,
                 file: input.file.clone(),
                 cell: Some(cell.clone()),
                 message: format!("row skipped: {reason}"),
                 hint: None,
             });
-            input.report.skipped.push(Skipped { cell, reason });
+            sink.skipped.push(Skipped { cell, reason });
             continue;
         }
         let mut cells = Cells {
@@ -667,22 +685,78 @@ fn for_each_row(input: &mut Input, table: TableKind, mut f: impl FnMut(&mut Cell
             layout: &layout,
             decimal_comma: &dc,
             row,
-            diags: &mut input.diagnostics,
-            conversions: &mut input.report.conversions,
+            diags: &mut sink.diagnostics,
+            conversions: &mut sink.conversions,
             errors: 0,
         };
         f(&mut cells);
     }
     if blanks > 0 {
-        input.report.blank_rows.push((layout.sheet.clone(), blanks));
+        sink.blank_rows.push((layout.sheet.clone(), blanks));
     }
 }
 
-/// Read all tables of an input into its row vectors.
+/// What reading one table reports besides its rows; appended to the input in table order.
+#[derive(Default)]
+struct Sink {
+    diagnostics: Vec<Diagnostic>,
+    conversions: Vec<Conversion>,
+    skipped: Vec<Skipped>,
+    blank_rows: Vec<(String, usize)>,
+}
+
+impl Sink {
+    fn append_to(self, input: &mut Input) {
+        input.diagnostics.extend(self.diagnostics);
+        input.report.conversions.extend(self.conversions);
+        input.report.skipped.extend(self.skipped);
+        input.report.blank_rows.extend(self.blank_rows);
+    }
+}
+
+/// Read all tables of an input into its row vectors. Fittings, the longest table of a register,
+/// are read on a second thread while this one reads the others; what the tables report is
+/// appended in table order, so the result does not depend on the threads.
 pub fn read_all(input: &mut Input) {
+    let (sinks, (lines, pipes, fittings, systems, fluids, pump_curves)) = {
+        let input = &*input;
+        std::thread::scope(|scope| {
+            let fittings = scope.spawn(|| {
+                let mut sink = Sink::default();
+                let rows = read_fittings(input, &mut sink);
+                (sink, rows)
+            });
+            let mut sinks: [Sink; 6] = Default::default();
+            let lines = read_lines(input, &mut sinks[0]);
+            let pipes = read_pipes(input, &mut sinks[1]);
+            let systems = read_systems(input, &mut sinks[3]);
+            let fluids = read_fluids(input, &mut sinks[4]);
+            let pump_curves = read_pump_curves(input, &mut sinks[5]);
+            let (fitting_sink, fittings) = fittings
+                .join()
+                .unwrap_or_else(|panic| std::panic::resume_unwind(panic));
+            sinks[2] = fitting_sink;
+            (
+                sinks,
+                (lines, pipes, fittings, systems, fluids, pump_curves),
+            )
+        })
+    };
+    for sink in sinks {
+        sink.append_to(input);
+    }
+    input.lines = lines;
+    input.pipes = pipes;
+    input.fittings = fittings;
+    input.systems = systems;
+    input.fluids = fluids;
+    input.pump_curves = pump_curves;
+}
+
+fn read_lines(input: &Input, sink: &mut Sink) -> Vec<LineRow> {
     let mut lines = Vec::new();
     let mut seen_lines: HashMap<String, CellRef> = HashMap::new();
-    for_each_row(input, TableKind::Lines, |c| {
+    for_each_row(input, sink, TableKind::Lines, |c| {
         let Some(line) = c.text("line") else {
             c.error(
                 "line",
@@ -765,10 +839,12 @@ pub fn read_all(input: &mut Input) {
         });
     });
     lines.shrink_to_fit();
-    input.lines = lines;
+    lines
+}
 
+fn read_pipes(input: &Input, sink: &mut Sink) -> Vec<PipeRow> {
     let mut pipes = Vec::new();
-    for_each_row(input, TableKind::Pipes, |c| {
+    for_each_row(input, sink, TableKind::Pipes, |c| {
         let Some(line) = c.text("line") else {
             c.error(
                 "line",
@@ -881,10 +957,12 @@ pub fn read_all(input: &mut Input) {
         }
     });
     pipes.shrink_to_fit();
-    input.pipes = pipes;
+    pipes
+}
 
+fn read_fittings(input: &Input, sink: &mut Sink) -> Vec<FittingRow> {
     let mut fittings = Vec::new();
-    for_each_row(input, TableKind::Fittings, |c| {
+    for_each_row(input, sink, TableKind::Fittings, |c| {
         let Some(line) = c.text("line") else {
             c.error(
                 "line",
@@ -986,10 +1064,12 @@ pub fn read_all(input: &mut Input) {
         }
     });
     fittings.shrink_to_fit();
-    input.fittings = fittings;
+    fittings
+}
 
+fn read_systems(input: &Input, sink: &mut Sink) -> Vec<SystemRow> {
     let mut systems = Vec::new();
-    for_each_row(input, TableKind::Systems, |c| {
+    for_each_row(input, sink, TableKind::Systems, |c| {
         let Some(system) = c.text("system") else {
             c.error("system", "system id is blank".into(), None);
             return;
@@ -1018,10 +1098,12 @@ pub fn read_all(input: &mut Input) {
             efficiency: c.positive("efficiency", false),
         });
     });
-    input.systems = systems;
+    systems
+}
 
+fn read_fluids(input: &Input, sink: &mut Sink) -> Vec<FluidRow> {
     let mut fluids = Vec::new();
-    for_each_row(input, TableKind::Fluids, |c| {
+    for_each_row(input, sink, TableKind::Fluids, |c| {
         let Some(fluid) = c.text("fluid") else { return };
         let density = c.positive("density", false);
         let viscosity = c.positive("viscosity", false);
@@ -1045,10 +1127,12 @@ pub fn read_all(input: &mut Input) {
             _ => {}
         }
     });
-    input.fluids = fluids;
+    fluids
+}
 
+fn read_pump_curves(input: &Input, sink: &mut Sink) -> Vec<PumpCurveRow> {
     let mut pump_curves = Vec::new();
-    for_each_row(input, TableKind::PumpCurve, |c| {
+    for_each_row(input, sink, TableKind::PumpCurve, |c| {
         let Some(system) = c.text("system") else {
             c.error(
                 "system",
@@ -1077,7 +1161,7 @@ pub fn read_all(input: &mut Input) {
             _ => {}
         }
     });
-    input.pump_curves = pump_curves;
+    pump_curves
 }
 
 /// Checks across tables (after all files are read): every line referenced exists where it must,

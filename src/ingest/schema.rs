@@ -658,6 +658,37 @@ pub fn fold(text: &str) -> String {
     out
 }
 
+/// Whether [`fold`]`(text)` equals `folded`, stopping at the first difference (no allocation).
+pub fn fold_eq(text: &str, folded: &str) -> bool {
+    let mut want = folded.chars();
+    for c in text.chars() {
+        if c == '%' {
+            if !"pct".chars().all(|p| want.next() == Some(p)) {
+                return false;
+            }
+        } else if c.is_alphanumeric() && !c.to_lowercase().all(|l| want.next() == Some(l)) {
+            return false;
+        }
+    }
+    want.next().is_none()
+}
+
+/// The first `n` characters of [`fold`]`(text)`, folding no more of the text than needed.
+pub fn fold_prefix(text: &str, n: usize) -> String {
+    let mut out = String::new();
+    for c in text.chars() {
+        if out.len() >= n {
+            break;
+        }
+        if c == '%' {
+            out.push_str("pct");
+        } else if c.is_alphanumeric() {
+            out.extend(c.to_lowercase());
+        }
+    }
+    out
+}
+
 /// The column of a table a folded header names, if any.
 pub fn match_column(kind: TableKind, folded: &str) -> Option<&'static ColumnSpec> {
     if folded.is_empty() {
@@ -722,6 +753,20 @@ mod tests {
                     }
                 }
             }
+        }
+    }
+
+    proptest::proptest! {
+        /// The allocation-free helpers agree with `fold` on any text (including `%`, case
+        /// changes that expand, and non-ASCII letters).
+        #[test]
+        fn fold_helpers_agree_with_fold(text in "[a-zA-Z0-9 %İßÉé_./-]{0,24}", other in "[a-z0-9%]{0,8}") {
+            let f = fold(&text);
+            proptest::prop_assert!(fold_eq(&text, &f));
+            proptest::prop_assert_eq!(fold_eq(&text, &other), f == other);
+            let p = fold_prefix(&text, 5);
+            proptest::prop_assert!(f.starts_with(&p));
+            proptest::prop_assert!(p.len() >= f.len().min(5));
         }
     }
 }

@@ -111,8 +111,18 @@ pub fn summary_in(audit: &Audit, units: UnitSystem) -> String {
             audit.lines.len()
         ));
     }
-    let mut worst: Vec<_> = audit.fittings.iter().collect();
-    worst.sort_by(|a, b| b.head_m.total_cmp(&a.head_m));
+    // The five with the highest head, ties in input order (only those five are sorted).
+    let mut worst: Vec<(usize, &crate::audit::FittingResult)> =
+        audit.fittings.iter().enumerate().collect();
+    let by_head = |a: &(usize, &crate::audit::FittingResult),
+                   b: &(usize, &crate::audit::FittingResult)| {
+        b.1.head_m.total_cmp(&a.1.head_m).then(a.0.cmp(&b.0))
+    };
+    if worst.len() > 5 {
+        worst.select_nth_unstable_by(4, by_head);
+        worst.truncate(5);
+    }
+    worst.sort_by(by_head);
     if !worst.is_empty() {
         let mut t = Table::new();
         t.load_style(UTF8_FULL_CONDENSED);
@@ -125,7 +135,7 @@ pub fn summary_in(audit: &Audit, units: UnitSystem) -> String {
             format!("Head {len}"),
             "Cell".into(),
         ]);
-        for f in worst.iter().take(5) {
+        for (_, f) in &worst {
             t.add_row([
                 if f.tag.is_empty() {
                     f.item.clone()

@@ -37,10 +37,23 @@ fn label(f: &FittingResult) -> String {
     }
 }
 
-/// Fittings in rank order (ties in input order).
-pub fn ranked(audit: &Audit) -> Vec<&FittingResult> {
-    let mut v: Vec<(usize, &FittingResult)> = audit.fittings.iter().enumerate().collect();
-    v.sort_by_key(|(i, f)| (f.rank.unwrap_or(usize::MAX), *i));
+/// The first `n` fittings in rank order (ties in input order); all of them for `None`. Only the
+/// first `n` are sorted: a huge register needs its worst few, not a full sort, several times.
+pub fn ranked(audit: &Audit, n: Option<usize>) -> Vec<&FittingResult> {
+    let mut v: Vec<((usize, usize), &FittingResult)> = audit
+        .fittings
+        .iter()
+        .enumerate()
+        .map(|(i, f)| ((f.rank.unwrap_or(usize::MAX), i), f))
+        .collect();
+    if let Some(n) = n.filter(|&n| n < v.len()) {
+        if n == 0 {
+            return Vec::new();
+        }
+        v.select_nth_unstable_by_key(n - 1, |(k, _)| *k);
+        v.truncate(n);
+    }
+    v.sort_unstable_by_key(|(k, _)| *k);
     v.into_iter().map(|(_, f)| f).collect()
 }
 
@@ -132,9 +145,8 @@ pub fn write_ranking(
             ws.set_column_format(c, fmt)?;
         }
     }
-    let all = ranked(audit);
     let fits = (SHEET_ROWS - hr - 2) as usize;
-    let items = &all[..all.len().min(rows.unwrap_or(usize::MAX)).min(fits)];
+    let items = ranked(audit, Some(rows.unwrap_or(usize::MAX).min(fits)));
     for (i, f) in items.iter().enumerate() {
         let r = hr + 1 + i as u32;
         let rk = f.ranking;
@@ -198,14 +210,14 @@ pub fn write_ranking(
         let target = format!("internal:{}!{}", quote_sheet(&f.cell.sheet), f.cell.a1());
         ws.write_url_with_text(r, 27, Url::new(target), f.cell.to_string())?;
     }
-    let left = &all[items.len()..];
-    if !left.is_empty() {
-        let cost = |fs: &[&FittingResult]| fs.iter().filter_map(|f| f.annual_cost).sum::<f64>();
-        let total = cost(&all);
+    let left = audit.fittings.len() - items.len();
+    if left > 0 {
+        let total: f64 = audit.fittings.iter().filter_map(|f| f.annual_cost).sum();
+        let listed: f64 = items.iter().filter_map(|f| f.annual_cost).sum();
         let share = if total > 0.0 {
             format!(
                 ", {:.1} % of the annual loss cost",
-                100.0 * cost(left) / total
+                100.0 * (total - listed) / total
             )
         } else {
             String::new()
@@ -215,7 +227,7 @@ pub fn write_ranking(
             0,
             format!(
                 "{} more fittings are not listed here{share}. Every fitting's rank, energy and cost are in the computed columns of its input sheet (sort or filter by Rank); `lossledger audit --ranking-rows all` lists them all.",
-                left.len()
+                left
             ),
             &st.bold,
         )?;
@@ -608,7 +620,7 @@ pub fn write_summary_block(
     for (c, h) in h.enumerate() {
         ws.write_string_with_format(r, c as u16, &h, &st.header)?;
     }
-    for f in ranked(audit).into_iter().take(5) {
+    for f in ranked(audit, Some(5)) {
         r += 1;
         opt(ws, r, 0, f.rank.map(|x| x as f64), &st.n0)?;
         ws.write_string(r, 1, label(f))?;
@@ -633,7 +645,7 @@ pub fn console_energy(audit: &Audit) -> String {
         audit.energy.total_annual_energy_kwh,
         audit.energy.tariff_per_kwh
     );
-    let items = ranked(audit);
+    let items = ranked(audit, Some(5));
     if !items.is_empty() {
         let mut t = Table::new();
         t.load_style(UTF8_FULL_CONDENSED);
@@ -648,7 +660,7 @@ pub fn console_energy(audit: &Audit) -> String {
             &format!("Saving {cur}/yr"),
             "Payback yr",
         ]);
-        for f in items.iter().take(5) {
+        for f in &items {
             let s = f.suggestion.as_ref();
             t.add_row([
                 f.rank.map(|r| r.to_string()).unwrap_or_default(),

@@ -16,7 +16,7 @@ use crate::ingest::{Input, Layout, SheetGrid, TableKind};
 use crate::physics::fitting;
 
 /// Deflate level of the written workbook (1 fastest … 9 smallest).
-const ZIP_LEVEL: u8 = 2;
+const ZIP_LEVEL: u8 = 1;
 
 /// Marks on input cells: worst severity and the note text.
 #[derive(Default)]
