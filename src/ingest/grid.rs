@@ -166,16 +166,64 @@ fn read_formulas_and_merges(bytes: &[u8], file: &str) -> Extras {
     let Ok(mut wb) = open(bytes, file) else {
         return Vec::new();
     };
+    let merges = may_have_merged_ranges(bytes);
     sheet_list(&wb)
         .into_iter()
         .map(|(name, _)| {
             let formulas = wb
                 .worksheet_formula(&name)
                 .unwrap_or_else(|_| Range::empty());
-            let merged = wb.merge_cells_by_sheet_name(&name).unwrap_or_default();
+            let merged = if merges {
+                wb.merge_cells_by_sheet_name(&name).unwrap_or_default()
+            } else {
+                Vec::new()
+            };
             (name, formulas, merged)
         })
         .collect()
+}
+
+/// False only when no worksheet part of the package mentions `mergeCell` (the element that
+/// holds merged ranges, with any namespace prefix): then no sheet has merged ranges. Reading them
+/// through calamine is a full XML pass per sheet; most registers have none, and scanning the
+/// inflated bytes for the word is several times cheaper. Anything unexpected answers true, so
+/// the full pass runs.
+fn may_have_merged_ranges(bytes: &[u8]) -> bool {
+    use std::io::Read;
+    const WORD: &[u8] = b"mergeCell";
+    let Ok(mut zip) = zip::ZipArchive::new(std::io::Cursor::new(bytes)) else {
+        return true;
+    };
+    let finder = memchr::memmem::Finder::new(WORD);
+    let mut buf = vec![0u8; 1 << 16];
+    for i in 0..zip.len() {
+        let Ok(mut part) = zip.by_index(i) else {
+            return true;
+        };
+        let Ok(name) = part.name().map(|n| n.to_ascii_lowercase()) else {
+            return true;
+        };
+        if !name.starts_with("xl/worksheets/") || !name.ends_with(".xml") {
+            continue;
+        }
+        // Keep the tail of each chunk so a word split across two reads is still found.
+        let mut kept = 0;
+        loop {
+            match part.read(&mut buf[kept..]) {
+                Ok(0) => break,
+                Ok(n) => {
+                    let end = kept + n;
+                    if finder.find(&buf[..end]).is_some() {
+                        return true;
+                    }
+                    kept = (WORD.len() - 1).min(end);
+                    buf.copy_within(end - kept..end, 0);
+                }
+                Err(_) => return true,
+            }
+        }
+    }
+    false
 }
 
 fn join_sheets(mut sheets: Vec<SheetGrid>, extras: Extras) -> Vec<SheetGrid> {
@@ -195,5 +243,31 @@ fn describe_xlsx_error(e: &calamine::XlsxError) -> String {
                 .to_string()
         }
         other => other.to_string(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn book(merge: bool) -> Vec<u8> {
+        let mut wb = rust_xlsxwriter::Workbook::new();
+        let ws = wb.add_worksheet();
+        ws.write_string(0, 0, "Line").unwrap();
+        if merge {
+            ws.merge_range(2, 0, 2, 3, "a note across four cells", &Default::default())
+                .unwrap();
+        }
+        wb.save_to_buffer().unwrap()
+    }
+
+    #[test]
+    fn merged_ranges_are_looked_for_only_where_a_sheet_has_them() {
+        assert!(may_have_merged_ranges(&book(true)));
+        assert!(!may_have_merged_ranges(&book(false)));
+        // Not a zip: answer "maybe", so the full pass runs and reports the problem.
+        assert!(may_have_merged_ranges(b"not a zip"));
+        let sheets = read_xlsx_bytes(&book(true), "t.xlsx").unwrap();
+        assert_eq!(sheets[0].merged.len(), 1);
     }
 }

@@ -13,7 +13,6 @@ use super::style::{MAX_CELL_CHARS, Styles, shown, truncate};
 use crate::audit::{Audit, FittingResult, LineResult, RunResult};
 use crate::error::{Severity, quote_sheet};
 use crate::ingest::{Input, Layout, SheetGrid, TableKind};
-use crate::physics::fitting;
 
 /// Deflate level of the written workbook (1 fastest … 9 smallest).
 const ZIP_LEVEL: u8 = 1;
@@ -456,6 +455,12 @@ const RUN_COLUMNS: &[Column<RunResult>] = &[
     }),
 ];
 
+/// Per fitting: what the item was read as, its K with the band, the bore and velocity K applies
+/// to, the head, the rank and the annual cost. What follows from these is not repeated on every
+/// row of a register that may hold a million fittings: the head band is K low/high times the same
+/// velocity head, Δp = ρ·g·head (ρ in Lines), kWh = cost / tariff (Basis); the ranking sheet
+/// shows all of them for the worst items, the JSON for every item, and Basis lists each model's
+/// source once.
 const FITTING_COLUMNS: &[Column<FittingResult>] = &[
     col("Kind", false, |f| Value::Text(f.kind)),
     col("Model", false, |f| Value::Text(f.model)),
@@ -467,12 +472,7 @@ const FITTING_COLUMNS: &[Column<FittingResult>] = &[
     }),
     col("Velocity [m/s]", false, |f| Value::Num(f.velocity_m_s)),
     col("Head [m]", true, |f| Value::Num(f.head_m)),
-    col("Head low [m]", true, |f| Value::Num(f.head_low_m)),
-    col("Head high [m]", true, |f| Value::Num(f.head_high_m)),
-    col("Loss [kPa]", true, |f| Value::Num(f.dp_pa / 1e3)),
-    col("Source", false, |f| Value::Text(f.source)),
     col("Rank", false, |f| opt(f.rank.map(|r| r as f64))),
-    col("Annual energy [kWh]", false, |f| opt(f.annual_energy_kwh)),
     col("Annual cost", false, |f| opt(f.annual_cost)),
     col("Suggestion (estimate)", false, |f| {
         Value::Text(
@@ -870,11 +870,20 @@ fn write_basis(
         line(ws, a, b, false)?;
     }
     line(ws, "", "", false)?;
-    line(ws, "Fitting kinds used", "", true)?;
-    for id in &audit.kinds_used {
-        if let Some(k) = fitting::find_kind(id) {
-            line(ws, id, &format!("{} — {}", k.model_name(), k.source), false)?;
-        }
+    // Each kind, model and source in use once (the Fittings copy names kind and model per row).
+    line(ws, "Fitting kinds, models and sources used", "", true)?;
+    let mut used: BTreeMap<(&str, &str, &str), usize> = BTreeMap::new();
+    for f in &audit.fittings {
+        *used.entry((f.kind, f.model, f.source)).or_default() += 1;
+    }
+    for ((kind, model, source), n) in used {
+        let items = if n == 1 { "item" } else { "items" };
+        line(
+            ws,
+            kind,
+            &format!("{model} — {source} ({n} {items})"),
+            false,
+        )?;
     }
     line(ws, "", "", false)?;
     line(
