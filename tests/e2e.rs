@@ -362,3 +362,54 @@ fn rules_prints_defaults_that_parse_back() {
     let rules = lossledger::audit::Rules::from_toml(&text, "stdout").unwrap();
     assert_eq!(rules, lossledger::audit::Rules::default());
 }
+
+/// `--ranking-rows N` lists the N worst fittings in rank order and says how many are left out;
+/// `all` lists every one. (The tool's own contract, docs/workbook.md.)
+#[test]
+fn ranking_rows_caps_the_ranking_sheet_and_says_what_is_left_out() {
+    let dir = temp_dir("ranking-rows");
+    run_demo(&dir);
+    let input = dir.join("kestrel-ridge.xlsx");
+    let ranks = |rows: &str| -> (Vec<f64>, Option<String>) {
+        let out = dir.join(format!("rows-{rows}.xlsx"));
+        let o = bin()
+            .args(["audit", "--ranking-rows", rows, "-o"])
+            .arg(&out)
+            .arg(&input)
+            .output()
+            .unwrap();
+        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+        let mut book: Xlsx<_> = open_workbook(&out).unwrap();
+        let sheet = book.worksheet_range("Fitting ranking").unwrap();
+        let header = (0..40)
+            .find(|&r| sheet.get_value((r, 0)) == Some(&Data::String("Rank".into())))
+            .expect("ranking header");
+        let ranks: Vec<f64> = (header + 1..sheet.height() as u32)
+            .map_while(|r| match sheet.get_value((r, 0)) {
+                Some(Data::Float(x)) => Some(*x),
+                _ => None,
+            })
+            .collect();
+        let closing =
+            (header + 1..sheet.height() as u32 + 1).find_map(|r| match sheet.get_value((r, 0)) {
+                Some(Data::String(s)) if s.contains("not listed") => Some(s.clone()),
+                _ => None,
+            });
+        (ranks, closing)
+    };
+    let (all, none_left) = ranks("all");
+    assert_eq!(all.len(), 16, "the demo has 16 fittings");
+    assert!(none_left.is_none());
+    assert!(all.windows(2).all(|w| w[0] <= w[1]), "rank order: {all:?}");
+    let (five, left) = ranks("5");
+    assert_eq!(five, all[..5].to_vec());
+    let left = left.expect("a closing line");
+    assert!(left.starts_with("11 more fittings"), "{left}");
+    let bad = bin()
+        .args(["audit", "--ranking-rows", "many"])
+        .arg(&input)
+        .output()
+        .unwrap();
+    assert_eq!(bad.status.code(), Some(2));
+    std::fs::remove_dir_all(&dir).ok();
+}

@@ -226,7 +226,7 @@ pub fn write_ranking(
             hr + 2 + items.len() as u32,
             0,
             format!(
-                "{} more fittings are not listed here{share}. Every fitting's rank, energy and cost are in the computed columns of its input sheet (sort or filter by Rank); `lossledger audit --ranking-rows all` lists them all.",
+                "{} more fittings are not listed here{share}. Every fitting's rank and annual cost are in the computed columns of its input sheet (sort or filter by Rank); `lossledger audit --ranking-rows all` lists them all.",
                 left
             ),
             &st.bold,

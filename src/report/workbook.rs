@@ -80,8 +80,10 @@ pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Wo
             .set_title("lossledger audit")
             .set_comment("Screening estimate; see the Basis sheet"),
     );
-    // Fast deflate: the audit copy holds several times the input's cells; level 2 writes it about
-    // 40 % faster than the default level for a file some 20 % larger (measured, scripts/bench.sh).
+    // Fastest deflate: saving is single-threaded and the copy holds several times the input's
+    // cells. On the 20,000-line benchmark station level 1 saves about 0.5 s faster than level 2
+    // for a file about 35 % larger, and level 2 about 40 % faster than the default level
+    // (measured, scripts/bench.sh; docs/reliability.md).
     wb.set_zip_compression_level(ZIP_LEVEL);
     let mut st = Styles::new();
     st.units = units;
