@@ -600,7 +600,7 @@ fn kinds_json() -> String {
 /// on every return path.
 ///
 /// With the environment variable `LOSSLEDGER_TIMINGS` set, the wall time of each phase is printed
-/// to stderr when the next one starts (used by `scripts/bench.sh`).
+/// to stderr when the next one starts (for profiling; docs/reliability.md).
 struct Progress {
     bar: indicatif::ProgressBar,
     phase: std::cell::RefCell<(&'static str, std::time::Instant)>,
