@@ -27,15 +27,8 @@ pub const REMARKS: &str = "Remarks";
 /// Text in the Remarks cell of the example rows.
 pub const EXAMPLE_NOTE: &str = "INVENTED EXAMPLE ROW: replace or delete it";
 
-/// The tables the template holds, in sheet order.
-pub const TABLES: [TableKind; 6] = [
-    TableKind::Lines,
-    TableKind::Pipes,
-    TableKind::Fittings,
-    TableKind::Systems,
-    TableKind::Fluids,
-    TableKind::PumpCurve,
-];
+/// The tables the template holds, in sheet order: every table, in reading order.
+pub const TABLES: [TableKind; 6] = crate::ingest::schema::ALL_TABLES;
 
 /// The unit label written in the units row for a column (None for text and size columns).
 pub fn unit_label(spec: &ColumnSpec, units: UnitSystem) -> Option<&'static str> {
