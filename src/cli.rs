@@ -233,7 +233,13 @@ fn run(cli: Cli) -> u8 {
                         eprint!("{summary}");
                     } else {
                         print!("{summary}");
-                        println!("Wrote {}", out.display());
+                        print!(
+                            "{}",
+                            report::console::fitted_text(
+                                &format!("Wrote {}", out.display()),
+                                report::text_table::console_width(),
+                            )
+                        );
                     }
                     exit_for(&done, fail_on)
                 }
@@ -559,11 +565,17 @@ fn non_finite_results(
 }
 
 fn kinds_table() -> String {
-    let mut t = comfy_table::Table::new();
-    t.load_style(comfy_table::presets::UTF8_FULL_CONDENSED);
-    t.set_header(["Kind", "Aliases", "Model", "Velocity", "Band", "Source"]);
+    use report::text_table::{Align::Left, TextTable, console_width};
+    let mut t = TextTable::new(&[
+        ("Kind", Left),
+        ("Aliases", Left),
+        ("Model", Left),
+        ("Velocity", Left),
+        ("Band", Left),
+        ("Source", Left),
+    ]);
     for k in fitting::catalogue() {
-        t.add_row([
+        t.row(vec![
             k.id.to_string(),
             k.aliases.join(", "),
             k.model_name().to_string(),
@@ -575,7 +587,11 @@ fn kinds_table() -> String {
             k.source.to_string(),
         ]);
     }
-    format!("{t}\n{} kinds\n", fitting::catalogue().len())
+    format!(
+        "{}{} kinds\n",
+        t.render(console_width()),
+        fitting::catalogue().len()
+    )
 }
 
 fn kinds_json() -> String {

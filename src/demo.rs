@@ -455,14 +455,14 @@ pub fn input_workbook() -> Result<Vec<u8>, XlsxError> {
         wb.add_worksheet(),
         "Pump curve",
         "Kestrel Ridge booster station — pump P-101 test points (invented)",
-        &["System", "Flow [m3/h]", "Head [m]"],
+        &["System", "Flow [m3/h]", "Head [m]", "NPSH required [m]"],
         &[
-            vec![S("Duty A"), N(0.0), N(34.0)],
-            vec![S("Duty A"), N(100.0), N(32.5)],
-            vec![S("Duty A"), N(150.0), N(30.5)],
-            vec![S("Duty A"), N(180.0), N(28.8)],
-            vec![S("Duty A"), N(210.0), N(26.5)],
-            vec![S("Duty A"), N(240.0), N(23.5)],
+            vec![S("Duty A"), N(0.0), N(34.0), E],
+            vec![S("Duty A"), N(100.0), N(32.5), N(3.0)],
+            vec![S("Duty A"), N(150.0), N(30.5), N(3.7)],
+            vec![S("Duty A"), N(180.0), N(28.8), N(4.5)],
+            vec![S("Duty A"), N(210.0), N(26.5), N(5.6)],
+            vec![S("Duty A"), N(240.0), N(23.5), N(7.2)],
         ],
     )?;
     wb.save_to_buffer()
@@ -492,11 +492,17 @@ pub fn run(dir: &Path) -> u8 {
         Ok(audit) => {
             println!("{NOTE}");
             print!("{}", crate::report::console::summary(&audit));
-            println!(
-                "Wrote {}, {} and {}",
-                input.display(),
-                out.display(),
-                json.display()
+            print!(
+                "{}",
+                crate::report::console::fitted_text(
+                    &format!(
+                        "Wrote {}, {} and {}",
+                        input.display(),
+                        out.display(),
+                        json.display()
+                    ),
+                    crate::report::text_table::console_width(),
+                )
             );
             0
         }

@@ -19,6 +19,14 @@ pub const SAVINGS_CAUTION: &str = "Savings and paybacks are estimates from publi
 tariff, efficiency and running hours in force: confirm each one by field test (flow, pressure and motor power \
 measured before and after) before money is spent.";
 
+/// The caution every suggestion that changes a pump's operating point carries (a lower loss on
+/// a pumped line, a valve opened): JSON, ranking sheet, Summary, console, the throttled-valve
+/// finding and docs.
+pub const OPERATING_POINT_CAUTION: &str = "Lowering a loss on a pumped line moves the pump's operating point: \
+opening a valve or removing a loss before speed control or impeller trimming is in place lets the pump run out \
+along its curve (more flow, higher NPSH required, possible motor overload). Put the flow control in place first, \
+then check NPSH and motor current against the maker's data.";
+
 /// A rank that can move by more than this many places across the K bands is marked uncertain
 /// ("a few places": common practice, no source).
 pub const RANK_SHIFT_LIMIT: usize = 3;
@@ -247,6 +255,9 @@ pub struct Suggestion {
     /// Energy saved per year, kWh.
     #[serde(skip)]
     pub annual_saving_kwh: Option<f64>,
+    /// The caution when the change moves a pump's operating point
+    /// ([`OPERATING_POINT_CAUTION`]); None on lines without a pump.
+    pub caution: Option<&'static str>,
 }
 
 /// Station energy totals.
@@ -435,6 +446,7 @@ fn suggest(
         payback_years: payback_years(f.replacement_cost, annual_saving),
         head_saving_m: saved_head,
         annual_saving_kwh: saved.map(|e| e.annual_energy_kwh),
+        caution: pumped.then_some(OPERATING_POINT_CAUTION),
     })
 }
 
@@ -582,7 +594,7 @@ fn throttled_valves(
             Some(&tag),
             cell,
             message,
-            "open the valve fully and set the flow by pump speed control or impeller trimming; confirm the saving by field test",
+            "put pump speed control or impeller trimming in place first, then open the valve fully and set the flow by speed or trim: opened before that, the pump runs out along its curve (more flow, higher NPSH required, possible motor overload); confirm the saving by field test",
         );
     }
 }

@@ -828,6 +828,8 @@ pub struct LineHeads {
     pub fittings_head_m: f64,
     /// Total, m.
     pub total_head_m: f64,
+    /// Total with the fittings at the high end of their K bands, m.
+    pub total_head_high_m: f64,
     /// Regime of the line's first run at this flow (None without runs).
     pub regime: Option<Regime>,
 }
@@ -860,6 +862,7 @@ pub fn line_heads_at(
             friction_head_m: 0.0,
             fittings_head_m: 0.0,
             total_head_m: 0.0,
+            total_head_high_m: 0.0,
             regime: first_regime,
         };
     }
@@ -872,17 +875,17 @@ pub fn line_heads_at(
         friction_head_m +=
             run_friction(d, r.length_m, r.roughness_m, r.c_factor, flow_m3_s, v, re).head_m;
     }
-    let fittings_head_m: f64 = line
+    let (fittings_head_m, fittings_head_high_m) = line
         .fittings
         .iter()
         .filter_map(|&i| fitting_at(models.get(i)?, flow_m3_s, rho, mu).ok())
-        .map(|h| h.head_m)
-        .sum();
+        .fold((0.0, 0.0), |(h, hi), f| (h + f.head_m, hi + f.head_high_m));
     LineHeads {
         flow_m3_s,
         friction_head_m,
         fittings_head_m,
         total_head_m: friction_head_m + fittings_head_m,
+        total_head_high_m: friction_head_m + fittings_head_high_m,
         regime: first_regime,
     }
 }

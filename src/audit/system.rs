@@ -10,7 +10,7 @@ use serde::Serialize;
 use super::lines::{FittingModel, line_heads_at};
 use super::{Audit, Finding, Rules};
 use crate::error::{CellRef, Severity};
-use crate::ingest::{Input, Service, SystemRow, TableKind};
+use crate::ingest::{Input, PumpCurveRow, Service, SystemRow, TableKind};
 use crate::physics::G;
 use crate::physics::fitting::Group;
 use crate::physics::fluid::atmospheric_pressure_pa;
@@ -54,10 +54,24 @@ pub struct SystemResult {
     pub pump_head_m: Option<f64>,
     /// Pump head minus required head, m.
     pub margin_m: Option<f64>,
-    /// NPSH available at the pump suction, m.
+    /// NPSH available at the pump suction at duty flow with the nominal suction losses, m.
     pub npsh_available_m: Option<f64>,
-    /// NPSH required by the pump, m.
+    /// NPSH required by the pump at duty flow, m.
     pub npsh_required_m: Option<f64>,
+    /// The NPSH check at duty flow (suction losses at the high end of their K band).
+    pub npsh_at_duty: Option<NpshCheck>,
+    /// The NPSH check at the operating point, when a pump curve gives one.
+    pub npsh_at_operating_point: Option<NpshCheck>,
+    /// Every check made on the system, with its result, in the order shown.
+    pub checks: Vec<SystemCheck>,
+    /// The system's verdict in words ("passes the checks made", "FAILS duty", …).
+    pub verdict: String,
+    /// Site elevation used for the standard atmosphere, m.
+    pub site_elevation_m: f64,
+    /// Where the site elevation came from (Systems sheet, rules, or assumed sea level).
+    pub site_elevation_basis: String,
+    /// False when no static head was given (Static head, or Elevation change on the lines).
+    pub static_head_given: bool,
     /// Required head from 0 to 130 % of duty flow, friction recomputed at each flow.
     pub curve: Vec<CurvePoint>,
     /// Where the pump curve crosses the system curve, when a pump curve is given.
@@ -80,12 +94,87 @@ pub struct SystemResult {
     /// True when the pump head is below the required head.
     #[serde(skip)]
     pub fails_duty: bool,
-    /// True when NPSH available is below what the margin rule asks for.
+    /// True when NPSH available is below what the margin rule asks for, at duty or at the
+    /// operating point.
     #[serde(skip)]
     pub fails_npsh: bool,
     /// What could not be checked, and why.
     #[serde(skip)]
     pub notes: Vec<String>,
+    /// Defaults that fed the NPSH figures (site elevation, atmosphere, temperature), in words.
+    #[serde(skip)]
+    pub defaults: Vec<String>,
+    /// Cells assumed for the system (the blank Site elevation cell, or the system's id cell when
+    /// there is no such column), marked in the copy.
+    #[serde(skip)]
+    pub assumed: Vec<crate::ingest::rows::Assumed>,
+}
+
+/// What a system check found.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Outcome {
+    /// The check passed.
+    Pass,
+    /// The check failed.
+    Fail,
+    /// Data for the check is missing.
+    NotChecked,
+}
+
+impl Outcome {
+    /// The word shown in reports.
+    pub fn label(self) -> &'static str {
+        match self {
+            Outcome::Pass => "pass",
+            Outcome::Fail => "FAIL",
+            Outcome::NotChecked => "not checked",
+        }
+    }
+}
+
+/// One check made on a system: what was compared, at which flow, and the result.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct SystemCheck {
+    /// What was checked ("pump head at duty", "NPSH at duty", "NPSH at operating point",
+    /// "static head").
+    pub check: &'static str,
+    /// Flow the check was made at, m³/s.
+    pub flow_m3_s: f64,
+    /// What the system has: pump head, or NPSH available with the suction losses at the high
+    /// end of their band, m.
+    pub available_m: Option<f64>,
+    /// NPSH available with the nominal suction losses, m (NPSH checks only).
+    pub nominal_m: Option<f64>,
+    /// What it needs: required head, or the NPSH the margin rule asks for, m.
+    pub needed_m: Option<f64>,
+    /// The result.
+    pub outcome: Outcome,
+    /// Why a check was not made, or what it rests on.
+    pub note: String,
+}
+
+/// NPSH available against required at one flow.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct NpshCheck {
+    /// Flow through the pump, m³/s.
+    pub flow_m3_s: f64,
+    /// Suction losses at this flow with nominal K, m.
+    pub suction_losses_m: f64,
+    /// Suction losses at this flow with every K at the high end of its band, m.
+    pub suction_losses_high_m: f64,
+    /// NPSH available with the nominal suction losses, m.
+    pub available_nominal_m: f64,
+    /// NPSH available with the high-band suction losses (what the margin rule is checked on), m.
+    pub available_m: f64,
+    /// NPSH required at this flow, m.
+    pub required_m: Option<f64>,
+    /// Where NPSH required came from.
+    pub required_basis: String,
+    /// What the margin rule asks for, m.
+    pub needed_m: Option<f64>,
+    /// True when `available_m` is below `needed_m`.
+    pub fails: bool,
 }
 
 /// The terms of an NPSH-available calculation.
@@ -101,8 +190,12 @@ pub struct NpshTerms {
     pub density_kg_m3: f64,
     /// Source liquid level above the pump centreline, m.
     pub suction_level_m: f64,
-    /// Losses of the suction line(s), m.
+    /// Losses of the suction line(s) at duty flow, m.
     pub suction_losses_m: f64,
+    /// The same with every fitting's K at the high end of its band, m.
+    pub suction_losses_high_m: f64,
+    /// Liquid temperature at the suction, °C.
+    pub temperature_c: f64,
 }
 
 /// NPSH available at the pump suction.
@@ -264,248 +357,621 @@ fn definitions(input: &Input) -> Vec<(String, Vec<String>, Option<&SystemRow>)> 
     defs
 }
 
-/// Compute every system and raise `pump-head-short`, `npsh-margin` and `suction-layout`.
-/// `models` are the fittings' models, in the order of `audit.fittings`.
-pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit, models: &[FittingModel]) {
-    let mut results = Vec::new();
-    let mut found: Vec<Finding> = Vec::new();
-    for (id, names, row) in definitions(input) {
-        let mut notes = Vec::new();
-        let mut idx = Vec::new();
-        for n in &names {
-            match audit.line_of(n) {
-                Some(i) => idx.push(i),
-                None => notes.push(format!(
-                    "line {n} is not among the audited lines: left out of the system's head"
-                )),
-            }
-        }
-        let sys_cell = |key: &str| -> Option<CellRef> {
-            row.map(|r| {
-                CellRef::new(
-                    &r.origin.sheet,
-                    r.origin.row,
-                    input.column_of(TableKind::Systems, &r.origin.sheet, key),
-                )
-            })
-        };
-        let line_cell = || -> Option<CellRef> {
-            let first = input
-                .lines
-                .iter()
-                .find(|l| l.system.as_deref() == Some(id.as_str()))?;
-            Some(CellRef::new(
-                &first.origin.sheet,
-                first.origin.row,
-                input.column_of(TableKind::Lines, &first.origin.sheet, "system"),
-            ))
-        };
-        let duty = idx
-            .iter()
-            .find(|&&i| {
-                matches!(
-                    audit.lines[i].service,
-                    Service::PumpSuction | Service::PumpDischarge
-                )
-            })
-            .or(idx.first())
-            .map(|&i| audit.lines[i].flow_m3_s)
-            .unwrap_or(0.0);
-        let given_dz: Vec<f64> = names
-            .iter()
-            .filter_map(|n| {
-                input
-                    .lines
-                    .iter()
-                    .find(|l| l.line == *n)
-                    .and_then(|l| l.elevation_change_m)
-            })
-            .collect();
-        let (static_head_m, static_head_basis) = match row.and_then(|r| r.static_head_m) {
-            Some(h) => (h, "Systems sheet".to_string()),
-            None if !given_dz.is_empty() => (
-                given_dz.iter().sum(),
-                "sum of the lines' Elevation change (pipe ends, not liquid levels)".to_string(),
-            ),
-            None => {
-                notes.push("no static head given (Static head in Systems, or Elevation change in Lines): taken as 0".into());
-                (0.0, "none given: 0".to_string())
-            }
-        };
-        let losses_head_m: f64 = idx.iter().map(|&i| audit.lines[i].total_head_m).sum();
-        let required_head_m = static_head_m + losses_head_m;
-        let curve: Vec<CurvePoint> = CURVE_FRACTIONS
-            .iter()
-            .map(|&x| CurvePoint {
-                flow_m3_s: duty * x,
-                head_m: required_head_at(audit, models, &idx, static_head_m, x),
-            })
-            .collect();
-        let mut pump_curve: Vec<CurvePoint> = input
-            .pump_curves
-            .iter()
-            .filter(|p| p.system == id)
-            .map(|p| CurvePoint {
-                flow_m3_s: p.flow_m3_s,
-                head_m: p.head_m,
-            })
-            .collect();
-        pump_curve.sort_by(|a, b| a.flow_m3_s.total_cmp(&b.flow_m3_s));
-        let (pump_head_m, pump_head_basis) = match row.and_then(|r| r.pump_head_m) {
-            Some(h) => (Some(h), "Systems sheet".to_string()),
-            None => match interpolate(&pump_curve, duty) {
-                Some(h) => (Some(h), "Pump curve at duty flow".to_string()),
-                None => {
-                    notes.push("no pump head at duty flow (Pump head in Systems, or a Pump curve spanning the duty flow): duty not checked".into());
-                    (None, String::new())
-                }
-            },
-        };
-        let operating_point = if duty > 0.0 && pump_curve.len() >= 2 {
-            let op = operating_point(&pump_curve, |q| {
-                required_head_at(audit, models, &idx, static_head_m, q / duty)
-            });
-            if op.is_none() {
-                notes.push(
-                    "the pump curve does not cross the system curve within its flow range".into(),
-                );
-            }
-            op
-        } else {
-            None
-        };
-        let margin_m = pump_head_m.map(|p| p - required_head_m);
-        let fails_duty = margin_m.is_some_and(|m| m < 0.0);
-        if let (Some(m), Some(p)) = (margin_m, pump_head_m)
-            && fails_duty
-        {
-            found.push(Finding {
-                severity: Severity::Error,
-                code: "pump-head-short",
-                line: None,
-                tag: None,
-                cell: sys_cell("pump_head").or_else(line_cell),
-                message: format!(
-                    "system {id}: the pump gives {p:.2} m at {:.1} m3/h but the system needs {required_head_m:.2} m (static {static_head_m:.2} m + losses {losses_head_m:.2} m): short by {:.2} m",
-                    duty * 3600.0,
-                    -m
-                ),
-                action: "the pump cannot deliver the duty flow: cut the losses (see Fitting ranking), check the static head, or re-rate the pump with its maker's curve".into(),
-            });
-        }
+/// Where a system's findings and assumed values point: its Systems row, else the first Lines row
+/// naming it.
+struct Place<'a> {
+    input: &'a Input,
+    row: Option<&'a SystemRow>,
+    id: &'a str,
+}
 
-        // NPSH available on the suction side.
-        let suction: Vec<usize> = idx
-            .iter()
-            .copied()
-            .take_while(|&i| audit.lines[i].service == Service::PumpSuction)
-            .collect();
-        let npsh_required_m = row.and_then(|r| r.npsh_required_m);
-        let mut npsh_terms = None;
-        if suction.is_empty() {
-            if npsh_required_m.is_some() {
-                notes.push(
-                    "no pump-suction line leads the system: NPSH available not computed".into(),
-                );
-            }
-        } else if let Some(level) = row.and_then(|r| r.suction_level_m) {
-            let first = &audit.lines[suction[0]];
-            match first.vapour_pressure_pa {
-                Some(pv) => {
-                    let (ps, basis) = match row.and_then(|r| r.source_pressure_pa) {
-                        Some(p) => (p, "Systems sheet"),
-                        None => (
-                            atmospheric_pressure_pa(rules.npsh.site_elevation_m),
-                            "standard atmosphere at site elevation",
-                        ),
-                    };
-                    npsh_terms = Some(NpshTerms {
-                        source_pressure_pa: ps,
-                        source_pressure_basis: basis,
-                        vapour_pressure_pa: pv,
-                        density_kg_m3: first.density_kg_m3,
-                        suction_level_m: level,
-                        suction_losses_m: suction
-                            .iter()
-                            .map(|&i| audit.lines[i].total_head_m)
-                            .sum(),
-                    });
-                }
-                None => notes.push(format!(
-                    "fluid of line {} has no vapour pressure: NPSH available not computed",
-                    first.line
-                )),
-            }
-        } else {
-            notes.push("no Suction level given: NPSH available not computed".into());
-        }
-        let npsh_available_m = npsh_terms.map(|t| {
-            npsh_available(
-                t.source_pressure_pa,
-                t.vapour_pressure_pa,
-                t.density_kg_m3,
-                t.suction_level_m,
-                t.suction_losses_m,
-            )
-        });
-        let npsh_needed_m = npsh_required_m
-            .map(|r| npsh_needed(r, rules.npsh.margin_ratio, rules.npsh.margin_min_m));
-        let fails_npsh = matches!((npsh_available_m, npsh_needed_m), (Some(a), Some(n)) if a < n);
-        if let (true, Some(a), Some(r), Some(n)) =
-            (fails_npsh, npsh_available_m, npsh_required_m, npsh_needed_m)
-        {
-            found.push(Finding {
-                severity: if a < r { Severity::Error } else { Severity::Warning },
-                code: "npsh-margin",
-                line: suction.first().map(|&i| audit.lines[i].line.clone()),
-                tag: None,
-                cell: sys_cell("npsh_required").or_else(line_cell),
-                message: format!(
-                    "system {id}: NPSH available {a:.2} m against NPSH required {r:.2} m; the margin rule asks for {n:.2} m (max of {:.2} × NPSHr and NPSHr + {:.2} m)",
-                    rules.npsh.margin_ratio, rules.npsh.margin_min_m
-                ),
-                action: if a < r {
-                    "the pump will cavitate at this duty: raise the suction level, cut the suction losses or choose a pump with lower NPSH required"
-                } else {
-                    "cavitation margin is thin: cut the suction losses or raise the suction level; confirm NPSHr with the pump maker's test curve"
-                }
-                .into(),
-            });
-        }
-        suction_layout(input, audit, &idx, &suction, &mut found);
-        results.push(SystemResult {
-            system: id,
-            lines: idx.iter().map(|&i| audit.lines[i].line.clone()).collect(),
-            flow_m3_s: duty,
-            static_head_m,
-            losses_head_m,
-            required_head_m,
-            pump_head_m,
-            margin_m,
-            npsh_available_m,
-            npsh_required_m,
-            curve,
-            operating_point,
-            static_head_basis,
-            pump_head_basis,
-            pump_curve,
-            npsh_needed_m,
-            npsh_terms,
-            fails_duty,
-            fails_npsh,
-            notes,
-        });
+impl Place<'_> {
+    /// The cell of column `key` on the Systems row, or the row's System cell when the sheet has no
+    /// such column; None without a Systems row.
+    fn system(&self, key: &str) -> Option<CellRef> {
+        let r = self.row?;
+        let layout = self.input.layout_on(TableKind::Systems, &r.origin.sheet);
+        let col = layout
+            .and_then(|l| l.column(key).or(l.column("system")))
+            .map_or(0, |c| c.col);
+        Some(CellRef::new(&r.origin.sheet, r.origin.row, col))
     }
+
+    /// The System cell of the first Lines row naming the system.
+    fn line(&self) -> Option<CellRef> {
+        let first = self
+            .input
+            .lines
+            .iter()
+            .find(|l| l.system.as_deref() == Some(self.id))?;
+        Some(CellRef::new(
+            &first.origin.sheet,
+            first.origin.row,
+            self.input
+                .column_of(TableKind::Lines, &first.origin.sheet, "system"),
+        ))
+    }
+
+    fn at(&self, key: &str) -> Option<CellRef> {
+        self.system(key).or_else(|| self.line())
+    }
+
+    /// True when the Systems sheet has column `key`.
+    fn has_column(&self, key: &str) -> bool {
+        self.row.is_some_and(|r| {
+            self.input
+                .layout_on(TableKind::Systems, &r.origin.sheet)
+                .is_some_and(|l| l.column(key).is_some())
+        })
+    }
+}
+
+/// What the system computation reads.
+struct Ctx<'a> {
+    input: &'a Input,
+    rules: &'a Rules,
+    audit: &'a Audit,
+    models: &'a [FittingModel],
+}
+
+/// Compute every system and raise `pump-head-short`, `static-head-missing`, `npsh-margin` and
+/// `suction-layout`. `models` are the fittings' models, in the order of `audit.fittings`.
+pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit, models: &[FittingModel]) {
+    let mut found: Vec<Finding> = Vec::new();
+    let results: Vec<SystemResult> = {
+        let ctx = Ctx {
+            input,
+            rules,
+            audit,
+            models,
+        };
+        definitions(input)
+            .into_iter()
+            .map(|(id, names, row)| one_system(&ctx, id, &names, row, &mut found))
+            .collect()
+    };
     for f in found {
         if !audit
             .findings
             .iter()
-            .any(|g| g.code == f.code && g.cell == f.cell)
+            .any(|g| g.code == f.code && g.cell == f.cell && g.message == f.message)
         {
             audit.findings.push(f);
         }
     }
     audit.systems = results;
+}
+
+/// Static head, where it came from, and whether it was given at all.
+fn static_head(input: &Input, names: &[String], row: Option<&SystemRow>) -> (f64, String, bool) {
+    let given_dz: Vec<f64> = names
+        .iter()
+        .filter_map(|n| {
+            input
+                .lines
+                .iter()
+                .find(|l| l.line == *n)
+                .and_then(|l| l.elevation_change_m)
+        })
+        .collect();
+    match row.and_then(|r| r.static_head_m) {
+        Some(h) => (h, "Systems sheet".to_string(), true),
+        None if !given_dz.is_empty() => (
+            given_dz.iter().sum(),
+            "sum of the lines' Elevation change (pipe ends, not liquid levels)".to_string(),
+            true,
+        ),
+        None => (0.0, "not given: taken as 0".to_string(), false),
+    }
+}
+
+/// Points of one column of the system's pump curve, by flow.
+fn pump_points(
+    input: &Input,
+    id: &str,
+    value: impl Fn(&PumpCurveRow) -> Option<f64>,
+) -> Vec<CurvePoint> {
+    let mut points: Vec<CurvePoint> = input
+        .pump_curves
+        .iter()
+        .filter(|p| p.system == id)
+        .filter_map(|p| {
+            value(p).map(|v| CurvePoint {
+                flow_m3_s: p.flow_m3_s,
+                head_m: v,
+            })
+        })
+        .collect();
+    points.sort_by(|a, b| a.flow_m3_s.total_cmp(&b.flow_m3_s));
+    points
+}
+
+fn one_system(
+    ctx: &Ctx<'_>,
+    id: String,
+    names: &[String],
+    row: Option<&SystemRow>,
+    found: &mut Vec<Finding>,
+) -> SystemResult {
+    let (input, audit) = (ctx.input, ctx.audit);
+    let place = Place {
+        input,
+        row,
+        id: &id,
+    };
+    let mut notes = Vec::new();
+    let mut idx = Vec::new();
+    for n in names {
+        match audit.line_of(n) {
+            Some(i) => idx.push(i),
+            None => notes.push(format!(
+                "line {n} is not among the audited lines: left out of the system's head"
+            )),
+        }
+    }
+    let duty = idx
+        .iter()
+        .find(|&&i| {
+            matches!(
+                audit.lines[i].service,
+                Service::PumpSuction | Service::PumpDischarge
+            )
+        })
+        .or(idx.first())
+        .map(|&i| audit.lines[i].flow_m3_s)
+        .unwrap_or(0.0);
+    let (static_head_m, static_head_basis, static_head_given) = static_head(input, names, row);
+    if !static_head_given {
+        notes.push("no static head given (Static head in Systems, or Elevation change in Lines): taken as 0, so the required head leaves out the lift".into());
+        found.push(Finding {
+            severity: Severity::Warning,
+            code: "static-head-missing",
+            line: None,
+            tag: None,
+            cell: place.at("static_head"),
+            message: format!(
+                "system {id}: no static head given (Static head in Systems, or Elevation change in Lines): taken as 0 m, so its required head and duty check leave out the lift"
+            ),
+            action: "give the static head (delivery liquid level minus source liquid level, plus any pressure difference as head) in the Systems sheet".into(),
+        });
+    }
+    let losses_head_m: f64 = idx.iter().map(|&i| audit.lines[i].total_head_m).sum();
+    let required_head_m = static_head_m + losses_head_m;
+    let curve: Vec<CurvePoint> = CURVE_FRACTIONS
+        .iter()
+        .map(|&x| CurvePoint {
+            flow_m3_s: duty * x,
+            head_m: required_head_at(audit, ctx.models, &idx, static_head_m, x),
+        })
+        .collect();
+    let pump_curve = pump_points(input, &id, |p| Some(p.head_m));
+    let (pump_head_m, pump_head_basis) = match row.and_then(|r| r.pump_head_m) {
+        Some(h) => (Some(h), "Systems sheet".to_string()),
+        None => match interpolate(&pump_curve, duty) {
+            Some(h) => (Some(h), "Pump curve at duty flow".to_string()),
+            None => {
+                notes.push("no pump head at duty flow (Pump head in Systems, or a Pump curve spanning the duty flow): duty not checked".into());
+                (None, String::new())
+            }
+        },
+    };
+    let operating_point = if duty > 0.0 && pump_curve.len() >= 2 {
+        let op = operating_point(&pump_curve, |q| {
+            required_head_at(audit, ctx.models, &idx, static_head_m, q / duty)
+        });
+        if op.is_none() {
+            notes.push(
+                "the pump curve does not cross the system curve within its flow range".into(),
+            );
+        }
+        op
+    } else {
+        None
+    };
+    let margin_m = pump_head_m.map(|p| p - required_head_m);
+    let fails_duty = margin_m.is_some_and(|m| m < 0.0);
+    if let (Some(m), Some(p)) = (margin_m, pump_head_m)
+        && fails_duty
+    {
+        found.push(Finding {
+            severity: Severity::Error,
+            code: "pump-head-short",
+            line: None,
+            tag: None,
+            cell: place.at("pump_head"),
+            message: format!(
+                "system {id}: the pump gives {p:.2} m at {:.1} m3/h but the system needs {required_head_m:.2} m (static {static_head_m:.2} m + losses {losses_head_m:.2} m): short by {:.2} m",
+                duty * 3600.0,
+                -m
+            ),
+            action: "the pump cannot deliver the duty flow: cut the losses (see Fitting ranking), check the static head, or re-rate the pump with its maker's curve".into(),
+        });
+    }
+
+    let suction: Vec<usize> = idx
+        .iter()
+        .copied()
+        .take_while(|&i| audit.lines[i].service == Service::PumpSuction)
+        .collect();
+    let npsh = npsh(
+        ctx,
+        &place,
+        &suction,
+        duty,
+        operating_point,
+        &mut notes,
+        found,
+    );
+    suction_layout(input, audit, &idx, &suction, found);
+
+    let head_check = SystemCheck {
+        check: "pump head at duty",
+        flow_m3_s: duty,
+        available_m: pump_head_m,
+        nominal_m: None,
+        needed_m: Some(required_head_m),
+        outcome: match margin_m {
+            _ if fails_duty => Outcome::Fail,
+            Some(_) if static_head_given => Outcome::Pass,
+            _ => Outcome::NotChecked,
+        },
+        note: match (pump_head_m, static_head_given) {
+            (None, _) => "no pump head at duty flow".into(),
+            (Some(_), false) => "static head not given (taken as 0 m)".into(),
+            (Some(_), true) => String::new(),
+        },
+    };
+    let mut checks = vec![head_check];
+    checks.extend(npsh.checks);
+    let fails_npsh = checks
+        .iter()
+        .any(|c| c.check.starts_with("NPSH") && c.outcome == Outcome::Fail);
+    let verdict = verdict(&checks, static_head_given);
+    SystemResult {
+        system: id,
+        lines: idx.iter().map(|&i| audit.lines[i].line.clone()).collect(),
+        flow_m3_s: duty,
+        static_head_m,
+        losses_head_m,
+        required_head_m,
+        pump_head_m,
+        margin_m,
+        npsh_available_m: npsh.at_duty.as_ref().map(|c| c.available_nominal_m),
+        npsh_required_m: npsh.required_at_duty,
+        npsh_at_duty: npsh.at_duty,
+        npsh_at_operating_point: npsh.at_operating_point,
+        checks,
+        verdict,
+        site_elevation_m: npsh.site_elevation_m,
+        site_elevation_basis: npsh.site_elevation_basis,
+        static_head_given,
+        curve,
+        operating_point,
+        static_head_basis,
+        pump_head_basis,
+        pump_curve,
+        npsh_needed_m: npsh.needed_at_duty,
+        npsh_terms: npsh.terms,
+        fails_duty,
+        fails_npsh,
+        notes,
+        defaults: npsh.defaults,
+        assumed: npsh.assumed,
+    }
+}
+
+/// The verdict in words: what fails, else whether everything checked passed.
+pub fn verdict(checks: &[SystemCheck], static_head_given: bool) -> String {
+    let failed = |name: &str| {
+        checks
+            .iter()
+            .any(|c| c.check == name && c.outcome == Outcome::Fail)
+    };
+    let mut fails = Vec::new();
+    if failed("pump head at duty") {
+        fails.push("duty");
+    }
+    match (failed("NPSH at duty"), failed("NPSH at operating point")) {
+        (true, true) => fails.push("NPSH margin at duty and operating point"),
+        (true, false) => fails.push("NPSH margin"),
+        (false, true) => fails.push("NPSH margin at the operating point"),
+        (false, false) => {}
+    }
+    let missing = if static_head_given {
+        ""
+    } else {
+        "static head not given"
+    };
+    if !fails.is_empty() {
+        let v = format!("FAILS {}", fails.join(" and "));
+        return if missing.is_empty() {
+            v
+        } else {
+            format!("{v}; {missing}")
+        };
+    }
+    if !missing.is_empty() {
+        return missing.to_string();
+    }
+    if checks.iter().any(|c| c.outcome == Outcome::Pass) {
+        "passes the checks made".into()
+    } else {
+        "not checked (data missing)".into()
+    }
+}
+
+/// The NPSH side of a system.
+struct NpshOutcome {
+    terms: Option<NpshTerms>,
+    at_duty: Option<NpshCheck>,
+    at_operating_point: Option<NpshCheck>,
+    required_at_duty: Option<f64>,
+    needed_at_duty: Option<f64>,
+    checks: Vec<SystemCheck>,
+    site_elevation_m: f64,
+    site_elevation_basis: String,
+    defaults: Vec<String>,
+    assumed: Vec<crate::ingest::rows::Assumed>,
+}
+
+/// Site elevation: the Systems cell, else the rules' value when set, else sea level (assumed).
+fn site_elevation(rules: &Rules, row: Option<&SystemRow>) -> (f64, String, bool) {
+    match row.and_then(|r| r.site_elevation_m) {
+        Some(z) => (z, "Systems sheet".into(), false),
+        None if rules.npsh.site_elevation_m != 0.0 => (
+            rules.npsh.site_elevation_m,
+            "rules [npsh] site_elevation_m".into(),
+            false,
+        ),
+        None => (
+            0.0,
+            "assumed: sea level, 0 m (no Site elevation given)".into(),
+            true,
+        ),
+    }
+}
+
+/// NPSH available at duty and at the operating point against NPSH required with the margin rule;
+/// raises `npsh-margin` for each check that fails.
+#[allow(clippy::too_many_arguments)]
+fn npsh(
+    ctx: &Ctx<'_>,
+    place: &Place<'_>,
+    suction: &[usize],
+    duty: f64,
+    op: Option<CurvePoint>,
+    notes: &mut Vec<String>,
+    found: &mut Vec<Finding>,
+) -> NpshOutcome {
+    let (input, rules, audit, row) = (ctx.input, ctx.rules, ctx.audit, place.row);
+    let id = place.id;
+    let (site_elevation_m, site_elevation_basis, elevation_assumed) = site_elevation(rules, row);
+    let mut out = NpshOutcome {
+        terms: None,
+        at_duty: None,
+        at_operating_point: None,
+        required_at_duty: None,
+        needed_at_duty: None,
+        checks: Vec::new(),
+        site_elevation_m,
+        site_elevation_basis,
+        defaults: Vec::new(),
+        assumed: Vec::new(),
+    };
+    let npshr_curve = pump_points(input, id, |p| p.npsh_required_m);
+    let (required_at_duty, duty_basis) = match row.and_then(|r| r.npsh_required_m) {
+        Some(r) => (Some(r), "Systems sheet".to_string()),
+        None => match interpolate(&npshr_curve, duty) {
+            Some(r) => (Some(r), "Pump curve at duty flow".to_string()),
+            None => (None, String::new()),
+        },
+    };
+    out.required_at_duty = required_at_duty;
+    let needed = |r: f64| npsh_needed(r, rules.npsh.margin_ratio, rules.npsh.margin_min_m);
+    out.needed_at_duty = required_at_duty.map(needed);
+    let not_checked = |check: &'static str, flow: f64, note: &str| SystemCheck {
+        check,
+        flow_m3_s: flow,
+        available_m: None,
+        nominal_m: None,
+        needed_m: None,
+        outcome: Outcome::NotChecked,
+        note: note.to_string(),
+    };
+    if suction.is_empty() {
+        if required_at_duty.is_some() {
+            let why = "no pump-suction line leads the system: NPSH available not computed";
+            notes.push(why.into());
+            out.checks.push(not_checked("NPSH at duty", duty, why));
+        }
+        return out;
+    }
+    let first = &audit.lines[suction[0]];
+    let Some(level) = row.and_then(|r| r.suction_level_m) else {
+        let why = "no Suction level given: NPSH available not computed";
+        notes.push(why.into());
+        out.checks.push(not_checked("NPSH at duty", duty, why));
+        return out;
+    };
+    let Some(pv) = first.vapour_pressure_pa else {
+        let why = format!(
+            "fluid of line {} has no vapour pressure: NPSH available not computed",
+            first.line
+        );
+        out.checks.push(not_checked("NPSH at duty", duty, &why));
+        notes.push(why);
+        return out;
+    };
+    let (ps, basis) = match row.and_then(|r| r.source_pressure_pa) {
+        Some(p) => (p, "Systems sheet"),
+        None => {
+            let p = atmospheric_pressure_pa(site_elevation_m);
+            if elevation_assumed {
+                out.defaults
+                    .push("site elevation 0 m assumed (sea level; no Site elevation given)".into());
+            }
+            out.defaults.push(format!(
+                "source pressure {p:.0} Pa, the ISO 2533 standard atmosphere at {site_elevation_m} m (no Source pressure given)"
+            ));
+            if elevation_assumed && let Some(r) = row {
+                let key = if place.has_column("site_elevation") {
+                    "site_elevation"
+                } else {
+                    "system"
+                };
+                if let Some(cell) = place.system(key) {
+                    let _ = r;
+                    out.assumed.push(crate::ingest::rows::Assumed {
+                        cell,
+                        key,
+                        what: format!(
+                            "site elevation 0 m (sea level): standard atmosphere {p:.0} Pa in NPSH available"
+                        ),
+                    });
+                }
+            }
+            (p, "standard atmosphere at site elevation")
+        }
+    };
+    let temperature_assumed = input
+        .lines
+        .iter()
+        .find(|l| l.line == first.line)
+        .is_some_and(|l| l.assumed.iter().any(|a| a.key == "temperature"));
+    if temperature_assumed {
+        out.defaults.push(format!(
+            "temperature {} °C on suction line {} (Temperature blank: assumed)",
+            first.temperature_c, first.line
+        ));
+    }
+    let terms = NpshTerms {
+        source_pressure_pa: ps,
+        source_pressure_basis: basis,
+        vapour_pressure_pa: pv,
+        density_kg_m3: first.density_kg_m3,
+        suction_level_m: level,
+        suction_losses_m: suction.iter().map(|&i| audit.lines[i].total_head_m).sum(),
+        suction_losses_high_m: suction
+            .iter()
+            .map(|&i| audit.lines[i].total_head_high_m)
+            .sum(),
+        temperature_c: first.temperature_c,
+    };
+    out.terms = Some(terms);
+    let check_at =
+        |flow: f64, losses: f64, losses_high: f64, required: Option<f64>, basis: String| {
+            let head = |h: f64| npsh_available(ps, pv, terms.density_kg_m3, level, h);
+            let available_m = head(losses_high);
+            let needed_m = required.map(needed);
+            NpshCheck {
+                flow_m3_s: flow,
+                suction_losses_m: losses,
+                suction_losses_high_m: losses_high,
+                available_nominal_m: head(losses),
+                available_m,
+                required_m: required,
+                required_basis: basis,
+                needed_m,
+                fails: needed_m.is_some_and(|n| available_m < n),
+            }
+        };
+    let duty_check = check_at(
+        duty,
+        terms.suction_losses_m,
+        terms.suction_losses_high_m,
+        required_at_duty,
+        duty_basis,
+    );
+    out.checks.push(npsh_check_row("NPSH at duty", &duty_check));
+    npsh_finding(ctx, place, first, &duty_check, "at duty", found);
+    out.at_duty = Some(duty_check);
+    if let Some(op) = op.filter(|_| duty > 0.0) {
+        let (mut losses, mut high) = (0.0, 0.0);
+        for &i in suction {
+            let l = &audit.lines[i];
+            let h = line_heads_at(audit, ctx.models, l, l.flow_m3_s * op.flow_m3_s / duty);
+            losses += h.total_head_m;
+            high += h.total_head_high_m;
+        }
+        let (required, basis) = match interpolate(&npshr_curve, op.flow_m3_s) {
+            Some(r) => (Some(r), "Pump curve at the operating point".to_string()),
+            None => match required_at_duty {
+                Some(r) => (
+                    Some(r),
+                    "the duty value (no NPSH required on the Pump curve at this flow; NPSH required usually rises with flow, so this may understate it)".to_string(),
+                ),
+                None => (None, String::new()),
+            },
+        };
+        let c = check_at(op.flow_m3_s, losses, high, required, basis);
+        out.checks
+            .push(npsh_check_row("NPSH at operating point", &c));
+        npsh_finding(ctx, place, first, &c, "at the operating point", found);
+        out.at_operating_point = Some(c);
+    }
+    out
+}
+
+/// The checks-table row of one NPSH check.
+fn npsh_check_row(check: &'static str, c: &NpshCheck) -> SystemCheck {
+    SystemCheck {
+        check,
+        flow_m3_s: c.flow_m3_s,
+        available_m: Some(c.available_m),
+        nominal_m: Some(c.available_nominal_m),
+        needed_m: c.needed_m,
+        outcome: match (c.fails, c.needed_m) {
+            (true, _) => Outcome::Fail,
+            (false, Some(_)) => Outcome::Pass,
+            (false, None) => Outcome::NotChecked,
+        },
+        note: if c.required_m.is_none() {
+            "no NPSH required given".into()
+        } else if c.required_basis.starts_with("the duty value") {
+            "NPSH required: duty value".into()
+        } else {
+            String::new()
+        },
+    }
+}
+
+/// `npsh-margin` for a failing NPSH check: an error below NPSH required, a warning inside the
+/// margin.
+fn npsh_finding(
+    ctx: &Ctx<'_>,
+    place: &Place<'_>,
+    first: &super::LineResult,
+    c: &NpshCheck,
+    when: &str,
+    found: &mut Vec<Finding>,
+) {
+    let (Some(r), Some(n), true) = (c.required_m, c.needed_m, c.fails) else {
+        return;
+    };
+    let a = c.available_m;
+    let npsh = &ctx.rules.npsh;
+    found.push(Finding {
+        severity: if a < r { Severity::Error } else { Severity::Warning },
+        code: "npsh-margin",
+        line: Some(first.line.clone()),
+        tag: None,
+        cell: place.at("npsh_required"),
+        message: format!(
+            "system {}: {when} ({:.1} m3/h) NPSH available is {a:.2} m with the suction losses at the high end of their K band ({:.2} m nominal) against NPSH required {r:.2} m ({}); the margin rule asks for {n:.2} m (max of {:.2} × NPSHr and NPSHr + {:.2} m)",
+            place.id,
+            c.flow_m3_s * 3600.0,
+            c.available_nominal_m,
+            c.required_basis,
+            npsh.margin_ratio,
+            npsh.margin_min_m
+        ),
+        action: if a < r {
+            "the pump will cavitate here: raise the suction level, cut the suction losses or choose a pump with lower NPSH required; confirm with the pump maker's NPSH curve and site measurement"
+        } else {
+            "cavitation margin is thin: cut the suction losses or raise the suction level; confirm NPSHr with the pump maker's test curve"
+        }
+        .into(),
+    });
 }
 
 /// `suction-layout`: an elbow or reducer listed last on the suction side (at the pump inlet), and

@@ -206,6 +206,8 @@ pub struct SystemRow {
     pub source_pressure_pa: Option<f64>,
     /// Source level above the pump centreline, m.
     pub suction_level_m: Option<f64>,
+    /// Site elevation above mean sea level, m (None: not given).
+    pub site_elevation_m: Option<f64>,
     /// Wire-to-water efficiency.
     pub efficiency: Option<f64>,
 }
@@ -221,6 +223,8 @@ pub struct PumpCurveRow {
     pub flow_m3_s: f64,
     /// Pump head at that flow, m.
     pub head_m: f64,
+    /// NPSH required at that flow, m (None: not given).
+    pub npsh_required_m: Option<f64>,
 }
 
 /// A row of `Fluids`.
@@ -1095,10 +1099,28 @@ fn read_systems(input: &Input, sink: &mut Sink) -> Vec<SystemRow> {
             npsh_required_m: c.positive("npsh_required", true),
             source_pressure_pa: c.positive("source_pressure", false),
             suction_level_m: c.number("suction_level"),
+            site_elevation_m: site_elevation(c),
             efficiency: c.positive("efficiency", false),
         });
     });
     systems
+}
+
+/// Site elevations the standard atmosphere is used for, m (the Dead Sea shore to high mountain
+/// sites).
+pub const SITE_ELEVATION_RANGE_M: std::ops::RangeInclusive<f64> = -500.0..=6000.0;
+
+fn site_elevation(c: &mut Cells<'_>) -> Option<f64> {
+    let z = c.number("site_elevation")?;
+    if SITE_ELEVATION_RANGE_M.contains(&z) {
+        return Some(z);
+    }
+    c.error(
+        "site_elevation",
+        format!("site elevation {z} m is outside -500 to 6000 m"),
+        Some("give the height of the site above mean sea level in m (or ft with a unit)".into()),
+    );
+    None
 }
 
 fn read_fluids(input: &Input, sink: &mut Sink) -> Vec<FluidRow> {
@@ -1143,6 +1165,7 @@ fn read_pump_curves(input: &Input, sink: &mut Sink) -> Vec<PumpCurveRow> {
         };
         let flow = c.positive("flow", true);
         let head = c.positive("head", true);
+        let npsh_required_m = c.positive("npsh_required", true);
         match (flow, head) {
             (Some(flow_m3_s), Some(head_m)) => pump_curves.push(PumpCurveRow {
                 origin: Origin {
@@ -1152,6 +1175,7 @@ fn read_pump_curves(input: &Input, sink: &mut Sink) -> Vec<PumpCurveRow> {
                 system,
                 flow_m3_s,
                 head_m,
+                npsh_required_m,
             }),
             _ if c.errors == 0 => c.error(
                 "flow",

@@ -541,6 +541,18 @@ static SYSTEMS: TableSpec = TableSpec {
             "Source liquid level above the pump centreline",
         ),
         col(
+            "site_elevation",
+            "Site elevation",
+            Number(Length),
+            &[
+                "Site altitude",
+                "Altitude",
+                "Elevation above sea level",
+                "Height above sea level",
+            ],
+            "Site elevation above mean sea level, for the standard atmosphere (default 0 m, sea level)",
+        ),
+        col(
             "efficiency",
             "Efficiency",
             Number(Fraction),
@@ -618,6 +630,13 @@ static PUMP_CURVE: TableSpec = TableSpec {
             Number(Head),
             &["Pump head", "Total head", "H", "TDH"],
             "Pump head at that flow",
+        ),
+        col(
+            "npsh_required",
+            "NPSH required",
+            Number(Head),
+            &["NPSHr", "NPSH r", "Required NPSH", "NPSH3"],
+            "Pump NPSH required at that flow (optional; from the maker's curve)",
         ),
     ],
 };

@@ -1,7 +1,7 @@
-//! Console summary: lines, worst fittings, findings by severity.
+//! Console summary: lines, worst fittings, the energy review, systems, findings by severity,
+//! laid out by [`super::text_table`] to the terminal's width.
 
-use comfy_table::{Table, presets::UTF8_FULL_CONDENSED};
-
+use super::text_table::{Align, TextTable, console_width, wrap_hanging};
 use crate::audit::Audit;
 use crate::error::Severity;
 
@@ -50,7 +50,8 @@ pub fn header_in(header: &str, units: UnitSystem) -> (String, f64) {
     (header.to_string(), 1.0)
 }
 
-/// Render the summary as text (SI units).
+/// Render the summary as text (SI units), fitted to the console's width
+/// ([`console_width`]).
 pub fn summary(audit: &Audit) -> String {
     summary_in(audit, UnitSystem::Si)
 }
@@ -58,25 +59,40 @@ pub fn summary(audit: &Audit) -> String {
 /// Lines listed on the console at most (all of them up to this many, in input order).
 pub const CONSOLE_LINES: usize = 25;
 
-/// Render the summary as text in the given units.
+/// Render the summary as text in the given units, fitted to the console's width.
 pub fn summary_in(audit: &Audit, units: UnitSystem) -> String {
+    summary_fitted(audit, units, console_width())
+}
+
+/// Prose fitted to `width` (unchanged without one), continuation lines indented by two.
+pub fn fitted_text(text: &str, width: Option<usize>) -> String {
+    match width {
+        Some(w) => wrap_hanging(text, w, 2),
+        None => format!("{text}\n"),
+    }
+}
+
+/// Render the summary as text in the given units with no line wider than `width` (`None`: no
+/// limit, every table at its natural width).
+pub fn summary_fitted(audit: &Audit, units: UnitSystem, width: Option<usize>) -> String {
+    use Align::{Left, Right};
     let mut out = String::new();
-    let mut t = Table::new();
-    t.load_style(UTF8_FULL_CONDENSED);
     let (flow, fq) = header_in("[m3/h]", units);
     let (len, fl) = header_in("[m]", units);
     let (vel, fv) = header_in("[m/s]", units);
     let strip = |s: String| s.trim_matches(['[', ']']).to_string();
     let (flow, len, vel) = (strip(flow), strip(len), strip(vel));
-    t.set_header([
-        "Line".to_string(),
-        "Service".to_string(),
-        format!("Flow {flow}"),
-        format!("Length {len}"),
-        format!("Friction {len}"),
-        format!("Fittings {len}"),
-        format!("Total {len} (range)"),
-        format!("Max v {vel}"),
+    let h = |name: &str, unit: &str| format!("{name}\n{unit}");
+    let mut t = TextTable::new(&[
+        ("Line", Left),
+        ("Service", Left),
+        (&h("Flow", &flow), Right),
+        (&h("Length", &len), Right),
+        (&h("Friction", &len), Right),
+        (&h("Fittings", &len), Right),
+        (&h("Total", &len), Right),
+        (&h("Band", &len), Right),
+        (&h("Max v", &vel), Right),
     ]);
     // A huge register would scroll the terminal for minutes: list the lines with the highest
     // total head and say where the rest are.
@@ -86,31 +102,38 @@ pub fn summary_in(audit: &Audit, units: UnitSystem) -> String {
         shown.truncate(CONSOLE_LINES);
     }
     for l in &shown {
-        t.add_row([
+        t.row(vec![
             l.line.clone(),
             l.service.id().to_string(),
             format!("{:.1}", l.flow_m3_s * 3600.0 * fq),
             format!("{:.1}", l.length_m * fl),
             format!("{:.3}", l.friction_head_m * fl),
             format!("{:.3}", l.fittings_head_m * fl),
+            format!("{:.3}", l.total_head_m * fl),
             format!(
-                "{:.3} ({:.3}–{:.3})",
-                l.total_head_m * fl,
+                "{:.2}–{:.2}",
                 l.total_head_low_m * fl,
                 l.total_head_high_m * fl
             ),
             format!("{:.2}", l.max_velocity_m_s * fv),
         ]);
     }
-    out.push_str(&t.to_string());
-    out.push('\n');
+    out.push_str(&t.render(width));
+    out.push_str(&fitted_text(
+        "Band: total head with every fitting at the low and the high end of its K band.",
+        width,
+    ));
     if audit.lines.len() > shown.len() {
-        out.push_str(&format!(
-            "The {} lines of {} with the highest total head; every line is in the workbook's Summary and Lines sheets.\n",
-            shown.len(),
-            audit.lines.len()
+        out.push_str(&fitted_text(
+            &format!(
+                "The {} lines of {} with the highest total head; every line is in the workbook's Summary and Lines sheets.",
+                shown.len(),
+                audit.lines.len()
+            ),
+            width,
         ));
     }
+    out.push('\n');
     // The five with the highest head, ties in input order (only those five are sorted).
     let mut worst: Vec<(usize, &crate::audit::FittingResult)> =
         audit.fittings.iter().enumerate().collect();
@@ -124,19 +147,17 @@ pub fn summary_in(audit: &Audit, units: UnitSystem) -> String {
     }
     worst.sort_by(by_head);
     if !worst.is_empty() {
-        let mut t = Table::new();
-        t.load_style(UTF8_FULL_CONDENSED);
-        t.set_header([
-            "Worst fittings".to_string(),
-            "Line".into(),
-            "Kind".into(),
-            "Qty".into(),
-            "K".into(),
-            format!("Head {len}"),
-            "Cell".into(),
+        let mut t = TextTable::new(&[
+            ("Worst fittings", Left),
+            ("Line", Left),
+            ("Kind", Left),
+            ("Qty", Right),
+            ("K", Right),
+            (&h("Head", &len), Right),
+            ("Cell", Left),
         ]);
         for (_, f) in &worst {
-            t.add_row([
+            t.row(vec![
                 if f.tag.is_empty() {
                     f.item.clone()
                 } else {
@@ -150,10 +171,10 @@ pub fn summary_in(audit: &Audit, units: UnitSystem) -> String {
                 f.cell.to_string(),
             ]);
         }
-        out.push_str(&t.to_string());
+        out.push_str(&t.render(width));
         out.push('\n');
     }
-    out.push_str(&super::ranking::console_energy(audit));
+    out.push_str(&super::ranking::console_energy(audit, width));
     out.push_str(&format!(
         "Findings: {} error, {} warning, {} info\n",
         audit.count(Severity::Error),

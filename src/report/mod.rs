@@ -4,6 +4,7 @@ pub mod console;
 pub mod json;
 pub mod ranking;
 mod style;
+pub mod text_table;
 pub mod workbook;
 
 use std::path::{Path, PathBuf};

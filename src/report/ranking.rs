@@ -5,10 +5,16 @@ use rust_xlsxwriter::{
 };
 
 use super::style::{MAX_CELL_CHARS, Styles, shown, truncate};
-use crate::audit::energy::{RankBasis, SAVINGS_CAUTION};
+use crate::audit::energy::{OPERATING_POINT_CAUTION, RankBasis, SAVINGS_CAUTION};
 use crate::audit::system::SystemResult;
 use crate::audit::{Audit, FittingResult};
 use crate::error::quote_sheet;
+
+/// What the columns of a systems checks table mean (console, Summary).
+pub const CHECKS_KEY: &str = "Has: pump head, or NPSH available with the suction losses at the high end of their K band; Nominal: NPSH available with the nominal losses; Needs: required head, or the NPSH the margin rule asks for.";
+
+/// The caution beside every systems verdict (console, Summary, Systems sheet).
+pub const SYSTEMS_CAUTION: &str = "Screening checks, not a pump selection: confirm NPSH required, head and motor power with the pump maker's curves and site measurement, under local codes and licensed engineering practice. Line pressures are not computed: vacuum at high points and siphons are not checked.";
 
 /// Number of items in the ranking chart.
 pub const CHART_ITEMS: usize = 20;
@@ -635,34 +641,42 @@ pub fn write_summary_block(
     Ok(r + 2)
 }
 
-/// Console text: annual loss cost, the worst items by cost, and each system's check.
-pub fn console_energy(audit: &Audit) -> String {
-    use comfy_table::{Table, presets::UTF8_FULL_CONDENSED};
+/// Console text: annual loss cost, the worst items by cost, and each system's figures, checks
+/// and verdict, fitted to `width` (see [`super::text_table`]).
+pub fn console_energy(audit: &Audit, width: Option<usize>) -> String {
+    use super::console::fitted_text;
+    use super::text_table::{Align::Left, Align::Right, TextTable};
     let cur = &audit.energy.currency;
-    let mut out = format!(
-        "Annual cost of losses: {cur} {:.0} ({:.0} kWh at {cur} {} per kWh; estimates to confirm by field test)\n",
-        audit.energy.total_annual_cost,
-        audit.energy.total_annual_energy_kwh,
-        audit.energy.tariff_per_kwh
+    let mut out = fitted_text(
+        &format!(
+            "Annual cost of losses: {cur} {:.0} ({:.0} kWh at {cur} {} per kWh; estimates to confirm by field test)",
+            audit.energy.total_annual_cost,
+            audit.energy.total_annual_energy_kwh,
+            audit.energy.tariff_per_kwh
+        ),
+        width,
     );
     let items = ranked(audit, Some(5));
     if !items.is_empty() {
-        let mut t = Table::new();
-        t.load_style(UTF8_FULL_CONDENSED);
-        t.set_header([
-            "Rank",
-            "Fitting",
-            "Line",
-            "Head m",
-            &format!("{cur}/yr"),
-            "Rank holds",
-            "Suggestion",
-            &format!("Saving {cur}/yr"),
-            "Payback yr",
-        ]);
+        let per_year = format!("Cost\n{cur}/yr");
+        let saving = format!("Saving\n{cur}/yr");
+        let mut t = TextTable::new(&[
+            ("Rank", Right),
+            ("Fitting", Left),
+            ("Line", Left),
+            ("Head\nm", Right),
+            (&per_year, Right),
+            ("Rank\nholds", Left),
+            ("Suggestion", Left),
+            (&saving, Right),
+            ("Payback\nyr", Right),
+        ])
+        .keyed_by(1);
+        let mut marked = false;
         for f in &items {
             let s = f.suggestion.as_ref();
-            t.add_row([
+            marked |= s.is_some_and(|s| s.caution.is_some());
+            t.row(vec![
                 f.rank.map(|r| r.to_string()).unwrap_or_default(),
                 label(f),
                 f.line.clone(),
@@ -679,7 +693,7 @@ pub fn console_energy(audit: &Audit) -> String {
                         }
                     })
                     .unwrap_or_default(),
-                s.map(|s| s.replace_with.clone()).unwrap_or_default(),
+                s.map(|s| suggestion_text(s, "*")).unwrap_or_default(),
                 s.and_then(|s| s.annual_saving)
                     .map(|x| format!("{x:.0}"))
                     .unwrap_or_default(),
@@ -688,45 +702,125 @@ pub fn console_energy(audit: &Audit) -> String {
                     .unwrap_or_default(),
             ]);
         }
-        out.push_str(&t.to_string());
+        out.push_str(&t.render(width));
+        if marked {
+            out.push_str(&fitted_text(&format!("* {OPERATING_POINT_CAUTION}"), width));
+        }
         out.push('\n');
     }
     if !audit.systems.is_empty() {
-        let mut t = Table::new();
-        t.load_style(UTF8_FULL_CONDENSED);
-        t.set_header([
-            "System",
-            "Lines",
-            "Flow m³/h",
-            "Static m",
-            "Losses m",
-            "Required m",
-            "Pump m",
-            "Margin m",
-            "NPSHa m",
-            "NPSHr m",
-            "Operating point",
+        out.push_str(&console_systems(audit, width));
+    }
+    out
+}
+
+/// The defaults that fed NPSH available, one sentence per set of systems sharing them
+/// ("Defaults applied to NPSH (Duty A, Duty B): …").
+pub fn defaults_applied(audit: &Audit) -> Vec<String> {
+    let mut groups: Vec<(Vec<&str>, &Vec<String>)> = Vec::new();
+    for s in audit.systems.iter().filter(|s| !s.defaults.is_empty()) {
+        match groups.iter_mut().find(|(_, d)| **d == s.defaults) {
+            Some((names, _)) => names.push(&s.system),
+            None => groups.push((vec![&s.system], &s.defaults)),
+        }
+    }
+    groups
+        .into_iter()
+        .map(|(names, d)| {
+            format!(
+                "Defaults applied to NPSH ({}): {}.",
+                names.join(", "),
+                d.join("; ")
+            )
+        })
+        .collect()
+}
+
+/// A suggestion's words, with `mark` after them when it carries the operating-point caution.
+pub fn suggestion_text(s: &crate::audit::energy::Suggestion, mark: &str) -> String {
+    match s.caution {
+        Some(_) => format!("{} {mark}", s.replace_with),
+        None => s.replace_with.clone(),
+    }
+}
+
+/// Console systems block: figures, every check with its pass/fail, the verdicts, the defaults
+/// that fed NPSH and the screening caution.
+fn console_systems(audit: &Audit, width: Option<usize>) -> String {
+    use super::console::fitted_text;
+    use super::text_table::{Align::Left, Align::Right, TextTable};
+    let f2 = |v: Option<f64>| v.map(|x| format!("{x:.2}")).unwrap_or_else(|| "—".into());
+    let mut out = String::new();
+    let mut t = TextTable::new(&[
+        ("System", Left),
+        ("Duty\nm³/h", Right),
+        ("Static\nm", Right),
+        ("Losses\nm", Right),
+        ("Required\nm", Right),
+        ("Pump\nm", Right),
+        ("Margin\nm", Right),
+        ("Operating\npoint", Left),
+        ("Lines", Left),
+    ]);
+    for s in &audit.systems {
+        t.row(vec![
+            s.system.clone(),
+            format!("{:.1}", m3h(s.flow_m3_s)),
+            if s.static_head_given {
+                format!("{:.2}", s.static_head_m)
+            } else {
+                "none".into()
+            },
+            format!("{:.2}", s.losses_head_m),
+            format!("{:.2}", s.required_head_m),
+            f2(s.pump_head_m),
+            f2(s.margin_m),
+            s.operating_point
+                .map(|p| format!("{:.1} m³/h at {:.2} m", m3h(p.flow_m3_s), p.head_m))
+                .unwrap_or_else(|| "—".into()),
+            s.lines.join(", "),
         ]);
-        let f2 = |v: Option<f64>| v.map(|x| format!("{x:.2}")).unwrap_or_else(|| "—".into());
-        for s in &audit.systems {
-            t.add_row([
+    }
+    out.push_str(&t.render(width));
+    out.push('\n');
+    let mut t = TextTable::new(&[
+        ("System", Left),
+        ("Check", Left),
+        ("At\nm³/h", Right),
+        ("Has\nm", Right),
+        ("Nominal\nm", Right),
+        ("Needs\nm", Right),
+        ("Result", Left),
+        ("Note", Left),
+    ]);
+    for s in &audit.systems {
+        for c in &s.checks {
+            t.row(vec![
                 s.system.clone(),
-                s.lines.join(", "),
-                format!("{:.1}", m3h(s.flow_m3_s)),
-                format!("{:.2}", s.static_head_m),
-                format!("{:.2}", s.losses_head_m),
-                format!("{:.2}", s.required_head_m),
-                f2(s.pump_head_m),
-                f2(s.margin_m),
-                f2(s.npsh_available_m),
-                f2(s.npsh_required_m),
-                s.operating_point
-                    .map(|p| format!("{:.1} m³/h at {:.2} m", m3h(p.flow_m3_s), p.head_m))
-                    .unwrap_or_else(|| "—".into()),
+                c.check.to_string(),
+                format!("{:.1}", m3h(c.flow_m3_s)),
+                f2(c.available_m),
+                c.nominal_m.map(|x| format!("{x:.2}")).unwrap_or_default(),
+                f2(c.needed_m),
+                c.outcome.label().to_string(),
+                c.note.clone(),
             ]);
         }
-        out.push_str(&t.to_string());
-        out.push('\n');
     }
+    if !t.is_empty() {
+        out.push_str(&t.render(width));
+        out.push_str(&fitted_text(CHECKS_KEY, width));
+    }
+    for s in &audit.systems {
+        out.push_str(&fitted_text(
+            &format!("System {}: {}", s.system, s.verdict),
+            width,
+        ));
+    }
+    for line in defaults_applied(audit) {
+        out.push_str(&fitted_text(&line, width));
+    }
+    out.push_str(&fitted_text(SYSTEMS_CAUTION, width));
+    out.push('\n');
     out
 }
