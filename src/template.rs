@@ -239,6 +239,8 @@ fn write_readme(ws: &mut Worksheet, units: UnitSystem, header: &Format) -> Resul
         "Sizes: DN100, 100NB, NPS 4, 4\", 1-1/2\", 110 OD, 114.3x6.02 (OD x wall), ID 102.3. A bare number needs a unit in the units row (mm means DN, in means NPS).",
         "Other sheets, and columns not listed here, are kept unchanged in the annotated copy.",
         "Check a filled workbook with: lossledger check FILE.xlsx — then audit it with: lossledger audit FILE.xlsx",
+        "Caution: the audit is a screening estimate. No line pressures are computed, so vacuum at high points and siphons are not checked; NPSH and pump checks defer to the pump maker's curves, site measurement, local codes and licensed engineering practice.",
+        "Caution on suggestions: opening a valve or removing a loss on a pumped line before speed control or impeller trimming is in place lets the pump run out along its curve (more flow, higher NPSH required, possible motor overload).",
     ];
     for t in intro {
         ws.write_string_with_format(r, 0, t, if r == 0 { &bold } else { &wrap })?;

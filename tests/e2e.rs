@@ -413,3 +413,123 @@ fn ranking_rows_caps_the_ranking_sheet_and_says_what_is_left_out() {
     assert_eq!(bad.status.code(), Some(2));
     std::fs::remove_dir_all(&dir).ok();
 }
+
+/// A sheet with headers in row 1 and one row of values (numbers where they parse).
+fn sheet_row(wb: &mut rust_xlsxwriter::Workbook, name: &str, headers: &[&str], row: &[&str]) {
+    pipes(wb, headers, row);
+    let last = wb.worksheets_mut().len() - 1;
+    wb.worksheets_mut()[last].set_name(name).unwrap();
+}
+
+fn longest_line(text: &str) -> usize {
+    text.lines().map(|l| l.chars().count()).max().unwrap_or(0)
+}
+
+#[test]
+fn demo_console_shows_each_check_with_the_failing_system_within_80_and_100_columns() {
+    for width in [80usize, 100] {
+        let dir = temp_dir(&format!("columns-{width}"));
+        let out = bin()
+            .arg("demo")
+            .arg("--dir")
+            .arg(&dir)
+            .env("COLUMNS", width.to_string())
+            .output()
+            .unwrap();
+        assert!(out.status.success());
+        let text = String::from_utf8_lossy(&out.stdout);
+        assert!(
+            longest_line(&text) <= width,
+            "a line is wider than {width}:\n{text}"
+        );
+        assert!(!text.contains('│') && !text.contains('┆'), "no box drawing");
+        // Duty B: pump 22.50 m against 23.70 m required, NPSHa 3.99 m against 4.40 m.
+        let fail_rows: Vec<&str> = text
+            .lines()
+            .filter(|l| l.starts_with("Duty B") && l.contains("FAIL"))
+            .collect();
+        assert_eq!(fail_rows.len(), 2, "{width}:\n{text}");
+        assert!(
+            text.contains("System Duty B: FAILS duty and NPSH margin"),
+            "{text}"
+        );
+        assert!(text.contains("System Duty A: passes the checks made"));
+        assert!(
+            text.lines()
+                .any(|l| l.starts_with("Duty A") && l.contains("operating") && l.contains("pass")),
+            "the operating-point check is listed:\n{text}"
+        );
+        let flat = text.split_whitespace().collect::<Vec<_>>().join(" ");
+        assert!(flat.contains("vacuum at high points and siphons are not checked"));
+        assert!(flat.contains("before speed control or impeller trimming"));
+        let kinds = bin()
+            .arg("kinds")
+            .env("COLUMNS", width.to_string())
+            .output()
+            .unwrap();
+        let kinds = String::from_utf8_lossy(&kinds.stdout);
+        assert!(longest_line(&kinds) <= width, "kinds at {width}:\n{kinds}");
+    }
+}
+
+#[test]
+fn a_system_with_no_static_head_raises_its_warning_through_the_binary() {
+    let dir = temp_dir("no-static");
+    let path = dir.join("no-static.xlsx");
+    let mut wb = rust_xlsxwriter::Workbook::new();
+    sheet_row(
+        &mut wb,
+        "Lines",
+        &["Line", "Service", "Flow [m3/h]"],
+        &["D1", "pump-discharge", "100"],
+    );
+    sheet_row(
+        &mut wb,
+        "Pipes",
+        &["Line", "Size", "Length [m]"],
+        &["D1", "DN150", "50"],
+    );
+    sheet_row(
+        &mut wb,
+        "Systems",
+        &["System", "Lines", "Pump head [m]"],
+        &["NoLift", "D1", "30"],
+    );
+    wb.save(&path).unwrap();
+    let json = dir.join("out.json");
+    let o = bin()
+        .arg("audit")
+        .arg(&path)
+        .arg("--json")
+        .arg(&json)
+        .env("COLUMNS", "100")
+        .output()
+        .unwrap();
+    let stdout = String::from_utf8_lossy(&o.stdout);
+    assert_eq!(o.status.code(), Some(0), "{stdout}");
+    assert!(
+        stdout.contains("System NoLift: static head not given"),
+        "{stdout}"
+    );
+    assert!(!stdout.contains("System NoLift: passes"));
+    let v: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(&json).unwrap()).unwrap();
+    let finding = v["findings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|f| f["code"] == "static-head-missing")
+        .expect("static-head-missing in the JSON");
+    assert_eq!(finding["severity"], "warning");
+    assert_eq!(v["systems"][0]["verdict"], "static head not given");
+    let o = bin()
+        .arg("audit")
+        .arg(&path)
+        .arg("-o")
+        .arg(dir.join("again.xlsx"))
+        .arg("--fail-on")
+        .arg("warning")
+        .output()
+        .unwrap();
+    assert_eq!(o.status.code(), Some(1), "the warning counts for --fail-on");
+}

@@ -462,3 +462,250 @@ fn suction_layout_flags_an_elbow_at_the_pump_and_a_small_suction_bore() {
         b.findings
     );
 }
+
+/// Worked example 4 of docs/energy.md: the two-line system of example 2 (duty 144 m3/h) on a
+/// straight pump curve through 31.326937729133 m at zero flow and 21.326937729133 m at
+/// 360 m3/h, which crosses the system curve at 180 m3/h; NPSH required 3.0 m at 144 m3/h and
+/// `npshr_360` at 360 m3/h on the Pump curve; suction level 2.0 m; `elevation` in a Site
+/// elevation column when given.
+fn operating_book(name: &str, npshr_360: f64, elevation: Option<f64>) -> PathBuf {
+    let mut sys_headers = vec!["System", "Lines", "Static head [m]", "Suction level [m]"];
+    let mut sys_row = vec![C::S("Two"), C::S("S1, D1"), C::N(12.0), C::N(2.0)];
+    if let Some(z) = elevation {
+        sys_headers.push("Site elevation [m]");
+        sys_row.push(C::N(z));
+    }
+    let sys_headers: &'static [&'static str] = Box::leak(sys_headers.into_boxed_slice());
+    book(
+        name,
+        &[
+            (
+                "Lines",
+                &["Line", "Service", "Flow [m3/h]", "Temperature [°C]"],
+                vec![
+                    vec![C::S("S1"), C::S("pump-suction"), C::N(144.0), C::N(20.0)],
+                    vec![C::S("D1"), C::S("pump-discharge"), C::N(144.0), C::N(20.0)],
+                ],
+            ),
+            (
+                "Pipes",
+                &["Line", "Inner diameter [mm]", "Length [m]", "C factor"],
+                vec![
+                    vec![C::S("S1"), C::N(200.0), C::N(10.0), C::N(120.0)],
+                    vec![C::S("D1"), C::N(150.0), C::N(200.0), C::N(120.0)],
+                ],
+            ),
+            (
+                "Fittings",
+                &["Tag", "Line", "Item", "K"],
+                vec![
+                    vec![C::S("S1-K"), C::S("S1"), C::E, C::N(0.5)],
+                    vec![C::S("D1-K"), C::S("D1"), C::E, C::N(5.0)],
+                ],
+            ),
+            ("Systems", sys_headers, vec![sys_row]),
+            (
+                "Pump curve",
+                &["System", "Flow [m3/h]", "Head [m]", "NPSHr [m]"],
+                vec![
+                    vec![C::S("Two"), C::N(0.0), C::N(31.326_937_729_133), C::E],
+                    vec![
+                        C::S("Two"),
+                        C::N(144.0),
+                        C::N(27.326_937_729_133),
+                        C::N(3.0),
+                    ],
+                    vec![
+                        C::S("Two"),
+                        C::N(360.0),
+                        C::N(21.326_937_729_133),
+                        C::N(npshr_360),
+                    ],
+                ],
+            ),
+        ],
+    )
+}
+
+// Source: docs/energy.md worked example 4 (hand-worked: Hazen–Williams SI form, given K with its
+// ±10 % band, water at 20 °C from fixtures/reference/water_iapws.csv, iapws 1.5.5).
+#[test]
+fn npsh_at_the_operating_point_with_high_band_suction_losses_matches_worked_example_4() {
+    const TOL: f64 = 1e-9;
+    let a = audit(&operating_book("op-npsh", 6.0, None), &Rules::default());
+    let s = &a.systems[0];
+    let op = s.operating_point.expect("the curves cross");
+    assert!(rel(op.flow_m3_s, 0.05) < TOL, "{}", op.flow_m3_s);
+    assert!(rel(op.head_m, 26.326_937_729_133_4) < TOL, "{}", op.head_m);
+    let duty = s.npsh_at_duty.as_ref().unwrap();
+    assert!(rel(duty.suction_losses_m, 0.139_683_203_239_088) < TOL);
+    assert!(rel(duty.suction_losses_high_m, 0.143_815_957_386_216) < TOL);
+    assert!(rel(duty.available_nominal_m, 11.972_197_581_530_8) < TOL);
+    assert!(rel(duty.available_m, 11.968_064_827_383_7) < TOL);
+    assert_eq!(
+        duty.required_m,
+        Some(3.0),
+        "NPSHr from the Pump curve at 144 m3/h"
+    );
+    assert!(rel(duty.needed_m.unwrap(), 3.6) < 1e-12);
+    let at = s.npsh_at_operating_point.as_ref().unwrap();
+    assert!(rel(at.flow_m3_s, 0.05) < TOL);
+    assert!(rel(at.suction_losses_m, 0.213_262_553_706_234) < TOL);
+    assert!(rel(at.suction_losses_high_m, 0.219_719_982_061_122) < TOL);
+    assert!(
+        rel(at.available_nominal_m, 11.898_618_231_063_7) < TOL,
+        "{}",
+        at.available_nominal_m
+    );
+    assert!(
+        rel(at.available_m, 11.892_160_802_708_8) < TOL,
+        "{}",
+        at.available_m
+    );
+    // NPSHr on the curve: 3.0 + (180 − 144)/(360 − 144) × (6.0 − 3.0) = 3.5 m; margin rule
+    // max(1.1 × 3.5, 3.5 + 0.6) = 4.1 m.
+    assert!(rel(at.required_m.unwrap(), 3.5) < TOL);
+    assert!(rel(at.needed_m.unwrap(), 4.1) < TOL);
+    assert!(!s.fails_npsh);
+    assert_eq!(s.verdict, "passes the checks made");
+}
+
+#[test]
+fn npsh_can_fail_at_the_operating_point_alone() {
+    // NPSHr 63 m at 360 m3/h: 3.0 + 36/216 × 60 = 13.0 m at 180 m3/h, more than the 11.89 m
+    // available there, while the duty point (3.0 m against 11.97 m) passes.
+    let a = audit(&operating_book("op-fail", 63.0, None), &Rules::default());
+    let s = &a.systems[0];
+    assert!(!s.npsh_at_duty.as_ref().unwrap().fails);
+    assert!(s.npsh_at_operating_point.as_ref().unwrap().fails);
+    assert_eq!(s.verdict, "FAILS NPSH margin at the operating point");
+    let f: Vec<_> = a
+        .findings
+        .iter()
+        .filter(|f| f.code == "npsh-margin")
+        .collect();
+    assert_eq!(f.len(), 1, "{f:?}");
+    assert_eq!(f[0].severity, Severity::Error, "below NPSHr itself");
+    assert!(f[0].message.contains("operating point"), "{}", f[0].message);
+}
+
+fn atmosphere_fixture(z: f64) -> f64 {
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/fixtures/reference/atmosphere_1976.csv"
+    ))
+    .unwrap();
+    text.lines()
+        .skip(1)
+        .map(|l| {
+            let v: Vec<f64> = l.split(',').map(|x| x.parse().unwrap()).collect();
+            (v[0], v[1])
+        })
+        .find(|(zz, _)| (zz - z).abs() < 1e-9)
+        .map(|(_, p)| p)
+        .unwrap_or_else(|| panic!("no fixture row at {z} m"))
+}
+
+// Sources: fixtures/reference/atmosphere_1976.csv (fluids 1.3.1 ATMOSPHERE_1976, the U.S.
+// Standard Atmosphere 1976, identical to ISO 2533:1975 below 32 km): 101 325 Pa at 0 m and
+// 84 559.68 Pa at 1 500 m geometric. ISO 2533 table, 1 500 m geopotential: 84 556 Pa (from
+// memory); 1 500 m geometric is 1 499.65 m geopotential, hence the few pascals between them.
+#[test]
+fn site_elevation_column_at_0_and_1500_m_uses_the_standard_atmosphere() {
+    let (rho, _) = fixture_water(20.0);
+    let sea = audit(&operating_book("z0", 6.0, Some(0.0)), &Rules::default());
+    let high = audit(
+        &operating_book("z1500", 6.0, Some(1500.0)),
+        &Rules::default(),
+    );
+    let p = |a: &lossledger::audit::Audit| a.systems[0].npsh_terms.unwrap().source_pressure_pa;
+    assert_eq!(p(&sea), atmosphere_fixture(0.0));
+    assert!(
+        rel(p(&high), atmosphere_fixture(1500.0)) < 1e-9,
+        "{}",
+        p(&high)
+    );
+    assert!(
+        (p(&high) - 84_556.0).abs() < 10.0,
+        "ISO 2533 table, from memory"
+    );
+    assert_eq!(high.systems[0].site_elevation_basis, "Systems sheet");
+    assert!(
+        sea.systems[0].assumed.is_empty(),
+        "0 m was given, not assumed"
+    );
+    // NPSH available drops by Δp/(ρg): about 1.7 m at 1 500 m, at duty and operating point.
+    let drop = (atmosphere_fixture(0.0) - atmosphere_fixture(1500.0)) / (rho * G);
+    assert!((drop - 1.71).abs() < 0.01, "{drop}");
+    for (a, b) in [
+        (
+            sea.systems[0].npsh_at_duty.as_ref().unwrap().available_m,
+            high.systems[0].npsh_at_duty.as_ref().unwrap().available_m,
+        ),
+        (
+            sea.systems[0]
+                .npsh_at_operating_point
+                .as_ref()
+                .unwrap()
+                .available_m,
+            high.systems[0]
+                .npsh_at_operating_point
+                .as_ref()
+                .unwrap()
+                .available_m,
+        ),
+    ] {
+        assert!(rel(a - b, drop) < 1e-9, "{} vs {drop}", a - b);
+    }
+}
+
+#[test]
+fn a_blank_site_elevation_is_assumed_sea_level_and_listed_among_the_defaults() {
+    let a = audit(&operating_book("z-none", 6.0, None), &Rules::default());
+    let s = &a.systems[0];
+    assert_eq!(s.site_elevation_m, 0.0);
+    assert_eq!(s.assumed.len(), 1, "the system's cell is marked assumed");
+    assert!(s.assumed[0].what.contains("site elevation 0 m"));
+    assert!(
+        s.defaults.iter().any(|d| d.contains("site elevation 0 m"))
+            && s.defaults.iter().any(|d| d.contains("101325 Pa")),
+        "{:?}",
+        s.defaults
+    );
+}
+
+#[test]
+fn a_missing_static_head_is_a_warning_and_the_verdict_says_so() {
+    let path = book(
+        "no-static",
+        &[
+            (
+                "Lines",
+                &["Line", "Service", "Flow [m3/h]"],
+                vec![vec![C::S("D1"), C::S("pump-discharge"), C::N(100.0)]],
+            ),
+            (
+                "Pipes",
+                &["Line", "Size", "Length [m]"],
+                vec![vec![C::S("D1"), C::S("DN150"), C::N(50.0)]],
+            ),
+            (
+                "Systems",
+                &["System", "Lines", "Pump head [m]"],
+                vec![vec![C::S("NoLift"), C::S("D1"), C::N(30.0)]],
+            ),
+        ],
+    );
+    let a = audit(&path, &Rules::default());
+    let s = &a.systems[0];
+    assert!(!s.static_head_given);
+    assert_eq!(s.verdict, "static head not given");
+    assert!(!s.verdict.contains("passes"));
+    let f = a
+        .findings
+        .iter()
+        .find(|f| f.code == "static-head-missing")
+        .expect("static-head-missing raised");
+    assert_eq!(f.severity, Severity::Warning);
+    assert_eq!(f.cell.as_ref().unwrap().to_string(), "Systems!A2");
+}

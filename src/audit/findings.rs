@@ -70,8 +70,12 @@ pub const CODES: &[(&str, &str)] = &[
         "a system's pump head at duty flow is below the head the system requires",
     ),
     (
+        "static-head-missing",
+        "a system has no static head given (Static head, or Elevation change on its lines): taken as 0",
+    ),
+    (
         "npsh-margin",
-        "NPSH available falls short of NPSH required plus the margin rule",
+        "NPSH available (suction losses at the high end of their K band) falls short of NPSH required plus the margin rule, at duty or at the operating point",
     ),
     (
         "suction-layout",

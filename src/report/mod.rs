@@ -14,8 +14,9 @@ use crate::error::OutputError;
 /// The caution every output carries.
 pub const CAUTION: &str = "Screening estimate only: steady, incompressible, single-phase flow from published correlations \
 and the data in the input. It does not cover surge or water hammer, two-phase or compressible flow, slurries or \
-non-Newtonian fluids, or structural and pressure-rating checks. Pump selection, cavitation (NPSH) and pressure \
-decisions must rest on site measurement, manufacturer data, local codes and licensed engineering practice.";
+non-Newtonian fluids, or structural and pressure-rating checks. No line pressures are computed, so vacuum at high \
+points and siphons are not checked. Pump selection, cavitation (NPSH) and pressure decisions must rest on site \
+measurement, manufacturer data, local codes and licensed engineering practice.";
 
 /// Default output path: `INPUT.audit.xlsx` beside the input.
 pub fn default_output(input: &Path) -> PathBuf {

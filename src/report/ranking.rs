@@ -6,7 +6,7 @@ use rust_xlsxwriter::{
 
 use super::style::{MAX_CELL_CHARS, Styles, shown, truncate};
 use crate::audit::energy::{OPERATING_POINT_CAUTION, RankBasis, SAVINGS_CAUTION};
-use crate::audit::system::SystemResult;
+use crate::audit::system::{Outcome, SystemResult};
 use crate::audit::{Audit, FittingResult};
 use crate::error::quote_sheet;
 
@@ -92,7 +92,12 @@ pub fn write_ranking(
             crate::audit::energy::RANK_SHIFT_LIMIT
         ),
     )?;
-    ws.write_string_with_format(2, 0, SAVINGS_CAUTION, &st.bold)?;
+    ws.write_string_with_format(
+        2,
+        0,
+        format!("{SAVINGS_CAUTION} Suggestions marked * — {OPERATING_POINT_CAUTION}"),
+        &st.bold,
+    )?;
     let headers: Vec<String> = [
         "Rank",
         "Rank range",
@@ -207,7 +212,7 @@ pub fn write_ranking(
             )?;
         }
         if let Some(s) = &f.suggestion {
-            ws.write_string(r, 22, &s.replace_with)?;
+            ws.write_string(r, 22, suggestion_text(s, "*"))?;
             num(ws, r, 23, Some(s.k_after))?;
             num(ws, r, 24, s.annual_saving)?;
             num(ws, r, 26, s.payback_years)?;
@@ -344,26 +349,13 @@ fn write_system(
     st: &Styles,
 ) -> Result<u32, XlsxError> {
     let mut r = start;
-    let verdict = match (s.fails_duty, s.fails_npsh) {
-        (true, true) => "FAILS duty and NPSH margin",
-        (true, false) => "FAILS duty",
-        (false, true) => "FAILS NPSH margin",
-        (false, false) if s.margin_m.is_some() || s.npsh_available_m.is_some() => {
-            "passes the checks made"
-        }
-        _ => "not checked (data missing)",
-    };
+    let verdict = s.verdict.as_str();
+    let failing = s.fails_duty || s.fails_npsh || !s.static_head_given;
     ws.write_string_with_format(r, 0, format!("System {}", s.system), &st.title)?;
-    ws.write_string_with_format(
-        r,
-        1,
-        verdict,
-        if s.fails_duty || s.fails_npsh {
-            &st.bad
-        } else {
-            &st.good
-        },
-    )?;
+    ws.write_string_with_format(r, 1, verdict, if failing { &st.bad } else { &st.good })?;
+    r += 1;
+    ws.write_string_with_format(r, 1, SYSTEMS_CAUTION, &st.wrap)?;
+    ws.set_row_height(r, 45)?;
     r += 1;
     let num_row = |ws: &mut Worksheet,
                    r: &mut u32,
@@ -430,26 +422,64 @@ fn write_system(
         )?;
         r += 1;
     }
-    num_row(ws, &mut r, "NPSH available [m]", s.npsh_available_m, "")?;
     if let Some(t) = s.npsh_terms {
+        ws.write_string_with_format(r, 0, "NPSH available", &st.bold)?;
         ws.write_string(
             r,
             1,
             format!(
-                "= ({:.0} Pa − {:.1} Pa)/({:.2} kg/m3 × g) + {:.3} m − {:.3} m; source pressure: {}",
-                t.source_pressure_pa, t.vapour_pressure_pa, t.density_kg_m3, t.suction_level_m, t.suction_losses_m, t.source_pressure_basis
+                "= ({:.0} Pa − {:.1} Pa)/({:.2} kg/m3 × g) + {:.3} m − suction losses; source pressure: {}; site elevation {} m ({}); water at {} °C on the suction line",
+                t.source_pressure_pa,
+                t.vapour_pressure_pa,
+                t.density_kg_m3,
+                t.suction_level_m,
+                t.source_pressure_basis,
+                s.site_elevation_m,
+                s.site_elevation_basis,
+                t.temperature_c
             ),
         )?;
         r += 1;
     }
-    num_row(ws, &mut r, "NPSH required [m]", s.npsh_required_m, "")?;
-    num_row(
-        ws,
-        &mut r,
-        "NPSH the margin rule asks for [m]",
-        s.npsh_needed_m,
-        "",
-    )?;
+    for (label, c) in [
+        ("at duty", s.npsh_at_duty.as_ref()),
+        ("at the operating point", s.npsh_at_operating_point.as_ref()),
+    ] {
+        let Some(c) = c else { continue };
+        ws.write_string_with_format(r, 0, format!("NPSH {label}"), &st.bold)?;
+        ws.write_string_with_format(
+            r,
+            1,
+            format!(
+                "{:.1} m3/h: available {:.3} m with the suction losses at the high end of their K band ({:.3} m), {:.3} m nominal ({:.3} m); required {}; the margin rule asks for {} — {}",
+                m3h(c.flow_m3_s),
+                c.available_m,
+                c.suction_losses_high_m,
+                c.available_nominal_m,
+                c.suction_losses_m,
+                c.required_m
+                    .map(|x| format!("{x:.3} m ({})", c.required_basis))
+                    .unwrap_or_else(|| "not given".into()),
+                c.needed_m
+                    .map(|x| format!("{x:.3} m"))
+                    .unwrap_or_else(|| "—".into()),
+                if c.fails {
+                    "FAIL"
+                } else if c.needed_m.is_some() {
+                    "pass"
+                } else {
+                    "not checked"
+                }
+            ),
+            if c.fails { &st.bad } else { &st.wrap },
+        )?;
+        r += 1;
+    }
+    if !s.defaults.is_empty() {
+        ws.write_string_with_format(r, 0, "Defaults applied", &st.bold)?;
+        ws.write_string_with_format(r, 1, s.defaults.join("; "), &st.wrap)?;
+        r += 1;
+    }
     for n in &s.notes {
         ws.write_string_with_format(r, 0, "Note", &st.bold)?;
         ws.write_string_with_format(r, 1, n, &st.wrap)?;
@@ -555,64 +585,7 @@ pub fn write_summary_block(
         r += 1;
     }
     r += 1;
-    ws.write_string_with_format(
-        r,
-        0,
-        "Systems that fail their duty or NPSH margin",
-        &st.bold,
-    )?;
-    r += 1;
-    let failing: Vec<&SystemResult> = audit
-        .systems
-        .iter()
-        .filter(|s| s.fails_duty || s.fails_npsh)
-        .collect();
-    if failing.is_empty() {
-        ws.write_string(
-            r,
-            0,
-            if audit.systems.is_empty() {
-                "no systems given"
-            } else {
-                "none"
-            },
-        )?;
-        r += 1;
-    } else {
-        for (c, h) in [
-            "System",
-            "Fails",
-            "Required head [m]",
-            "Pump head [m]",
-            "Margin [m]",
-            "NPSHa [m]",
-            "NPSH needed [m]",
-        ]
-        .iter()
-        .enumerate()
-        {
-            ws.write_string_with_format(r, c as u16, *h, &st.header)?;
-        }
-        for s in failing {
-            r += 1;
-            ws.write_string_with_format(r, 0, &s.system, &st.bad)?;
-            ws.write_string(
-                r,
-                1,
-                match (s.fails_duty, s.fails_npsh) {
-                    (true, true) => "duty and NPSH",
-                    (true, false) => "duty",
-                    _ => "NPSH margin",
-                },
-            )?;
-            opt(ws, r, 2, Some(s.required_head_m), &st.n2)?;
-            opt(ws, r, 3, s.pump_head_m, &st.n2)?;
-            opt(ws, r, 4, s.margin_m, &st.n2)?;
-            opt(ws, r, 5, s.npsh_available_m, &st.n2)?;
-            opt(ws, r, 6, s.npsh_needed_m, &st.n2)?;
-        }
-        r += 1;
-    }
+    r = write_summary_systems(ws, audit, r, &st)?;
     r += 1;
     ws.write_string_with_format(r, 0, "Top five items (see Fitting ranking)", &st.bold)?;
     r += 1;
@@ -635,10 +608,86 @@ pub fn write_summary_block(
         opt(ws, r, 4, Some(f.head_m), &st.n3)?;
         opt(ws, r, 5, f.annual_cost, &st.n2)?;
         if let Some(s) = &f.suggestion {
-            ws.write_string(r, 6, &s.replace_with)?;
+            ws.write_string(r, 6, suggestion_text(s, "*"))?;
         }
     }
+    if ranked(audit, Some(5))
+        .iter()
+        .any(|f| f.suggestion.as_ref().is_some_and(|s| s.caution.is_some()))
+    {
+        r += 1;
+        ws.write_string_with_format(r, 0, format!("* {OPERATING_POINT_CAUTION}"), &st.bold)?;
+    }
     Ok(r + 2)
+}
+
+/// The systems table of `Summary`: every check of every system with its pass/fail, the
+/// verdicts, the defaults that fed NPSH and the screening caution. Returns the next free row.
+fn write_summary_systems(
+    ws: &mut Worksheet,
+    audit: &Audit,
+    start: u32,
+    st: &Styles,
+) -> Result<u32, XlsxError> {
+    let mut r = start;
+    ws.write_string_with_format(r, 0, "Systems: every check and its result", &st.bold)?;
+    r += 1;
+    if audit.systems.is_empty() {
+        ws.write_string(r, 0, "no systems given")?;
+        return Ok(r + 1);
+    }
+    ws.write_string_with_format(r, 0, SYSTEMS_CAUTION, &st.bold)?;
+    r += 1;
+    for (c, h) in [
+        "System",
+        "Check",
+        "At flow [m3/h]",
+        "Has [m]",
+        "Nominal [m]",
+        "Needs [m]",
+        "Result",
+        "Note",
+    ]
+    .iter()
+    .enumerate()
+    {
+        ws.write_string_with_format(r, c as u16, *h, &st.header)?;
+    }
+    for s in &audit.systems {
+        for c in &s.checks {
+            r += 1;
+            ws.write_string(r, 0, &s.system)?;
+            ws.write_string(r, 1, c.check)?;
+            opt(ws, r, 2, Some(m3h(c.flow_m3_s)), &st.n2)?;
+            opt(ws, r, 3, c.available_m, &st.n2)?;
+            opt(ws, r, 4, c.nominal_m, &st.n2)?;
+            opt(ws, r, 5, c.needed_m, &st.n2)?;
+            let fmt = match c.outcome {
+                Outcome::Pass => &st.good,
+                Outcome::Fail => &st.bad,
+                Outcome::NotChecked => &st.bold,
+            };
+            ws.write_string_with_format(r, 6, c.outcome.label(), fmt)?;
+            ws.write_string(r, 7, &c.note)?;
+        }
+    }
+    r += 1;
+    ws.write_string(r, 0, CHECKS_KEY)?;
+    for s in &audit.systems {
+        r += 1;
+        let failing = s.fails_duty || s.fails_npsh || !s.static_head_given;
+        ws.write_string_with_format(
+            r,
+            0,
+            format!("System {}: {}", s.system, s.verdict),
+            if failing { &st.bad } else { &st.good },
+        )?;
+    }
+    for line in defaults_applied(audit) {
+        r += 1;
+        ws.write_string(r, 0, line)?;
+    }
+    Ok(r + 1)
 }
 
 /// Console text: annual loss cost, the worst items by cost, and each system's figures, checks

@@ -218,7 +218,8 @@ fn collect_marks(input: &Input, audit: &Audit) -> BTreeMap<String, BTreeMap<(u32
         .iter()
         .flat_map(|l| &l.assumed)
         .chain(input.pipes.iter().flat_map(|p| &p.assumed))
-        .chain(input.fittings.iter().flat_map(|f| &f.assumed));
+        .chain(input.fittings.iter().flat_map(|f| &f.assumed))
+        .chain(audit.systems.iter().flat_map(|s| &s.assumed));
     for a in assumed {
         let has_col = input.layouts.iter().any(|l| {
             l.sheet == a.cell.sheet
@@ -812,6 +813,18 @@ fn write_basis(
         crate::audit::energy::SAVINGS_CAUTION,
         false,
     )?;
+    line(
+        ws,
+        "Caution on suggestions (marked *)",
+        crate::audit::energy::OPERATING_POINT_CAUTION,
+        false,
+    )?;
+    line(
+        ws,
+        "Caution on systems",
+        super::ranking::SYSTEMS_CAUTION,
+        false,
+    )?;
     line(ws, "", "", false)?;
     line(ws, "Fluid properties used", "", true)?;
     for f in &audit.fluids {
@@ -866,7 +879,7 @@ fn write_basis(
         ),
         (
             "NPSH",
-            "NPSHa = (p_source − p_vapour)/(ρg) + suction level − suction losses; p_source defaults to the ISO 2533 standard atmosphere at the rules' site elevation; margin rule max(ratio × NPSHr, NPSHr + minimum) (common practice, no source).",
+            "NPSHa = (p_source − p_vapour)/(ρg) + suction level − suction losses; p_source defaults to the ISO 2533 standard atmosphere at the site elevation (Systems sheet, else the rules, else 0 m, sea level, assumed); checked at duty flow and, where a pump curve gives one, at the operating point (NPSH required from the Pump curve where given, else the duty value), with the suction losses at the high end of their K bands (nominal shown beside); margin rule max(ratio × NPSHr, NPSHr + minimum) (common practice, no source).",
         ),
     ] {
         line(ws, a, b, false)?;
@@ -978,6 +991,24 @@ fn write_basis(
             &format!("{what}: {n} row(s)"),
             false,
         )?;
+    }
+    for s in &audit.systems {
+        for a in &s.assumed {
+            line(
+                ws,
+                &format!("assumed on {}", a.cell.sheet),
+                &format!("system {} ({}): {}", s.system, a.cell, a.what),
+                false,
+            )?;
+        }
+        if !s.defaults.is_empty() {
+            line(
+                ws,
+                &format!("defaults applied to NPSH, system {}", s.system),
+                &s.defaults.join("; "),
+                false,
+            )?;
+        }
     }
     for (l, keys) in input.assumed_by_line() {
         let parts: Vec<String> = keys.iter().map(|(k, n)| format!("{k} ×{n}")).collect();
