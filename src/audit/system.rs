@@ -725,7 +725,7 @@ fn site_elevation(rules: &Rules, row: Option<&SystemRow>) -> (f64, String, bool)
         ),
         None => (
             0.0,
-            "assumed: sea level, 0 m (no Site elevation given)".into(),
+            "assumed: sea level, no Site elevation given".into(),
             true,
         ),
     }

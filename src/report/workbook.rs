@@ -477,7 +477,7 @@ const FITTING_COLUMNS: &[Column<FittingResult>] = &[
     col("Head [m]", true, |f| Value::Num(f.head_m)),
     col("Rank", false, |f| opt(f.rank.map(|r| r as f64))),
     col("Annual cost", false, |f| opt(f.annual_cost)),
-    col("Suggestion (estimate)", false, |f| {
+    col("Suggestion (estimate; cautions in Basis)", false, |f| {
         Value::Text(
             f.suggestion
                 .as_ref()
