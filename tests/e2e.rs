@@ -533,3 +533,55 @@ fn a_system_with_no_static_head_raises_its_warning_through_the_binary() {
         .unwrap();
     assert_eq!(o.status.code(), Some(1), "the warning counts for --fail-on");
 }
+
+#[test]
+fn demo_summary_lists_every_system_check_with_its_result_and_the_cautions() {
+    let dir = temp_dir("summary-checks");
+    run_demo(&dir);
+    let mut out: Xlsx<_> = open_workbook(dir.join("kestrel-ridge.audit.xlsx")).unwrap();
+    let summary = out.worksheet_range("Summary").unwrap();
+    let text = |r: u32, c: u32| match summary.get_value((r, c)) {
+        Some(Data::String(s)) => s.clone(),
+        _ => String::new(),
+    };
+    let rows = summary.end().unwrap().0;
+    let results = |system: &str| -> Vec<(String, String)> {
+        (0..=rows)
+            .filter(|&r| text(r, 0) == system)
+            .map(|r| (text(r, 1), text(r, 6)))
+            .collect()
+    };
+    // Duty A passes at duty and at its operating point; Duty B fails its head and NPSH margin.
+    assert_eq!(
+        results("Duty A"),
+        vec![
+            ("pump head at duty".into(), "pass".into()),
+            ("NPSH at duty".into(), "pass".into()),
+            ("NPSH at operating point".into(), "pass".into()),
+        ]
+    );
+    assert_eq!(
+        results("Duty B"),
+        vec![
+            ("pump head at duty".into(), "FAIL".into()),
+            ("NPSH at duty".into(), "FAIL".into()),
+        ]
+    );
+    let all: Vec<String> = (0..=rows).map(|r| text(r, 0)).collect();
+    let joined = all.join("\n");
+    assert!(joined.contains("System Duty B: FAILS duty and NPSH margin"));
+    assert!(joined.contains("vacuum at high points and siphons are not checked"));
+    assert!(joined.contains("site elevation 0 m assumed"), "{joined}");
+    assert!(joined.contains("before speed control or impeller trimming"));
+    let basis = out.worksheet_range("Basis").unwrap();
+    let basis_text: String = basis
+        .used_cells()
+        .filter_map(|(_, _, v)| match v {
+            Data::String(s) => Some(s.as_str()),
+            _ => None,
+        })
+        .collect::<Vec<_>>()
+        .join("\n");
+    assert!(basis_text.contains("vacuum at high points and siphons are not checked"));
+    assert!(basis_text.contains("before speed control or impeller trimming"));
+}

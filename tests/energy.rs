@@ -4,7 +4,7 @@
 
 use lossledger::audit::Rules;
 use lossledger::audit::energy::{
-    EnergyBasis, RankBasis, RankItem, loss_energy, payback_years, rank,
+    EnergyBasis, OPERATING_POINT_CAUTION, RankBasis, RankItem, loss_energy, payback_years, rank,
 };
 use std::path::PathBuf;
 
@@ -356,6 +356,25 @@ fn a_throttled_valve_on_a_pumped_line_is_flagged_with_its_energy() {
     assert!(s.replace_with.contains("speed control"));
     assert!(s.k_after < v.k && s.annual_saving.unwrap() > 0.0);
     assert_eq!(s.payback_years, None, "no replacement cost given");
+    // Opening the valve moves the operating point: the suggestion and the finding carry the
+    // caution about doing it before speed control or trimming (pump runs out along its curve).
+    assert_eq!(s.caution, Some(OPERATING_POINT_CAUTION));
+    for text in [OPERATING_POINT_CAUTION, f.action.as_str()] {
+        for words in [
+            "speed control or impeller trimming",
+            "more flow",
+            "NPSH required",
+        ] {
+            assert!(text.contains(words), "{words}: {text}");
+        }
+        assert!(text.contains("overload"), "{text}");
+    }
+    let e1 = a.fittings.iter().find(|x| x.tag == "E1").unwrap();
+    assert_eq!(
+        e1.suggestion.as_ref().unwrap().caution,
+        Some(OPERATING_POINT_CAUTION),
+        "every suggestion on a pumped line moves the operating point"
+    );
 
     let open = audit(
         &valve_book("open", "pump-discharge", 90.0),
@@ -372,6 +391,12 @@ fn a_throttled_valve_on_a_pumped_line_is_flagged_with_its_energy() {
     assert!(
         !gravity.findings.iter().any(|f| f.code == "throttled-valve"),
         "gravity lines burn no pump energy"
+    );
+    let g1 = gravity.fittings.iter().find(|x| x.tag == "E1").unwrap();
+    assert_eq!(
+        g1.suggestion.as_ref().unwrap().caution,
+        None,
+        "no pump on a gravity line"
     );
     let strict = Rules::from_toml("[valve]\nmin_opening = 0.95\n", "t").unwrap();
     assert!(

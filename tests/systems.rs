@@ -469,6 +469,17 @@ fn suction_layout_flags_an_elbow_at_the_pump_and_a_small_suction_bore() {
 /// `npshr_360` at 360 m3/h on the Pump curve; suction level 2.0 m; `elevation` in a Site
 /// elevation column when given.
 fn operating_book(name: &str, npshr_360: f64, elevation: Option<f64>) -> PathBuf {
+    operating_book_in(name, npshr_360, elevation, ("NPSHr [m]", 1.0))
+}
+
+/// [`operating_book`] with the Pump curve's NPSH required column under `header`, its values
+/// in metres divided by `m_per_unit`.
+fn operating_book_in(
+    name: &str,
+    npshr_360: f64,
+    elevation: Option<f64>,
+    (header, m_per_unit): (&'static str, f64),
+) -> PathBuf {
     let mut sys_headers = vec!["System", "Lines", "Static head [m]", "Suction level [m]"];
     let mut sys_row = vec![C::S("Two"), C::S("S1, D1"), C::N(12.0), C::N(2.0)];
     if let Some(z) = elevation {
@@ -506,20 +517,20 @@ fn operating_book(name: &str, npshr_360: f64, elevation: Option<f64>) -> PathBuf
             ("Systems", sys_headers, vec![sys_row]),
             (
                 "Pump curve",
-                &["System", "Flow [m3/h]", "Head [m]", "NPSHr [m]"],
+                Box::leak(vec!["System", "Flow [m3/h]", "Head [m]", header].into_boxed_slice()),
                 vec![
                     vec![C::S("Two"), C::N(0.0), C::N(31.326_937_729_133), C::E],
                     vec![
                         C::S("Two"),
                         C::N(144.0),
                         C::N(27.326_937_729_133),
-                        C::N(3.0),
+                        C::N(3.0 / m_per_unit),
                     ],
                     vec![
                         C::S("Two"),
                         C::N(360.0),
                         C::N(21.326_937_729_133),
-                        C::N(npshr_360),
+                        C::N(npshr_360 / m_per_unit),
                     ],
                 ],
             ),
@@ -708,4 +719,37 @@ fn a_missing_static_head_is_a_warning_and_the_verdict_says_so() {
         .expect("static-head-missing raised");
     assert_eq!(f.severity, Severity::Warning);
     assert_eq!(f.cell.as_ref().unwrap().to_string(), "Systems!A2");
+}
+
+// The Pump curve's NPSH required column answers to its aliases and reads units: NPSH3 in ft
+// (1 ft = 0.3048 m exactly, NIST SP 811 B.8) gives the metres of worked example 4.
+#[test]
+fn npsh_required_on_the_pump_curve_reads_aliases_and_units() {
+    let a = audit(
+        &operating_book_in("op-ft", 6.0, None, ("NPSH3 [ft]", 0.3048)),
+        &Rules::default(),
+    );
+    let s = &a.systems[0];
+    assert!(rel(s.npsh_required_m.unwrap(), 3.0) < 1e-12);
+    let at = s.npsh_at_operating_point.as_ref().unwrap();
+    assert!(
+        rel(at.required_m.unwrap(), 3.5) < 1e-9,
+        "{:?}",
+        at.required_m
+    );
+    assert_eq!(at.required_basis, "Pump curve at the operating point");
+}
+
+#[test]
+fn a_site_elevation_outside_the_atmosphere_range_is_an_error_at_its_cell() {
+    let path = operating_book("z-bad", 6.0, Some(9000.0));
+    let input = lossledger::ingest::read_path(&path).unwrap();
+    let d = input
+        .diagnostics
+        .iter()
+        .find(|d| d.severity == Severity::Error)
+        .expect("an error");
+    assert_eq!(d.cell.as_ref().unwrap().to_string(), "Systems!E2");
+    assert!(d.message.contains("site elevation"), "{}", d.message);
+    assert!(lossledger::audit::run(&input, &Rules::default()).is_err());
 }

@@ -122,3 +122,19 @@ fn readme_lists_every_column() {
     let lists = sh.iter().find(|g| g.name == "Lists").expect("Lists");
     assert_eq!(lists.value(1, 0), &s("pump-suction"));
 }
+
+#[test]
+fn readme_carries_the_cautions() {
+    let sh = sheets(UnitSystem::Si, "readme-caution");
+    let readme = sh.iter().find(|g| g.name == "Read me").expect("Read me");
+    let intro: Vec<String> = (0..readme.end_row())
+        .map(|r| match readme.value(r, 0) {
+            Data::String(t) => t.clone(),
+            _ => String::new(),
+        })
+        .collect();
+    let all = intro.join("\n");
+    assert!(all.contains("screening estimate"), "{all}");
+    assert!(all.contains("vacuum at high points and siphons are not checked"));
+    assert!(all.contains("before speed control or impeller trimming"));
+}

@@ -733,7 +733,6 @@ fn site_elevation(rules: &Rules, row: Option<&SystemRow>) -> (f64, String, bool)
 
 /// NPSH available at duty and at the operating point against NPSH required with the margin rule;
 /// raises `npsh-margin` for each check that fails.
-#[allow(clippy::too_many_arguments)]
 fn npsh(
     ctx: &Ctx<'_>,
     place: &Place<'_>,
@@ -802,37 +801,7 @@ fn npsh(
         notes.push(why);
         return out;
     };
-    let (ps, basis) = match row.and_then(|r| r.source_pressure_pa) {
-        Some(p) => (p, "Systems sheet"),
-        None => {
-            let p = atmospheric_pressure_pa(site_elevation_m);
-            if elevation_assumed {
-                out.defaults
-                    .push("site elevation 0 m assumed (sea level; no Site elevation given)".into());
-            }
-            out.defaults.push(format!(
-                "source pressure {p:.0} Pa, the ISO 2533 standard atmosphere at {site_elevation_m} m (no Source pressure given)"
-            ));
-            if elevation_assumed && let Some(r) = row {
-                let key = if place.has_column("site_elevation") {
-                    "site_elevation"
-                } else {
-                    "system"
-                };
-                if let Some(cell) = place.system(key) {
-                    let _ = r;
-                    out.assumed.push(crate::ingest::rows::Assumed {
-                        cell,
-                        key,
-                        what: format!(
-                            "site elevation 0 m (sea level): standard atmosphere {p:.0} Pa in NPSH available"
-                        ),
-                    });
-                }
-            }
-            (p, "standard atmosphere at site elevation")
-        }
-    };
+    let (ps, basis) = source_pressure(place, &mut out, elevation_assumed);
     let temperature_assumed = input
         .lines
         .iter()
@@ -886,23 +855,8 @@ fn npsh(
     npsh_finding(ctx, place, first, &duty_check, "at duty", found);
     out.at_duty = Some(duty_check);
     if let Some(op) = op.filter(|_| duty > 0.0) {
-        let (mut losses, mut high) = (0.0, 0.0);
-        for &i in suction {
-            let l = &audit.lines[i];
-            let h = line_heads_at(audit, ctx.models, l, l.flow_m3_s * op.flow_m3_s / duty);
-            losses += h.total_head_m;
-            high += h.total_head_high_m;
-        }
-        let (required, basis) = match interpolate(&npshr_curve, op.flow_m3_s) {
-            Some(r) => (Some(r), "Pump curve at the operating point".to_string()),
-            None => match required_at_duty {
-                Some(r) => (
-                    Some(r),
-                    "the duty value (no NPSH required on the Pump curve at this flow; NPSH required usually rises with flow, so this may understate it)".to_string(),
-                ),
-                None => (None, String::new()),
-            },
-        };
+        let (losses, high) = suction_losses_at(ctx, suction, op.flow_m3_s / duty);
+        let (required, basis) = npshr_at_operating(&npshr_curve, op.flow_m3_s, required_at_duty);
         let c = check_at(op.flow_m3_s, losses, high, required, basis);
         out.checks
             .push(npsh_check_row("NPSH at operating point", &c));
@@ -910,6 +864,70 @@ fn npsh(
         out.at_operating_point = Some(c);
     }
     out
+}
+
+/// Absolute pressure on the source surface and where it came from: `Source pressure`, else the
+/// standard atmosphere at the site elevation, listed among the defaults (and the elevation
+/// marked assumed when it was).
+fn source_pressure(
+    place: &Place<'_>,
+    out: &mut NpshOutcome,
+    elevation_assumed: bool,
+) -> (f64, &'static str) {
+    if let Some(p) = place.row.and_then(|r| r.source_pressure_pa) {
+        return (p, "Systems sheet");
+    }
+    let z = out.site_elevation_m;
+    let p = atmospheric_pressure_pa(z);
+    if elevation_assumed {
+        out.defaults
+            .push("site elevation 0 m assumed (sea level; no Site elevation given)".into());
+        let key = if place.has_column("site_elevation") {
+            "site_elevation"
+        } else {
+            "system"
+        };
+        if let Some(cell) = place.system(key) {
+            out.assumed.push(crate::ingest::rows::Assumed {
+                cell,
+                key,
+                what: format!(
+                    "site elevation 0 m (sea level): standard atmosphere {p:.0} Pa in NPSH available"
+                ),
+            });
+        }
+    }
+    out.defaults.push(format!(
+        "source pressure {p:.0} Pa, the ISO 2533 standard atmosphere at {z} m (no Source pressure given)"
+    ));
+    (p, "standard atmosphere at site elevation")
+}
+
+/// Suction losses (nominal, high end of the K bands) with every suction line at `fraction` of its
+/// duty flow, friction and Re-dependent K recomputed.
+fn suction_losses_at(ctx: &Ctx<'_>, suction: &[usize], fraction: f64) -> (f64, f64) {
+    suction.iter().fold((0.0, 0.0), |(n, h), &i| {
+        let l = &ctx.audit.lines[i];
+        let at = line_heads_at(ctx.audit, ctx.models, l, l.flow_m3_s * fraction);
+        (n + at.total_head_m, h + at.total_head_high_m)
+    })
+}
+
+/// NPSH required at the operating point: the Pump curve's value there, else the duty value (said
+/// so), else none.
+fn npshr_at_operating(
+    npshr_curve: &[CurvePoint],
+    flow_m3_s: f64,
+    at_duty: Option<f64>,
+) -> (Option<f64>, String) {
+    match (interpolate(npshr_curve, flow_m3_s), at_duty) {
+        (Some(r), _) => (Some(r), "Pump curve at the operating point".into()),
+        (None, Some(r)) => (
+            Some(r),
+            "the duty value (no NPSH required on the Pump curve at this flow; NPSH required usually rises with flow, so this may understate it)".into(),
+        ),
+        (None, None) => (None, String::new()),
+    }
 }
 
 /// The checks-table row of one NPSH check.
@@ -1045,5 +1063,56 @@ fn suction_layout(
                 action: "a suction line is normally at least the size of what follows it: check the size, the suction velocity and NPSH".into(),
             });
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn check(check: &'static str, outcome: Outcome) -> SystemCheck {
+        SystemCheck {
+            check,
+            flow_m3_s: 0.01,
+            available_m: None,
+            nominal_m: None,
+            needed_m: None,
+            outcome,
+            note: String::new(),
+        }
+    }
+
+    #[test]
+    fn verdict_names_what_fails_and_never_passes_without_a_static_head() {
+        use Outcome::*;
+        let v = |c: &[SystemCheck], given| verdict(c, given);
+        let head = |o| check("pump head at duty", o);
+        let duty = |o| check("NPSH at duty", o);
+        let op = |o| check("NPSH at operating point", o);
+        assert_eq!(
+            v(&[head(Pass), duty(Pass), op(Pass)], true),
+            "passes the checks made"
+        );
+        assert_eq!(
+            v(&[head(NotChecked), duty(Pass)], false),
+            "static head not given"
+        );
+        assert_eq!(
+            v(&[head(Fail), duty(Fail)], true),
+            "FAILS duty and NPSH margin"
+        );
+        assert_eq!(
+            v(&[head(Pass), duty(Pass), op(Fail)], true),
+            "FAILS NPSH margin at the operating point"
+        );
+        assert_eq!(
+            v(&[head(Fail), duty(Pass)], false),
+            "FAILS duty; static head not given"
+        );
+        assert_eq!(
+            v(&[head(Pass), duty(Fail), op(Fail)], true),
+            "FAILS NPSH margin at duty and operating point"
+        );
+        assert_eq!(v(&[head(NotChecked)], true), "not checked (data missing)");
     }
 }

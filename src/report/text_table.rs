@@ -228,7 +228,7 @@ impl TextTable {
         movable()
             .filter(|(_, c)| self.align[**c] == Align::Left)
             .max_by_key(|(i, c)| (self.natural(**c), std::cmp::Reverse(*i)))
-            .or_else(|| movable().last())
+            .or_else(|| movable().next_back())
             .map_or(kept.len() - 1, |(i, _)| i)
     }
 
