@@ -105,7 +105,8 @@ pub struct NpshRule {
     pub margin_ratio: f64,
     /// ... and at least NPSHr plus this margin, m.
     pub margin_min_m: f64,
-    /// Site elevation for the default source pressure, m.
+    /// Site elevation for the default source pressure where a system gives no `Site elevation`,
+    /// m (0: sea level, then reported as assumed).
     pub site_elevation_m: f64,
 }
 

@@ -67,13 +67,19 @@ pub fn wrap(text: &str, w: usize) -> Vec<String> {
                     out.push(std::mem::take(&mut line));
                     continue;
                 }
-                // A word wider than the line: break it.
+                // A word wider than the line: break it after its last hyphen that fits
+                // (`pump-` / `discharge`), else at the width.
                 let mut head = String::new();
                 for c in word.chars() {
                     if !head.is_empty() && width(&head) + width(c.encode_utf8(&mut [0; 4])) > w {
                         break;
                     }
                     head.push(c);
+                }
+                if head.len() < word.len()
+                    && let Some(i) = head.rfind('-').filter(|&i| i > 0)
+                {
+                    head.truncate(i + 1);
                 }
                 word = word.chars().skip(head.chars().count()).collect();
                 out.push(head);
@@ -173,7 +179,9 @@ impl TextTable {
 
     /// Widest word of a column's header and (for text) its cells.
     fn longest_word(&self, c: usize) -> usize {
-        let words = |t: &str| t.split([' ', '\n']).map(width).max().unwrap_or(0);
+        // Words break after hyphens when they must, so a hyphenated word's longest part counts.
+        let part = |w: &str| w.split_inclusive('-').map(width).max().unwrap_or(0);
+        let words = |t: &str| t.split([' ', '\n']).map(part).max().unwrap_or(0);
         let cells = match self.align[c] {
             Align::Right => 0,
             Align::Left => self.rows.iter().map(|r| words(&r[c])).max().unwrap_or(0),
@@ -373,6 +381,11 @@ mod tests {
         let s = t.render(Some(40));
         assert!(longest(&s) <= 40, "{s}");
         assert!(s.contains(&format!("k, b: {}", "2".repeat(30))), "{s}");
+    }
+
+    #[test]
+    fn wrap_breaks_after_a_hyphen_first() {
+        assert_eq!(wrap("pump-discharge", 10), vec!["pump-", "discharge"]);
     }
 
     #[test]
