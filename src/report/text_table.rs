@@ -157,9 +157,25 @@ impl TextTable {
         self
     }
 
-    /// Add a row; missing cells are blank, extra cells are dropped.
+    /// Add a row; missing cells are blank, extra cells are dropped. Control characters other
+    /// than line breaks (tabs, carriage returns) become spaces, so no cell is wider on the
+    /// terminal than it is measured.
     pub fn row(&mut self, mut cells: Vec<String>) {
         cells.resize(self.headers.len(), String::new());
+        for c in &mut cells {
+            if c.chars().any(|ch| ch.is_control() && ch != '\n') {
+                *c = c
+                    .chars()
+                    .map(|ch| {
+                        if ch.is_control() && ch != '\n' {
+                            ' '
+                        } else {
+                            ch
+                        }
+                    })
+                    .collect();
+            }
+        }
         self.rows.push(cells);
     }
 
@@ -381,6 +397,30 @@ mod tests {
         let s = t.render(Some(40));
         assert!(longest(&s) <= 40, "{s}");
         assert!(s.contains(&format!("k, b: {}", "2".repeat(30))), "{s}");
+    }
+
+    proptest::proptest! {
+        // Any cells (wide characters, long words, hyphens, newlines) at any width from the
+        // minimum up: no panic, no line wider than the width, no non-space character lost.
+        #[test]
+        fn no_line_is_wider_than_the_width(
+            cells in proptest::collection::vec("[a-z0-9 ./–³\t-]{0,40}|[\\PC]{0,12}", 1..24),
+            numbers in proptest::collection::vec(-1e7f64..1e7, 1..4),
+            w in MIN_WIDTH..130usize,
+        ) {
+            let cols = [("Key", Align::Left), ("Text", Align::Left), ("Value\nm", Align::Right)];
+            let mut t = TextTable::new(&cols);
+            for (i, c) in cells.chunks(2).enumerate() {
+                let n = numbers[i % numbers.len()];
+                t.row(vec![c[0].clone(), c.get(1).cloned().unwrap_or_default(), format!("{n:.3}")]);
+            }
+            let s = t.render(Some(w));
+            proptest::prop_assert!(longest(&s) <= w, "{}:\n{}", w, s);
+            let kept = |x: &str| x.chars().filter(|c| !c.is_whitespace()).count();
+            for c in &cells {
+                proptest::prop_assert!(kept(&s) >= kept(c));
+            }
+        }
     }
 
     #[test]
