@@ -465,6 +465,37 @@ fn static_head(input: &Input, names: &[String], row: Option<&SystemRow>) -> (f64
     }
 }
 
+/// The flow through the pump: that of the first pump-suction or pump-discharge line, else of the
+/// first line.
+fn duty_flow(audit: &Audit, idx: &[usize]) -> f64 {
+    idx.iter()
+        .find(|&&i| {
+            matches!(
+                audit.lines[i].service,
+                Service::PumpSuction | Service::PumpDischarge
+            )
+        })
+        .or(idx.first())
+        .map(|&i| audit.lines[i].flow_m3_s)
+        .unwrap_or(0.0)
+}
+
+/// `static-head-missing`: no static head anywhere, so 0 m was taken.
+fn static_head_missing(place: &Place<'_>) -> Finding {
+    Finding {
+        severity: Severity::Warning,
+        code: "static-head-missing",
+        line: None,
+        tag: None,
+        cell: place.at("static_head"),
+        message: format!(
+            "system {}: no static head given (Static head in Systems, or Elevation change in Lines): taken as 0 m, so its required head and duty check leave out the lift",
+            place.id
+        ),
+        action: "give the static head (delivery liquid level minus source liquid level, plus any pressure difference as head) in the Systems sheet".into(),
+    }
+}
+
 /// Points of one column of the system's pump curve, by flow.
 fn pump_points(
     input: &Input,
@@ -509,31 +540,11 @@ fn one_system(
             )),
         }
     }
-    let duty = idx
-        .iter()
-        .find(|&&i| {
-            matches!(
-                audit.lines[i].service,
-                Service::PumpSuction | Service::PumpDischarge
-            )
-        })
-        .or(idx.first())
-        .map(|&i| audit.lines[i].flow_m3_s)
-        .unwrap_or(0.0);
+    let duty = duty_flow(audit, &idx);
     let (static_head_m, static_head_basis, static_head_given) = static_head(input, names, row);
     if !static_head_given {
         notes.push("no static head given (Static head in Systems, or Elevation change in Lines): taken as 0, so the required head leaves out the lift".into());
-        found.push(Finding {
-            severity: Severity::Warning,
-            code: "static-head-missing",
-            line: None,
-            tag: None,
-            cell: place.at("static_head"),
-            message: format!(
-                "system {id}: no static head given (Static head in Systems, or Elevation change in Lines): taken as 0 m, so its required head and duty check leave out the lift"
-            ),
-            action: "give the static head (delivery liquid level minus source liquid level, plus any pressure difference as head) in the Systems sheet".into(),
-        });
+        found.push(static_head_missing(&place));
     }
     let losses_head_m: f64 = idx.iter().map(|&i| audit.lines[i].total_head_m).sum();
     let required_head_m = static_head_m + losses_head_m;
@@ -604,24 +615,12 @@ fn one_system(
     );
     suction_layout(input, audit, &idx, &suction, found);
 
-    let head_check = SystemCheck {
-        check: "pump head at duty",
-        flow_m3_s: duty,
-        available_m: pump_head_m,
-        nominal_m: None,
-        needed_m: Some(required_head_m),
-        outcome: match margin_m {
-            _ if fails_duty => Outcome::Fail,
-            Some(_) if static_head_given => Outcome::Pass,
-            _ => Outcome::NotChecked,
-        },
-        note: match (pump_head_m, static_head_given) {
-            (None, _) => "no pump head at duty flow".into(),
-            (Some(_), false) => "static head not given (taken as 0 m)".into(),
-            (Some(_), true) => String::new(),
-        },
-    };
-    let mut checks = vec![head_check];
+    let mut checks = vec![head_check(
+        duty,
+        pump_head_m,
+        required_head_m,
+        static_head_given,
+    )];
     checks.extend(npsh.checks);
     let fails_npsh = checks
         .iter()
@@ -657,6 +656,34 @@ fn one_system(
         notes,
         defaults: npsh.defaults,
         assumed: npsh.assumed,
+    }
+}
+
+/// The pump-head check: pass when the pump head reaches the required head, fail when it does
+/// not; not checked without a pump head, or when it passes only because no static head was given.
+fn head_check(
+    duty: f64,
+    pump_head_m: Option<f64>,
+    required_head_m: f64,
+    static_head_given: bool,
+) -> SystemCheck {
+    let fails = pump_head_m.is_some_and(|p| p < required_head_m);
+    SystemCheck {
+        check: "pump head at duty",
+        flow_m3_s: duty,
+        available_m: pump_head_m,
+        nominal_m: None,
+        needed_m: Some(required_head_m),
+        outcome: match pump_head_m {
+            _ if fails => Outcome::Fail,
+            Some(_) if static_head_given => Outcome::Pass,
+            _ => Outcome::NotChecked,
+        },
+        note: match (pump_head_m, static_head_given) {
+            (None, _) => "no pump head at duty flow".into(),
+            (Some(_), false) => "static head not given (taken as 0 m)".into(),
+            (Some(_), true) => String::new(),
+        },
     }
 }
 
