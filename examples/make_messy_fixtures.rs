@@ -113,7 +113,7 @@ const FITS: &[Fit] = &[
     Fit {
         tag: "HF-S1-EN",
         line: "HF-S1",
-        item: "entrance-sharp",
+        item: "entrance-square-edged",
         dn: 150,
         dn_out: None,
         qty: 1.0,
