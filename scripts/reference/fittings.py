@@ -63,6 +63,9 @@ DARBY = {
     "tee-branch-stub-in": "Tee, Through-branch, (as elbow), stub-in branch",
     "valve-gate": "Valve, Gate valve, standard, β = 1",
     "valve-globe": "Valve, Globe valve, standard, β = 1",
+    # Darby gives one standard globe valve; the seat types differ only when partly open.
+    "valve-globe-bevel-seat": "Valve, Globe valve, standard, β = 1",
+    "valve-globe-composition-seat": "Valve, Globe valve, standard, β = 1",
     "valve-globe-y": "Valve, Angle valve, 45°, full line size, β = 1",
     "valve-angle": "Valve, Angle valve, 90°, full line size, β = 1",
     "valve-ball": "Valve, Ball valve, standard, β = 1",
