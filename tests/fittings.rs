@@ -728,7 +728,7 @@ fn item_matching_table() {
         ("3-piece mitre", "mitre-90-2weld"),
         ("orifice plate", "orifice-plate"),
         ("RO", "orifice-plate"),
-        ("magflow meter", "flowmeter-full-bore"),
+        ("magnetic flowmeter", "flowmeter-full-bore"),
         ("Le/D", "equivalent-length"),
         ("", "given"),
         ("Kv", "given"),
