@@ -55,7 +55,8 @@ const ITEMS: [&str; 12] = [
 
 /// The label above every table (the reader skips it as a note row; the audit carries it into
 /// its outputs).
-const INVENTED: &str = "INVENTED DATA: a synthetic station for benchmarks and scale tests; it does not exist.";
+const INVENTED: &str =
+    "INVENTED DATA: a synthetic station for benchmarks and scale tests; it does not exist.";
 /// Header row of every sheet: under the label and a blank row.
 const HEADER_ROW: u32 = 2;
 

@@ -494,7 +494,8 @@ fn demo_outputs_say_the_data_is_invented() {
     for sheet in ["Summary", "Findings", "Fitting ranking", "Basis"] {
         let r = wb.worksheet_range(sheet).unwrap();
         assert!(
-            r.used_cells().any(|(_, _, v)| matches!(v, Data::String(s) if s.starts_with("INVENTED DATA"))),
+            r.used_cells()
+                .any(|(_, _, v)| matches!(v, Data::String(s) if s.starts_with("INVENTED DATA"))),
             "{sheet} has no invented-data label"
         );
     }

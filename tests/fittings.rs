@@ -1180,7 +1180,12 @@ fn foot_valves_match_fluids_k_foot_valve_at_every_size() {
             let any = evaluate(kind("foot-valve"), &input(d, 1e6)).unwrap();
             assert_eq!(any.k, k);
             let hinged = k_of("foot-valve-hinged", &input(d, 1e6));
-            assert!(any.k_low <= hinged, "NPS {}: {} > {hinged}", r["nps_in"], any.k_low);
+            assert!(
+                any.k_low <= hinged,
+                "NPS {}: {} > {hinged}",
+                r["nps_in"],
+                any.k_low
+            );
             // Hydraulic Institute table: foot valve K 15, one value for all sizes (the
             // reference's Pipe Friction Manual value), inside the band up to NPS 24.
             assert!(any.k_high >= 15.0, "NPS {}: {}", r["nps_in"], any.k_high);
@@ -1207,7 +1212,11 @@ fn strainer_bands_are_marked_from_memory_and_reach_fine_screens() {
     for id in ["strainer-y", "strainer-basket"] {
         let k = kind(id);
         assert!(k.source.contains("from memory"), "{id}: {}", k.source);
-        assert!(k.source.contains("no published table"), "{id}: {}", k.source);
+        assert!(
+            k.source.contains("no published table"),
+            "{id}: {}",
+            k.source
+        );
     }
     let y = evaluate(kind("strainer-y"), &input(0.1, 1e6)).unwrap();
     assert!(y.k_high >= 4.0 && y.k_low <= 2.5, "{y:?}");

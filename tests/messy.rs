@@ -425,12 +425,20 @@ fn every_fixture_is_labelled_invented_and_its_outputs_say_so() {
             }
         }
     }
-    assert_eq!(seen, 32, "fixture files found (update when adding fixtures)");
+    assert_eq!(
+        seen, 32,
+        "fixture files found (update when adding fixtures)"
+    );
     // The outputs of an audit of one carry the label (JSON field and note).
     let input = read("14_csv_folder", None);
     let a = audit::run(&input, &Rules::default()).unwrap();
     let json = lossledger::report::json::to_string(&input, &a).unwrap();
     let v: serde_json::Value = serde_json::from_str(&json).unwrap();
     assert_eq!(v["invented_data"], serde_json::Value::Bool(true));
-    assert!(v["invented_data_note"].as_str().unwrap().contains("INVENTED DATA"));
+    assert!(
+        v["invented_data_note"]
+            .as_str()
+            .unwrap()
+            .contains("INVENTED DATA")
+    );
 }

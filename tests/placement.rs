@@ -81,7 +81,11 @@ fn projecting_entrance_without_a_wall_says_it_assumed_thin_wall() {
     let path = book(
         "entrance-no-wall",
         &[
-            ("Lines", &["Line", "Flow [m3/h]"], vec![vec![C::S("L"), C::N(50.0)]]),
+            (
+                "Lines",
+                &["Line", "Flow [m3/h]"],
+                vec![vec![C::S("L"), C::N(50.0)]],
+            ),
             (
                 "Pipes",
                 &["Line", "Inner diameter [mm]", "Length [m]"],
@@ -96,7 +100,11 @@ fn projecting_entrance_without_a_wall_says_it_assumed_thin_wall() {
     );
     let a = audit(&path, &Rules::default());
     assert_eq!(a.fittings[0].k, 1.12);
-    assert!(a.fittings[0].model.contains("t/d 0 assumed"), "{}", a.fittings[0].model);
+    assert!(
+        a.fittings[0].model.contains("t/d 0 assumed"),
+        "{}",
+        a.fittings[0].model
+    );
 }
 
 /// A two-bore line (DN150 then DN200, both schedule 40) with the given fittings.
@@ -104,7 +112,11 @@ fn two_bore(name: &str, fittings: Vec<Vec<C>>) -> std::path::PathBuf {
     book(
         name,
         &[
-            ("Lines", &["Line", "Flow [m3/h]"], vec![vec![C::S("D"), C::N(120.0)]]),
+            (
+                "Lines",
+                &["Line", "Flow [m3/h]"],
+                vec![vec![C::S("D"), C::N(120.0)]],
+            ),
             (
                 "Pipes",
                 &["Line", "Run no", "Size", "Schedule", "Length [m]"],
@@ -113,7 +125,11 @@ fn two_bore(name: &str, fittings: Vec<Vec<C>>) -> std::path::PathBuf {
                     vec![C::S("D"), C::N(2.0), C::S("DN200"), C::S("40"), C::N(50.0)],
                 ],
             ),
-            ("Fittings", &["Tag", "Line", "Item", "Size", "Size out"], fittings),
+            (
+                "Fittings",
+                &["Tag", "Line", "Item", "Size", "Size out"],
+                fittings,
+            ),
         ],
     )
 }
@@ -130,7 +146,11 @@ fn a_fitting_with_no_size_on_a_two_bore_line_is_an_error_listing_the_sizes() {
     let e = &errs[0];
     assert_eq!(e.severity, Severity::Error);
     assert_eq!(e.cell.as_ref().unwrap().to_string(), "Fittings!D2");
-    assert!(e.message.contains("DN150") && e.message.contains("DN200"), "{}", e.message);
+    assert!(
+        e.message.contains("DN150") && e.message.contains("DN200"),
+        "{}",
+        e.message
+    );
 }
 
 #[test]
@@ -142,8 +162,16 @@ fn an_exit_with_no_size_takes_the_last_run_with_a_warning() {
     );
     let a = audit(&path, &Rules::default());
     let f = &a.fittings[0];
-    assert!((f.reference_diameter_m - 0.2027).abs() < 1e-4, "{}", f.reference_diameter_m);
-    let w = a.findings.iter().find(|w| w.code == "size-inferred").unwrap();
+    assert!(
+        (f.reference_diameter_m - 0.2027).abs() < 1e-4,
+        "{}",
+        f.reference_diameter_m
+    );
+    let w = a
+        .findings
+        .iter()
+        .find(|w| w.code == "size-inferred")
+        .unwrap();
     assert_eq!(w.severity, Severity::Warning);
     assert!(w.message.contains("last run"), "{}", w.message);
     assert!(!a.findings.iter().any(|w| w.code == "size-mismatch"));
@@ -155,14 +183,28 @@ fn list_order_places_a_fitting_after_an_expansion() {
     let path = two_bore(
         "no-size-order",
         vec![
-            vec![C::S("D-X1"), C::S("D"), C::S("expansion"), C::S("DN150"), C::S("DN200")],
+            vec![
+                C::S("D-X1"),
+                C::S("D"),
+                C::S("expansion"),
+                C::S("DN150"),
+                C::S("DN200"),
+            ],
             vec![C::S("D-E1"), C::S("D"), C::S("elbow-90"), C::E, C::E],
         ],
     );
     let a = audit(&path, &Rules::default());
     let e = a.fittings.iter().find(|f| f.tag == "D-E1").unwrap();
-    assert!((e.reference_diameter_m - 0.2027).abs() < 1e-4, "{}", e.reference_diameter_m);
-    let w = a.findings.iter().find(|w| w.code == "size-inferred").unwrap();
+    assert!(
+        (e.reference_diameter_m - 0.2027).abs() < 1e-4,
+        "{}",
+        e.reference_diameter_m
+    );
+    let w = a
+        .findings
+        .iter()
+        .find(|w| w.code == "size-inferred")
+        .unwrap();
     assert!(w.message.contains("D-X1"), "{}", w.message);
 }
 
@@ -172,9 +214,21 @@ fn disagreeing_neighbours_leave_a_fitting_unplaced() {
     let path = two_bore(
         "no-size-between",
         vec![
-            vec![C::S("D-V"), C::S("D"), C::S("valve-gate"), C::S("DN150"), C::E],
+            vec![
+                C::S("D-V"),
+                C::S("D"),
+                C::S("valve-gate"),
+                C::S("DN150"),
+                C::E,
+            ],
             vec![C::S("D-E1"), C::S("D"), C::S("elbow-90"), C::E, C::E],
-            vec![C::S("D-E2"), C::S("D"), C::S("elbow-90"), C::S("DN200"), C::E],
+            vec![
+                C::S("D-E2"),
+                C::S("D"),
+                C::S("elbow-90"),
+                C::S("DN200"),
+                C::E,
+            ],
         ],
     );
     let input = lossledger::ingest::read_path(&path).unwrap();
@@ -187,7 +241,11 @@ fn bore_sized_fittings_match_bore_given_runs_without_a_warning() {
     let path = book(
         "bore-sized",
         &[
-            ("Lines", &["Line", "Flow [m3/h]"], vec![vec![C::S("M"), C::N(900.0)]]),
+            (
+                "Lines",
+                &["Line", "Flow [m3/h]"],
+                vec![vec![C::S("M"), C::N(900.0)]],
+            ),
             (
                 "Pipes",
                 &["Line", "Inner diameter [mm]", "Length [m]"],
@@ -200,7 +258,12 @@ fn bore_sized_fittings_match_bore_given_runs_without_a_warning() {
                 "Fittings",
                 &["Tag", "Line", "Item", "Size"],
                 vec![
-                    vec![C::S("M-V"), C::S("M"), C::S("valve-butterfly"), C::S("ID 400")],
+                    vec![
+                        C::S("M-V"),
+                        C::S("M"),
+                        C::S("valve-butterfly"),
+                        C::S("ID 400"),
+                    ],
                     vec![C::S("M-E"), C::S("M"), C::S("elbow-90"), C::S("ID 300")],
                 ],
             ),

@@ -391,9 +391,7 @@ fn alternatives(m: FittingModel, pumped: bool) -> Vec<(FittingModel, String)> {
             &["check-swing", "check-lift", "check-tilting-disc"],
             "lower-loss check valve type; confirm its closing against surge",
         ),
-        _ if kind.group == Group::Strainer
-            && m.input.fouling.is_some_and(|x| x > 1.0) =>
-        {
+        _ if kind.group == Group::Strainer && m.input.fouling.is_some_and(|x| x > 1.0) => {
             vec![(
                 FittingModel {
                     input: crate::physics::fitting::FittingInput {

@@ -465,7 +465,9 @@ pub fn compute(
             continue;
         };
         let key = f.size.as_ref().and_then(size_key);
-        let siblings = fits_by_line.get(f.line.as_str()).map_or(&[][..], |v| &v[..]);
+        let siblings = fits_by_line
+            .get(f.line.as_str())
+            .map_or(&[][..], |v| &v[..]);
         let matched = match place(input, &resolved, &line_runs, siblings, fi) {
             Placement::Run(i) => Some(i),
             Placement::Inferred(i, why) => {
@@ -760,7 +762,11 @@ fn run_of_size(resolved: &[ResolvedRun], line_runs: &[usize], size: &SizeSpec) -
         .iter()
         .copied()
         .filter(|&i| (resolved[i].d_m - d).abs() <= BORE_MATCH_REL * resolved[i].d_m)
-        .min_by(|&a, &b| (resolved[a].d_m - d).abs().total_cmp(&(resolved[b].d_m - d).abs()))
+        .min_by(|&a, &b| {
+            (resolved[a].d_m - d)
+                .abs()
+                .total_cmp(&(resolved[b].d_m - d).abs())
+        })
 }
 
 /// Whether two runs have the same bore (to 0.1 mm).
@@ -820,7 +826,11 @@ fn place(
     match (by_before, by_after) {
         (Some((g, a)), Some((h, b))) if same_bore(resolved, a, b) => Placement::Inferred(
             a,
-            format!("listed between {} and {}, both at this bore", row(g), row(h)),
+            format!(
+                "listed between {} and {}, both at this bore",
+                row(g),
+                row(h)
+            ),
         ),
         (Some((g, a)), None) if after.is_none() => Placement::Inferred(
             a,
@@ -846,7 +856,11 @@ fn line_sizes(pipes: &[&PipeRow], resolved: &[ResolvedRun], line_runs: &[usize])
             Some(dn) => format!("DN{dn}, bore {:.1} mm", r.d_m * 1e3),
             None => format!("bore {:.1} mm", r.d_m * 1e3),
         };
-        out.push(format!("{size} from {} row {}", pipes[i].origin.sheet, pipes[i].origin.row + 1));
+        out.push(format!(
+            "{size} from {} row {}",
+            pipes[i].origin.sheet,
+            pipes[i].origin.row + 1
+        ));
     }
     out.join("; ")
 }

@@ -52,7 +52,9 @@ mod tests {
     #[test]
     fn the_mark_is_matched_at_the_start_in_any_case() {
         assert!(starts_with_mark("INVENTED DATA for demonstration"));
-        assert!(starts_with_mark("  Invented data: Heron Flats is fictional"));
+        assert!(starts_with_mark(
+            "  Invented data: Heron Flats is fictional"
+        ));
         assert!(!starts_with_mark("Data invented by nobody"));
         assert!(!starts_with_mark("INVENTED"));
         assert!(!starts_with_mark("é"));

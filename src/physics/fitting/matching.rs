@@ -46,9 +46,8 @@ fn canonical(tok: &str) -> &str {
         "disk" => "disc",
         "piston" => "lift",
         "flap" => "swing",
-        "magmeter" | "mag" | "magnetic" | "electromagnetic" | "ultrasonic" | "flowmeter" | "emf" => {
-            "meter"
-        }
+        "magmeter" | "mag" | "magnetic" | "electromagnetic" | "ultrasonic" | "flowmeter"
+        | "emf" => "meter",
         "orifices" => "orifice",
         "bends" => "bend",
         "valve" => "valve",

@@ -498,7 +498,13 @@ pub fn evaluate(kind: &Kind, input: &FittingInput) -> Result<FittingK, FittingEr
             );
             Ok(banded(k, band, d_ref, curve.model, curve.source))
         }
-        _ => Ok(banded(k_open, band, d_ref, model_label(kind, input), kind.source)),
+        _ => Ok(banded(
+            k_open,
+            band,
+            d_ref,
+            model_label(kind, input),
+            kind.source,
+        )),
     }
 }
 
