@@ -468,7 +468,7 @@ pub fn compute(
         let siblings = fits_by_line
             .get(f.line.as_str())
             .map_or(&[][..], |v| &v[..]);
-        let matched = match place(input, &resolved, &line_runs, siblings, fi) {
+        let matched = match place(&ctx, &resolved, &line_runs, siblings, fi) {
             Placement::Run(i) => Some(i),
             Placement::Inferred(i, why) => {
                 inferred.push((f, i, why));
@@ -477,7 +477,7 @@ pub fn compute(
             Placement::NoMatch => None,
             Placement::Ambiguous => {
                 let cell = ctx.cell(TableKind::Fittings, &f.origin.sheet, f.origin.row, "size");
-                let sizes = line_sizes(&pipes, &resolved, &line_runs);
+                let sizes = line_sizes(&ctx, &pipes, &resolved, &line_runs);
                 ctx.error(
                     cell,
                     format!(
@@ -781,12 +781,13 @@ fn same_bore(resolved: &[ResolvedRun], a: usize, b: usize) -> bool {
 /// sequence); otherwise the bore the list order gives — the outlet of the nearest sized fitting
 /// listed before it and the inlet of the nearest one listed after it, which must agree.
 fn place(
-    input: &Input,
+    ctx: &Ctx<'_>,
     resolved: &[ResolvedRun],
     line_runs: &[usize],
     siblings: &[usize],
     fi: usize,
 ) -> Placement {
+    let input = ctx.input;
     let f = &input.fittings[fi];
     if let Some(size) = &f.size {
         return run_of_size(resolved, line_runs, size).map_or(Placement::NoMatch, Placement::Run);
@@ -822,7 +823,10 @@ fn place(
         .find_map(|g| g.size.as_ref().map(|s| (g, s)));
     let by_before = before.and_then(|(g, s)| Some((g, run_of_size(resolved, line_runs, s)?)));
     let by_after = after.and_then(|(g, s)| Some((g, run_of_size(resolved, line_runs, s)?)));
-    let row = |g: &FittingRow| format!("{} (row {})", fitting_label(g), g.origin.row + 1);
+    let row = |g: &FittingRow| {
+        let cell = ctx.cell(TableKind::Fittings, &g.origin.sheet, g.origin.row, "item");
+        format!("{} at {cell}", fitting_label(g))
+    };
     match (by_before, by_after) {
         (Some((g, a)), Some((h, b))) if same_bore(resolved, a, b) => Placement::Inferred(
             a,
@@ -845,7 +849,12 @@ fn place(
 }
 
 /// The distinct sizes of a line's runs with their cells, for messages.
-fn line_sizes(pipes: &[&PipeRow], resolved: &[ResolvedRun], line_runs: &[usize]) -> String {
+fn line_sizes(
+    ctx: &Ctx<'_>,
+    pipes: &[&PipeRow],
+    resolved: &[ResolvedRun],
+    line_runs: &[usize],
+) -> String {
     let mut out: Vec<String> = Vec::new();
     for (n, &i) in line_runs.iter().enumerate() {
         if line_runs[..n].iter().any(|&j| same_bore(resolved, i, j)) {
@@ -856,11 +865,9 @@ fn line_sizes(pipes: &[&PipeRow], resolved: &[ResolvedRun], line_runs: &[usize])
             Some(dn) => format!("DN{dn}, bore {:.1} mm", r.d_m * 1e3),
             None => format!("bore {:.1} mm", r.d_m * 1e3),
         };
-        out.push(format!(
-            "{size} from {} row {}",
-            pipes[i].origin.sheet,
-            pipes[i].origin.row + 1
-        ));
+        let p = pipes[i];
+        let cell = ctx.cell(TableKind::Pipes, &p.origin.sheet, p.origin.row, "size");
+        out.push(format!("{size} at {cell}"));
     }
     out.join("; ")
 }
