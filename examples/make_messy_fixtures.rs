@@ -113,7 +113,7 @@ const FITS: &[Fit] = &[
     Fit {
         tag: "HF-S1-EN",
         line: "HF-S1",
-        item: "entrance-sharp",
+        item: "entrance-square-edged",
         dn: 150,
         dn_out: None,
         qty: 1.0,
@@ -287,11 +287,21 @@ fn save(path: &Path, tables: &[Table]) -> Result<(), XlsxError> {
     wb.save(path)
 }
 
-/// The canonical workbook of the dataset: canonical sheets, one header row with units, numbers.
+/// The label every fixture carries (the reader skips it as a note row above the header; the
+/// audit carries it into its outputs).
+const INVENTED: &str = "INVENTED DATA for testing: Heron Flats water works does not exist.";
+
+/// A note row with the label, then a blank row, above a table.
+fn invented_note() -> Vec<Vec<V>> {
+    vec![vec![s(INVENTED)], vec![]]
+}
+
+/// The canonical workbook of the dataset: canonical sheets, one header row with units, numbers,
+/// each under the invented-data note.
 fn canonical() -> Vec<Table> {
     let lines = Table {
         name: "Lines".into(),
-        above: vec![],
+        above: invented_note(),
         headers: vec![vec![
             "Line".into(),
             "Service".into(),
@@ -307,7 +317,7 @@ fn canonical() -> Vec<Table> {
     };
     let pipes = Table {
         name: "Pipes".into(),
-        above: vec![],
+        above: invented_note(),
         headers: vec![
             ["Line", "Seq", "Size", "Schedule", "Material", "Length [m]"]
                 .map(String::from)
@@ -331,7 +341,7 @@ fn canonical() -> Vec<Table> {
     };
     let fittings = Table {
         name: "Fittings".into(),
-        above: vec![],
+        above: invented_note(),
         headers: vec![
             ["Tag", "Line", "Item", "Size", "Size out", "Qty", "K"]
                 .map(String::from)
@@ -360,7 +370,7 @@ fn canonical() -> Vec<Table> {
 fn title(text: &str) -> Vec<Vec<V>> {
     vec![
         vec![s(text)],
-        vec![s("INVENTED DATA for testing: this station does not exist.")],
+        vec![s(INVENTED)],
         vec![s("Rev B"), V::E, s("Checked: —")],
         vec![],
     ]
@@ -622,7 +632,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         t[1].rows = rows;
         let cover = Table {
             name: "Cover".into(),
-            above: vec![],
+            above: vec![vec![s(INVENTED)]],
             headers: vec![vec!["Heron Flats (invented) — issue for audit".into()]],
             units: None,
             rows: vec![],
@@ -675,7 +685,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         both("12_map_file", t)?;
         std::fs::write(
             dir.join("12_map_file.map.toml"),
-            "# Header map for 12_map_file.xlsx (invented station)\n[sheets]\n\"Site takeoff\" = \"pipes\"\n\n[pipes]\n\"Pipe ref\" = \"line\"\n\"Piece\" = \"seq\"\n\"Bore class\" = \"size\"\n\"Pipe stuff\" = \"material\"\n\"Run length ft\" = \"length [ft]\"\n",
+            "# INVENTED DATA: header map for 12_map_file.xlsx (Heron Flats is an invented station)\n[sheets]\n\"Site takeoff\" = \"pipes\"\n\n[pipes]\n\"Pipe ref\" = \"line\"\n\"Piece\" = \"seq\"\n\"Bore class\" = \"size\"\n\"Pipe stuff\" = \"material\"\n\"Run length ft\" = \"length [ft]\"\n",
         )?;
     }
     // 13: two files merged: lines and pipes in one, fittings in the other.
@@ -692,7 +702,11 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
     {
         let sub = dir.join("14_csv_folder");
         std::fs::create_dir_all(&sub)?;
-        let mut lines = String::from("Line No;Service;Flow (m3/h);Temp (°C)\n");
+        // The label as a first line with the separators of the table (the reader skips it as a
+        // title row and finds the separator from it).
+        let note = |cols: usize| format!("{INVENTED}{}\n", ";".repeat(cols - 1));
+        let mut lines = note(4);
+        lines.push_str("Line No;Service;Flow (m3/h);Temp (°C)\n");
         for l in LINES {
             lines.push_str(&format!(
                 "{};{};{};{}\n",
@@ -702,7 +716,8 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
                 l.temp_c
             ));
         }
-        let mut pipes = String::from("Line;Seq;Size;Schedule;Material;Length [m]\n");
+        let mut pipes = note(6);
+        pipes.push_str("Line;Seq;Size;Schedule;Material;Length [m]\n");
         for p in RUNS {
             pipes.push_str(&format!(
                 "{};{};DN{};40;{};{}\n",
@@ -713,7 +728,8 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
                 format!("{}", p.length_m).replace('.', ",")
             ));
         }
-        let mut fits = String::from("Tag;Line;Item;Size;Size out;Qty;K\n");
+        let mut fits = note(7);
+        fits.push_str("Tag;Line;Item;Size;Size out;Qty;K\n");
         for f in FITS {
             fits.push_str(&format!(
                 "{};{};\"{}\";DN{};{};{};{}\n",

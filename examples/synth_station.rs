@@ -53,6 +53,13 @@ const ITEMS: [&str; 12] = [
     "valve-globe",
 ];
 
+/// The label above every table (the reader skips it as a note row; the audit carries it into
+/// its outputs).
+const INVENTED: &str =
+    "INVENTED DATA: a synthetic station for benchmarks and scale tests; it does not exist.";
+/// Header row of every sheet: under the label and a blank row.
+const HEADER_ROW: u32 = 2;
+
 fn write(lines: usize, out: &str) -> Result<(usize, usize), XlsxError> {
     let mut rng = Rng(0x9E37_79B9_7F4A_7C15);
     let bold = Format::new().set_bold();
@@ -83,14 +90,15 @@ fn write(lines: usize, out: &str) -> Result<(usize, usize), XlsxError> {
 
     let ws = wb.add_worksheet();
     ws.set_name("Lines")?;
+    ws.write_string(0, 0, INVENTED)?;
     for (c, h) in ["Line", "Service", "Flow [m3/h]", "Hours per year"]
         .iter()
         .enumerate()
     {
-        ws.write_string_with_format(0, c as u16, *h, &bold)?;
+        ws.write_string_with_format(HEADER_ROW, c as u16, *h, &bold)?;
     }
     for (i, l) in plan.iter().enumerate() {
-        let r = i as u32 + 1;
+        let r = i as u32 + HEADER_ROW + 1;
         ws.write_string(r, 0, format!("SY-{i:06}"))?;
         ws.write_string(r, 1, l.service)?;
         ws.write_number(r, 2, l.flow_m3_h)?;
@@ -99,13 +107,14 @@ fn write(lines: usize, out: &str) -> Result<(usize, usize), XlsxError> {
 
     let ws = wb.add_worksheet();
     ws.set_name("Pipes")?;
+    ws.write_string(0, 0, INVENTED)?;
     for (c, h) in ["Line", "Seq", "Size", "Schedule", "Material", "Length [m]"]
         .iter()
         .enumerate()
     {
-        ws.write_string_with_format(0, c as u16, *h, &bold)?;
+        ws.write_string_with_format(HEADER_ROW, c as u16, *h, &bold)?;
     }
-    let mut r = 1u32;
+    let mut r = HEADER_ROW + 1;
     let mut runs = 0;
     for (i, l) in plan.iter().enumerate() {
         for seq in 1..=l.runs {
@@ -122,13 +131,14 @@ fn write(lines: usize, out: &str) -> Result<(usize, usize), XlsxError> {
 
     let ws = wb.add_worksheet();
     ws.set_name("Fittings")?;
+    ws.write_string(0, 0, INVENTED)?;
     for (c, h) in ["Tag", "Line", "Item", "Size", "Qty", "Opening [%]"]
         .iter()
         .enumerate()
     {
-        ws.write_string_with_format(0, c as u16, *h, &bold)?;
+        ws.write_string_with_format(HEADER_ROW, c as u16, *h, &bold)?;
     }
-    let mut r = 1u32;
+    let mut r = HEADER_ROW + 1;
     let mut fittings = 0;
     for (i, l) in plan.iter().enumerate() {
         for j in 0..l.fittings {

@@ -229,7 +229,7 @@ pub fn input_workbook() -> Result<Vec<u8>, XlsxError> {
             vec![
                 S("KR-S1-EN"),
                 S("KR-S1"),
-                S("entrance-sharp"),
+                S("entrance-square-edged"),
                 S("DN200"),
                 E,
                 N(1.0),

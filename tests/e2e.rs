@@ -585,3 +585,90 @@ fn demo_summary_lists_every_system_check_with_its_result_and_the_cautions() {
     assert!(basis_text.contains("vacuum at high points and siphons are not checked"));
     assert!(basis_text.contains("before speed control or impeller trimming"));
 }
+
+#[test]
+fn old_kind_spellings_still_match_through_the_binary() {
+    // A schedule written with the kinds' former ids audits, each item on its new id.
+    let dir = temp_dir("old-ids");
+    let pipes = dir.join("Pipes.csv");
+    let fittings = dir.join("Fittings.csv");
+    std::fs::write(
+        &pipes,
+        "INVENTED DATA for testing: no such plant,,,,\n\
+         Line,Size,Schedule,Length [m],Flow [m3/h]\n\
+         A,DN100,40,10,40\n",
+    )
+    .unwrap();
+    let old_new = [
+        ("entrance-sharp", "entrance-square-edged"),
+        ("entrance-rounded", "entrance-radiused"),
+        ("entrance-beveled", "entrance-chamfered"),
+        ("diffuser-conical", "expansion-tapered"),
+        ("contraction-conical", "contraction-tapered"),
+        ("contraction-rounded", "contraction-radiused"),
+        ("check-tilting-disk", "check-tilting-disc"),
+    ];
+    let mut text = String::from("Tag,Line,Item,Size,Size out\n");
+    for (i, (old, _)) in old_new.iter().enumerate() {
+        let out = match *old {
+            "diffuser-conical" => "DN150",
+            "contraction-conical" | "contraction-rounded" => "DN80",
+            _ => "",
+        };
+        text.push_str(&format!("T{i},A,{old},DN100,{out}\n"));
+    }
+    std::fs::write(&fittings, text).unwrap();
+    let json = dir.join("out.json");
+    let out = bin()
+        .args(["audit", "--pipes"])
+        .arg(&pipes)
+        .arg("--fittings")
+        .arg(&fittings)
+        .arg("-o")
+        .arg(dir.join("out.xlsx"))
+        .arg("--json")
+        .arg(&json)
+        .output()
+        .unwrap();
+    assert!(
+        out.status.code().is_some_and(|c| c <= 1),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let doc: serde_json::Value = serde_json::from_slice(&std::fs::read(&json).unwrap()).unwrap();
+    let kinds: Vec<&str> = doc["fittings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|f| f["kind"].as_str().unwrap())
+        .collect();
+    let expected: Vec<&str> = old_new.iter().map(|(_, new)| *new).collect();
+    assert_eq!(kinds, expected);
+    assert_eq!(doc["invented_data"], serde_json::Value::Bool(true));
+}
+
+#[test]
+fn demo_outputs_say_the_data_is_invented() {
+    let dir = temp_dir("demo-invented");
+    let out = bin().arg("demo").arg("--dir").arg(&dir).output().unwrap();
+    assert!(String::from_utf8_lossy(&out.stdout).contains("INVENTED DATA"));
+    let doc: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(dir.join("kestrel-ridge.audit.json")).unwrap())
+            .unwrap();
+    assert_eq!(doc["invented_data"], serde_json::Value::Bool(true));
+    assert!(
+        doc["invented_data_note"]
+            .as_str()
+            .unwrap()
+            .starts_with("INVENTED DATA")
+    );
+    let mut wb: Xlsx<_> = open_workbook(dir.join("kestrel-ridge.audit.xlsx")).unwrap();
+    for sheet in ["Summary", "Findings", "Fitting ranking", "Basis"] {
+        let r = wb.worksheet_range(sheet).unwrap();
+        assert!(
+            r.used_cells()
+                .any(|(_, _, v)| matches!(v, Data::String(s) if s.starts_with("INVENTED DATA"))),
+            "{sheet} has no invented-data label"
+        );
+    }
+}

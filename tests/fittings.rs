@@ -115,20 +115,20 @@ fn catalogue_has_required_kinds_and_sane_entries() {
         "valve-diaphragm",
         "check-swing",
         "check-lift",
-        "check-tilting-disk",
+        "check-tilting-disc",
         "strainer-y",
         "strainer-basket",
         "foot-valve",
-        "entrance-sharp",
-        "entrance-rounded",
+        "entrance-square-edged",
+        "entrance-radiused",
         "entrance-projecting",
-        "entrance-beveled",
+        "entrance-chamfered",
         "exit",
         "expansion",
         "contraction",
         "reducer",
-        "diffuser-conical",
-        "contraction-conical",
+        "expansion-tapered",
+        "contraction-tapered",
         "bend",
         "mitre-bend",
         "orifice-plate",
@@ -165,7 +165,7 @@ fn catalogue_has_required_kinds_and_sane_entries() {
         }
     }
     // Check valves carry a much wider band (common practice, no source).
-    for id in ["check-swing", "check-lift", "check-tilting-disk"] {
+    for id in ["check-swing", "check-lift", "check-tilting-disc"] {
         let k = kind(id);
         assert!(k.band_low <= 0.25 && k.band_high >= 3.0, "{id}");
         assert!(k.is_valve());
@@ -252,14 +252,14 @@ fn methods_match_fluids() {
         "bend",
         "mitre-bend",
         "expansion",
-        "diffuser-conical",
+        "expansion-tapered",
         "reducer",
         "contraction",
-        "contraction-rounded",
-        "contraction-conical",
-        "entrance-sharp",
-        "entrance-rounded",
-        "entrance-beveled",
+        "contraction-radiused",
+        "contraction-tapered",
+        "entrance-square-edged",
+        "entrance-radiused",
+        "entrance-chamfered",
         "entrance-projecting",
         "exit",
         "orifice-plate",
@@ -381,8 +381,8 @@ fn borda_carnot_closed_form_and_smaller_bore_rule() {
         "reducer",
         "expansion",
         "contraction",
-        "diffuser-conical",
-        "contraction-conical",
+        "expansion-tapered",
+        "contraction-tapered",
     ] {
         let r = evaluate(
             kind(id),
@@ -445,7 +445,7 @@ fn area_change_errors() {
 #[test]
 fn common_practice_bounds() {
     // Common practice (no source): sharp entrance about 0.5 (Rennels gives 0.57), exit 1.0.
-    let k = k_of("entrance-sharp", &input(0.1, 1e5));
+    let k = k_of("entrance-square-edged", &input(0.1, 1e5));
     assert!((0.45..=0.6).contains(&k), "{k}");
     assert_eq!(k_of("exit", &input(0.1, 1e5)), 1.0);
     assert_eq!(k_of("flowmeter-full-bore", &input(0.1, 1e5)), 0.0);
@@ -705,30 +705,30 @@ fn item_matching_table() {
         ("non-return valve", "check-swing"),
         ("swing check valve", "check-swing"),
         ("lift check", "check-lift"),
-        ("tilting disc check valve", "check-tilting-disk"),
+        ("tilting disc check valve", "check-tilting-disc"),
         ("Y strainer", "strainer-y"),
         ("Y-type strainer", "strainer-y"),
         ("basket strainer", "strainer-basket"),
         ("foot valve c/w strainer", "foot-valve"),
-        ("sharp entrance", "entrance-sharp"),
-        ("tank outlet", "entrance-sharp"),
-        ("bellmouth", "entrance-rounded"),
+        ("sharp entrance", "entrance-square-edged"),
+        ("tank outlet", "entrance-square-edged"),
+        ("bellmouth", "entrance-radiused"),
         ("re-entrant inlet", "entrance-projecting"),
-        ("chamfered entrance", "entrance-beveled"),
+        ("chamfered entrance", "entrance-chamfered"),
         ("exit", "exit"),
         ("outlet to tank", "exit"),
         ("sudden expansion", "expansion"),
         ("sudden contraction", "contraction"),
         ("conc. reducer", "reducer"),
         ("eccentric reducer", "reducer"),
-        ("conical diffuser", "diffuser-conical"),
+        ("conical diffuser", "expansion-tapered"),
         ("5D bend", "bend"),
         ("pipe bend", "bend"),
         ("mitre bend", "mitre-bend"),
         ("3-piece mitre", "mitre-90-2weld"),
         ("orifice plate", "orifice-plate"),
         ("RO", "orifice-plate"),
-        ("magflow meter", "flowmeter-full-bore"),
+        ("magnetic flowmeter", "flowmeter-full-bore"),
         ("Le/D", "equivalent-length"),
         ("", "given"),
         ("Kv", "given"),
@@ -873,5 +873,369 @@ proptest! {
         let k1 = evaluate(k, &FittingInput { opening: Some(h1), ..base }).unwrap().k;
         let k2 = evaluate(k, &FittingInput { opening: Some(h2), ..base }).unwrap().k;
         prop_assert!(k1 > k2, "{}: K({h1}) = {k1} !> K({h2}) = {k2}", k.id);
+    }
+}
+
+// ---------------------------------------------------------------- partly open valves vs published tables
+
+/// Published opening variable of a table: fraction open (stem travel), or degrees from open.
+#[derive(Clone, Copy)]
+enum Var {
+    Open,
+    Deg,
+}
+
+/// One published table: source named, variable, (value, K) points.
+struct Table {
+    source: &'static str,
+    var: Var,
+    points: &'static [(f64, f64)],
+}
+
+const WEISBACH_GATE: Table = Table {
+    source: "Weisbach, gate in a circular pipe (classical table, reprinted in engineering handbooks)",
+    var: Var::Open,
+    points: &[
+        (0.875, 0.07),
+        (0.75, 0.26),
+        (0.625, 0.81),
+        (0.5, 2.06),
+        (0.375, 5.52),
+        (0.25, 17.0),
+        (0.125, 97.8),
+    ],
+};
+const HI_GATE: Table = Table {
+    source: "Hydraulic Institute table, gate valve (Perry's Chemical Engineers' Handbook, Table 6-4)",
+    var: Var::Open,
+    points: &[(0.75, 0.9), (0.5, 4.5), (0.25, 24.0)],
+};
+const CARVILL_GATE: Table = Table {
+    source: "Carvill, Mechanical Engineer's Data Handbook, p. 151, gate valve",
+    var: Var::Open,
+    points: &[(0.75, 1.15), (0.5, 5.6), (0.25, 24.0)],
+};
+const IDELCHIK_9_5: Table = Table {
+    source: "Idelchik, Flow Resistance (1989), diagram 9-5, single-disc gate, circular bore",
+    var: Var::Open,
+    points: &[
+        (0.2, 35.0),
+        (0.3, 10.0),
+        (0.4, 4.60),
+        (0.5, 2.06),
+        (0.6, 0.98),
+        (0.7, 0.44),
+        (0.8, 0.17),
+        (0.9, 0.06),
+    ],
+};
+const IDELCHIK_9_6: Table = Table {
+    source: "Idelchik, Flow Resistance (1989), diagram 9-6, gate with a disc recess",
+    var: Var::Open,
+    points: &[
+        (0.1, 200.0),
+        (0.15, 77.0),
+        (0.2, 33.0),
+        (0.3, 11.0),
+        (0.4, 4.70),
+        (0.5, 2.35),
+        (0.6, 1.23),
+        (0.7, 0.67),
+        (0.8, 0.31),
+        (0.9, 0.11),
+    ],
+};
+const WEISBACH_BUTTERFLY: Table = Table {
+    source: "Weisbach, butterfly disc in a circular pipe (classical table)",
+    var: Var::Deg,
+    points: &[
+        (10.0, 0.52),
+        (20.0, 1.54),
+        (30.0, 3.91),
+        (40.0, 10.8),
+        (50.0, 32.6),
+        (60.0, 118.0),
+        (70.0, 751.0),
+    ],
+};
+const HI_BUTTERFLY: Table = Table {
+    source: "Hydraulic Institute table, butterfly valve (Perry's Chemical Engineers' Handbook, Table 6-4)",
+    var: Var::Deg,
+    points: &[
+        (5.0, 0.24),
+        (10.0, 0.52),
+        (20.0, 1.54),
+        (40.0, 10.8),
+        (60.0, 118.0),
+    ],
+};
+const TEXTBOOK_BUTTERFLY: Table = Table {
+    source: "environmental-engineering textbook, 4th ed., Table 6-4, butterfly valve",
+    var: Var::Deg,
+    points: &[(40.0, 10.0), (70.0, 320.0)],
+};
+const WEISBACH_COCK: Table = Table {
+    source: "Weisbach, plug cock in a circular pipe (classical table)",
+    var: Var::Deg,
+    points: &[
+        (10.0, 0.29),
+        (20.0, 1.56),
+        (30.0, 5.47),
+        (40.0, 17.3),
+        (50.0, 52.6),
+        (60.0, 206.0),
+        (65.0, 486.0),
+    ],
+};
+const HI_COCK: Table = Table {
+    source: "Hydraulic Institute table, plug cock (Perry's Chemical Engineers' Handbook, Table 6-4)",
+    var: Var::Deg,
+    points: &[
+        (5.0, 0.05),
+        (10.0, 0.29),
+        (20.0, 1.56),
+        (40.0, 17.3),
+        (60.0, 206.0),
+    ],
+};
+const HI_GLOBE_PLUG: Table = Table {
+    source: "Hydraulic Institute table, globe valve with plug disc (Perry's Table 6-4)",
+    var: Var::Open,
+    points: &[(0.75, 13.0), (0.5, 36.0), (0.25, 112.0)],
+};
+const HI_GLOBE_BEVEL: Table = Table {
+    source: "Hydraulic Institute table, globe valve with bevel seat (Perry's Table 6-4)",
+    var: Var::Open,
+    points: &[(0.5, 9.5)],
+};
+const HI_GLOBE_COMPOSITION: Table = Table {
+    source: "Hydraulic Institute table, globe valve with composition seat (Perry's Table 6-4)",
+    var: Var::Open,
+    points: &[(0.5, 8.5)],
+};
+const HI_DIAPHRAGM: Table = Table {
+    source: "Hydraulic Institute table, diaphragm valve (Perry's Table 6-4)",
+    var: Var::Open,
+    points: &[(0.75, 2.6), (0.5, 4.3), (0.25, 21.0)],
+};
+
+/// Schedule 40 sizes (NPS, bore in m, ASME B36.10M) at which the bands are checked.
+const SCH40: &[(f64, f64)] = &[
+    (1.0, 0.02664),
+    (2.0, 0.05248),
+    (4.0, 0.10226),
+    (8.0, 0.20274),
+    (12.0, 0.30318),
+    (24.0, 0.57504),
+];
+
+#[test]
+fn partly_open_valve_bands_hold_every_published_point() {
+    // Each kind against every published table of its valve type (sources named in each Table).
+    // Where a published K is below the fully open K of the size (Darby 3-K / Hooper 2-K, checked
+    // against fluids above), the valve is as good as open there: our K must then be at least the
+    // published one (the curve never drops below the open K). Every other point must lie inside
+    // the kind's partly open band [k_low, k_high].
+    let cases: &[(&str, &[&Table])] = &[
+        (
+            "valve-gate",
+            &[
+                &WEISBACH_GATE,
+                &HI_GATE,
+                &CARVILL_GATE,
+                &IDELCHIK_9_5,
+                &IDELCHIK_9_6,
+            ],
+        ),
+        (
+            "valve-butterfly",
+            &[&WEISBACH_BUTTERFLY, &HI_BUTTERFLY, &TEXTBOOK_BUTTERFLY],
+        ),
+        ("valve-plug", &[&WEISBACH_COCK, &HI_COCK]),
+        ("valve-plug-reduced", &[&WEISBACH_COCK, &HI_COCK]),
+        ("valve-ball", &[&WEISBACH_COCK, &HI_COCK]),
+        ("valve-ball-reduced", &[&WEISBACH_COCK, &HI_COCK]),
+        ("valve-globe", &[&HI_GLOBE_PLUG]),
+        ("valve-globe-y", &[&HI_GLOBE_PLUG]),
+        ("valve-angle", &[&HI_GLOBE_PLUG]),
+        ("valve-globe-bevel-seat", &[&HI_GLOBE_BEVEL]),
+        ("valve-globe-composition-seat", &[&HI_GLOBE_COMPOSITION]),
+        ("valve-diaphragm", &[&HI_DIAPHRAGM]),
+    ];
+    let modelled: Vec<&str> = catalogue()
+        .iter()
+        .filter(|k| k.partial_opening.is_some())
+        .map(|k| k.id)
+        .collect();
+    for id in &modelled {
+        assert!(
+            cases.iter().any(|(c, _)| c == id),
+            "{id} has opening data but no published-table check"
+        );
+    }
+    for (id, tables) in cases {
+        let (mut in_band, mut near_open) = (0, 0);
+        for &(nps, d) in SCH40 {
+            let base = FittingInput {
+                nps_in: Some(nps),
+                ..input(d, 1e6)
+            };
+            let k_open = k_of(id, &base);
+            for t in tables.iter() {
+                for &(v, k_pub) in t.points {
+                    let h = match t.var {
+                        Var::Open => v,
+                        Var::Deg => 1.0 - v / 90.0,
+                    };
+                    let out = evaluate(
+                        kind(id),
+                        &FittingInput {
+                            opening: Some(h),
+                            ..base
+                        },
+                    )
+                    .unwrap();
+                    if k_pub <= k_open {
+                        near_open += 1;
+                        assert!(
+                            out.k >= k_pub,
+                            "{id} NPS {nps} at {v}: K {} below {} = {k_pub}",
+                            out.k,
+                            t.source
+                        );
+                    } else {
+                        in_band += 1;
+                        assert!(
+                            out.k_low <= k_pub && k_pub <= out.k_high,
+                            "{id} NPS {nps} at {v}: {} gives {k_pub}, outside our band {}..{} (K {})",
+                            t.source,
+                            out.k_low,
+                            out.k_high,
+                            out.k
+                        );
+                    }
+                }
+            }
+        }
+        assert!(in_band > 0, "{id}: no published point above the open K");
+        eprintln!("{id}: {in_band} points in band, {near_open} near open");
+    }
+}
+
+#[test]
+fn gate_band_spans_classical_and_commercial_tables() {
+    // Source: Weisbach (classical) against the Hydraulic Institute (Perry's Table 6-4) and
+    // Carvill (p. 151) commercial-valve tables, which are 2-4x higher at 1/2 and 3/4 open: the
+    // nominal K follows Weisbach, and the high end must reach the commercial tables.
+    let base = FittingInput {
+        nps_in: Some(4.0),
+        ..input(0.10226, 1e6)
+    };
+    for (h, carvill) in [(0.75, 1.15), (0.5, 5.6)] {
+        let out = evaluate(
+            kind("valve-gate"),
+            &FittingInput {
+                opening: Some(h),
+                ..base
+            },
+        )
+        .unwrap();
+        assert!(carvill > 2.0 * out.k, "tables differ at {h}: {}", out.k);
+        assert!(out.k_high >= carvill, "{h}: {}", out.k_high);
+    }
+}
+
+// ---------------------------------------------------------------- foot valves and strainers
+
+const FOOT: &str = include_str!(concat!(
+    env!("CARGO_MANIFEST_DIR"),
+    "/fixtures/reference/fittings_foot_valve.csv"
+));
+
+/// Our f_T is the handbook's closed form with clean-steel roughness 0.0018 in; the reference
+/// library fits the handbook's rounded f_T table instead. They differ by up to 1.4 % at NPS ½.
+const FOOT_TOL: f64 = 0.02;
+
+#[test]
+fn foot_valves_match_fluids_k_foot_valve_at_every_size() {
+    let rows = parse_csv(FOOT);
+    assert_eq!(rows.len(), 18);
+    for r in rows {
+        let id = match r["disc"].as_str() {
+            "poppet" => "foot-valve-poppet",
+            "hinged" => "foot-valve-hinged",
+            other => panic!("disc {other}"),
+        };
+        let d = num(&r, "d_in_m").unwrap();
+        let k_ref = num(&r, "k_ref").unwrap();
+        let k = k_of(id, &input(d, 1e6));
+        assert!(
+            rel(k, k_ref) < FOOT_TOL,
+            "{id} NPS {}: {k} vs {k_ref} ({})",
+            r["nps_in"],
+            r["source"]
+        );
+        // The disc type not given: the poppet disc's K (the higher), band down to the hinged disc.
+        if id == "foot-valve-poppet" {
+            let any = evaluate(kind("foot-valve"), &input(d, 1e6)).unwrap();
+            assert_eq!(any.k, k);
+            let hinged = k_of("foot-valve-hinged", &input(d, 1e6));
+            assert!(
+                any.k_low <= hinged,
+                "NPS {}: {} > {hinged}",
+                r["nps_in"],
+                any.k_low
+            );
+            // Hydraulic Institute table: foot valve K 15, one value for all sizes (the
+            // reference's Pipe Friction Manual value), inside the band up to NPS 24.
+            assert!(any.k_high >= 15.0, "NPS {}: {}", r["nps_in"], any.k_high);
+        }
+    }
+}
+
+#[test]
+fn foot_valve_k_falls_with_size() {
+    // Handbook formula K = n f_T: f_T of clean steel falls with size, so K does (the single
+    // K 15 it replaces did not).
+    let mut last = f64::INFINITY;
+    for &(_, d) in SCH40 {
+        let k = k_of("foot-valve-poppet", &input(d, 1e6));
+        assert!(k < last, "{d}: {k}");
+        last = k;
+    }
+}
+
+#[test]
+fn strainer_bands_are_marked_from_memory_and_reach_fine_screens() {
+    // No published table of clean strainer K was found: the sources say so, and the Y strainer's
+    // band reaches the 3-4 of clean fine-screen Y strainers (from memory).
+    for id in ["strainer-y", "strainer-basket"] {
+        let k = kind(id);
+        assert!(k.source.contains("from memory"), "{id}: {}", k.source);
+        assert!(
+            k.source.contains("no published table"),
+            "{id}: {}",
+            k.source
+        );
+    }
+    let y = evaluate(kind("strainer-y"), &input(0.1, 1e6)).unwrap();
+    assert!(y.k_high >= 4.0 && y.k_low <= 2.5, "{y:?}");
+}
+
+// ---------------------------------------------------------------- ids and aliases
+
+#[test]
+fn old_kind_spellings_match_the_new_ids() {
+    for (old, new) in [
+        ("entrance-sharp", "entrance-square-edged"),
+        ("entrance-rounded", "entrance-radiused"),
+        ("entrance-beveled", "entrance-chamfered"),
+        ("diffuser-conical", "expansion-tapered"),
+        ("contraction-conical", "contraction-tapered"),
+        ("contraction-rounded", "contraction-radiused"),
+        ("check-tilting-disk", "check-tilting-disc"),
+    ] {
+        assert_eq!(match_item(old).map(|k| k.id), Ok(new), "{old}");
+        assert!(find_kind(old).is_none(), "{old} is no longer an id");
     }
 }

@@ -110,7 +110,8 @@ fn units_row() {
     let m = same("03_units_row.xlsx", &twin("03_units_row"), None);
     assert_eq!(
         m.layout(TableKind::Pipes).and_then(|l| l.units_row),
-        Some(1)
+        Some(3),
+        "the units row under the header, which sits under the invented-data note and a blank row"
     );
     assert_eq!(
         m.layout(TableKind::Lines)
@@ -171,7 +172,8 @@ fn merged_cells() {
 #[test]
 fn formula_cells_use_cached_values() {
     let m = same("08_formulas.xlsx", &twin("08_formulas"), None);
-    assert!(m.sheets.iter().any(|s| s.formula(1, 5).is_some()));
+    // The first data row sits under the invented-data note, a blank row and the header.
+    assert!(m.sheets.iter().any(|s| s.formula(3, 5).is_some()));
 }
 
 #[test]
@@ -388,4 +390,55 @@ fn size_notation_table_gives_published_bores() {
     let spec = parse_size("110 OD", None).expect("110 OD");
     let got = bore_mm(spec, Material::Pe, pipe::parse_schedule("SDR11")).expect("PE bore");
     assert!((got - 90.0).abs() < 1e-6, "PE 110 SDR11: {got}");
+}
+
+#[test]
+fn every_fixture_is_labelled_invented_and_its_outputs_say_so() {
+    // Rule of the project: fixtures are invented scenarios, labelled so in every file and in
+    // every output they produce. Each workbook, each CSV and the map file carries the label.
+    let mut seen = 0;
+    let mut stack = vec![dir()];
+    while let Some(d) = stack.pop() {
+        for e in std::fs::read_dir(&d).unwrap() {
+            let p = e.unwrap().path();
+            if p.is_dir() {
+                stack.push(p);
+                continue;
+            }
+            seen += 1;
+            let ext = p.extension().and_then(|x| x.to_str()).unwrap_or("");
+            match ext {
+                "toml" | "csv" => {
+                    let text = std::fs::read_to_string(&p).unwrap();
+                    assert!(text.contains("INVENTED DATA"), "{}", p.display());
+                }
+                "xlsx" => {
+                    let input = ingest::read_inputs(
+                        &[InputSource::Path(p.clone())],
+                        &ReadOptions::default(),
+                    )
+                    .unwrap();
+                    let cell = lossledger::report::invented::marker(&input);
+                    assert!(cell.is_some(), "{} has no invented-data label", p.display());
+                }
+                other => panic!("unexpected fixture type {other}: {}", p.display()),
+            }
+        }
+    }
+    assert_eq!(
+        seen, 32,
+        "fixture files found (update when adding fixtures)"
+    );
+    // The outputs of an audit of one carry the label (JSON field and note).
+    let input = read("14_csv_folder", None);
+    let a = audit::run(&input, &Rules::default()).unwrap();
+    let json = lossledger::report::json::to_string(&input, &a).unwrap();
+    let v: serde_json::Value = serde_json::from_str(&json).unwrap();
+    assert_eq!(v["invented_data"], serde_json::Value::Bool(true));
+    assert!(
+        v["invented_data_note"]
+            .as_str()
+            .unwrap()
+            .contains("INVENTED DATA")
+    );
 }

@@ -298,7 +298,7 @@ fn npsh_book(name: &str, t: f64, npshr: f64, level: f64) -> PathBuf {
                 "Fittings",
                 &["Tag", "Line", "Item"],
                 vec![
-                    vec![C::S("S-EN"), C::S("S"), C::S("entrance-sharp")],
+                    vec![C::S("S-EN"), C::S("S"), C::S("entrance-square-edged")],
                     vec![C::S("S-V"), C::S("S"), C::S("valve-gate")],
                 ],
             ),

@@ -12,6 +12,13 @@ Outputs (fixtures/reference/):
                         plate, each against the fluids function of the same published method
   fittings_le_d.csv     Le/D -> K with the fully rough factor (fluids.friction.von_Karman)
   fittings_kv.csv       Kv->K and Cv->K (fluids.fittings.Kv_to_K / Cv_to_K)
+  fittings_foot_valve.csv
+                        foot valves with strainer, poppet and hinged disc, at NPS 1/2..24
+                        schedule 40 bores (fluids.fittings.K_foot_valve_Crane, its own f_T)
+  fittings_entrance_wall.csv
+                        projecting entrance with the wall of the pipe's schedule
+                        (fluids.piping.nearest_pipe for bore and wall, then
+                        fluids.fittings.entrance_distance(method='Rennels'))
 """
 import csv
 import math
@@ -56,6 +63,9 @@ DARBY = {
     "tee-branch-stub-in": "Tee, Through-branch, (as elbow), stub-in branch",
     "valve-gate": "Valve, Gate valve, standard, β = 1",
     "valve-globe": "Valve, Globe valve, standard, β = 1",
+    # Darby gives one standard globe valve; the seat types differ only when partly open.
+    "valve-globe-bevel-seat": "Valve, Globe valve, standard, β = 1",
+    "valve-globe-composition-seat": "Valve, Globe valve, standard, β = 1",
     "valve-globe-y": "Valve, Angle valve, 45°, full line size, β = 1",
     "valve-angle": "Valve, Angle valve, 90°, full line size, β = 1",
     "valve-ball": "Valve, Ball valve, standard, β = 1",
@@ -74,7 +84,7 @@ HOOPER = {
     "valve-butterfly": "Valve, Butterfly,",
     "valve-ball-reduced": "Valve, Ball, Reduced trim, Beta = 0.9",
     "valve-plug-reduced": "Valve, Plug, Reduced trim, Beta = 0.8",
-    "check-tilting-disk": "Valve, Check, Tilting-disc",
+    "check-tilting-disc": "Valve, Check, Tilting-disc",
 }
 
 
@@ -139,7 +149,7 @@ def method_rows():
             re, rr = 1e5, 1e-4
             fd = Clamond(Re=re, eD=rr)
             k = ff.diffuser_conical(Di1=d1, Di2=d2, angle=angle, fd=fd, method="Rennels")
-            rows.append(["diffuser", "diffuser-conical", d1, d2, re, rr, None, angle, None, None,
+            rows.append(["diffuser", "expansion-tapered", d1, d2, re, rr, None, angle, None, None,
                          k, tol, f"{V} fittings.diffuser_conical(method='Rennels', fd=Clamond(Re, eD) at inlet)"])
     # Reducer used as expander (default 30 deg cone) and as reducer.
     re, rr = 2e5, 2e-4
@@ -161,27 +171,27 @@ def method_rows():
                      f"{V} fittings.contraction_sharp(method='Rennels')"])
         for r in (0.02, 0.1, 0.3):
             k = ff.contraction_round(Di1=d1, Di2=d2, rc=r * d2, method="Rennels")
-            rows.append(["contraction-rounded", "contraction-rounded", d1, d2, 1e5, 0.0, r, None, None,
+            rows.append(["contraction-radiused", "contraction-radiused", d1, d2, 1e5, 0.0, r, None, None,
                          None, k, tol, f"{V} fittings.contraction_round(method='Rennels')"])
         for angle in (10.0, 30.0, 60.0, 120.0):
             re, rr = 1e5, 1e-4  # at the inlet bore d1
             re_s, rr_s = re * d1 / d2, rr * d1 / d2
             k = ff.contraction_conical(Di1=d1, Di2=d2, angle=angle, fd=Clamond(Re=re_s, eD=rr_s),
                                        method="Rennels")
-            rows.append(["contraction-conical", "contraction-conical", d1, d2, re, rr, None, angle, None,
+            rows.append(["contraction-tapered", "contraction-tapered", d1, d2, re, rr, None, angle, None,
                          None, k, tol,
                          f"{V} fittings.contraction_conical(method='Rennels', fd=Clamond at outlet bore)"])
 
     # Entrances and exit.
-    rows.append(["entrance-sharp", "entrance-sharp", d, None, 1e5, 0.0, None, None, None, None,
+    rows.append(["entrance-square-edged", "entrance-square-edged", d, None, 1e5, 0.0, None, None, None, None,
                  ff.entrance_sharp(method="Rennels"), tol, f"{V} fittings.entrance_sharp(method='Rennels')"])
     for r in (0.0, 0.02, 0.05, 0.1, 0.2, 0.5, 1.5):
         k = ff.entrance_rounded(Di=d, rc=r * d, method="Rennels")
-        rows.append(["entrance-rounded", "entrance-rounded", d, None, 1e5, 0.0, r, None, None, None, k,
+        rows.append(["entrance-radiused", "entrance-radiused", d, None, 1e5, 0.0, r, None, None, None, k,
                      tol, f"{V} fittings.entrance_rounded(method='Rennels')"])
     for l_d, angle in ((0.03, 45.0), (0.05, 30.0), (0.1, 45.0), (0.2, 60.0), (0.1, 15.0)):
         k = ff.entrance_beveled(Di=d, l=l_d * d, angle=angle, method="Rennels")
-        rows.append(["entrance-beveled", "entrance-beveled", d, None, 1e5, 0.0, None, angle, l_d, None, k,
+        rows.append(["entrance-chamfered", "entrance-chamfered", d, None, 1e5, 0.0, None, angle, l_d, None, k,
                      tol, f"{V} fittings.entrance_beveled(method='Rennels')"])
     for t_d in (0.0, 0.005, 0.02, 0.05, 0.1):
         k = ff.entrance_distance(Di=d, t=t_d * d, method="Rennels")
@@ -228,6 +238,29 @@ def kv_rows():
     return rows
 
 
+def foot_valve_rows():
+    from fluids.piping import nearest_pipe
+    rows = []
+    for nps in (0.5, 1.0, 2.0, 4.0, 6.0, 8.0, 12.0, 16.0, 24.0):
+        _, di, _, _ = nearest_pipe(NPS=nps, schedule="40")
+        for style, disc in ((0, "poppet"), (1, "hinged")):
+            k = ff.K_foot_valve_Crane(D=di, style=style)
+            rows.append([disc, nps, di, k, f"{V} fittings.K_foot_valve_Crane(D, style={style})"])
+    return rows
+
+
+def entrance_wall_rows():
+    from fluids.piping import nearest_pipe
+    rows = []
+    for nps, sch in ((1.0, "40"), (2.0, "40"), (4.0, "40"), (4.0, "80"), (8.0, "40"), (12.0, "40"),
+                     (12.0, "10"), (24.0, "40")):
+        _, di, do, t = nearest_pipe(NPS=nps, schedule=sch)
+        k = ff.entrance_distance(Di=di, t=t, method="Rennels")
+        rows.append([nps, sch, do, t, di, k,
+                     f"{V} piping.nearest_pipe(NPS, schedule) + fittings.entrance_distance(Di, t, method='Rennels')"])
+    return rows
+
+
 if __name__ == "__main__":
     os.makedirs(OUT, exist_ok=True)
     write("fittings_kfactor.csv", ["id", "model", "nps_in", "d_in_m", "re", "k_ref", "source"], kfactor_rows())
@@ -236,3 +269,6 @@ if __name__ == "__main__":
            "length_ratio", "beta", "k_ref", "tol_rel", "source"], method_rows())
     write("fittings_le_d.csv", ["rel_rough", "le_d", "k_ref", "source"], le_d_rows())
     write("fittings_kv.csv", ["coefficient", "value", "d_m", "k_ref", "source"], kv_rows())
+    write("fittings_foot_valve.csv", ["disc", "nps_in", "d_in_m", "k_ref", "source"], foot_valve_rows())
+    write("fittings_entrance_wall.csv",
+          ["nps_in", "schedule", "od_m", "wall_m", "d_in_m", "k_ref", "source"], entrance_wall_rows())

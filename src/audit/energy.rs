@@ -383,24 +383,26 @@ fn alternatives(m: FittingModel, pumped: bool) -> Vec<(FittingModel, String)> {
         "tee-branch" | "tee-branch-threaded" | "tee-branch-stub-in" => {
             many(&["tee-branch-swept"], "swept tee")
         }
-        "valve-globe" | "valve-globe-y" | "valve-angle" => many(
+        "valve-globe"
+        | "valve-globe-bevel-seat"
+        | "valve-globe-composition-seat"
+        | "valve-globe-y"
+        | "valve-angle" => many(
             &["valve-gate", "valve-ball"],
             "full-bore valve where the valve only isolates",
         ),
         "valve-ball-reduced" => many(&["valve-ball"], "full-bore ball valve"),
         "valve-plug-reduced" => many(&["valve-plug"], "full-bore plug valve"),
-        "entrance-sharp" | "entrance-projecting" => {
-            many(&["entrance-rounded"], "rounded (bell-mouth) entrance")
+        "entrance-square-edged" | "entrance-projecting" => {
+            many(&["entrance-radiused"], "radiused (bell-mouth) entrance")
         }
-        "expansion" => many(&["diffuser-conical"], "conical diffuser"),
-        "contraction" => many(&["contraction-conical"], "conical contraction"),
+        "expansion" => many(&["expansion-tapered"], "tapered expansion (diffuser)"),
+        "contraction" => many(&["contraction-tapered"], "tapered contraction"),
         _ if kind.group == Group::CheckValve => many(
-            &["check-swing", "check-lift", "check-tilting-disk"],
+            &["check-swing", "check-lift", "check-tilting-disc"],
             "lower-loss check valve type; confirm its closing against surge",
         ),
-        _ if (kind.group == Group::Strainer || kind.id == "foot-valve")
-            && m.input.fouling.is_some_and(|x| x > 1.0) =>
-        {
+        _ if kind.group == Group::Strainer && m.input.fouling.is_some_and(|x| x > 1.0) => {
             vec![(
                 FittingModel {
                     input: crate::physics::fitting::FittingInput {

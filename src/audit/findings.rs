@@ -53,6 +53,10 @@ pub const CODES: &[(&str, &str)] = &[
         "a fitting's size matches no run of its line",
     ),
     (
+        "size-inferred",
+        "a fitting with no size on a line of several bores was placed by its kind or the list order",
+    ),
+    (
         "valve-closed",
         "a valve is 0 % open on a line that carries flow",
     ),
@@ -217,9 +221,9 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
         "reducer",
         "expansion",
         "contraction",
-        "contraction-rounded",
-        "contraction-conical",
-        "diffuser-conical",
+        "contraction-radiused",
+        "contraction-tapered",
+        "expansion-tapered",
     ];
     for f in input
         .fittings
@@ -308,11 +312,6 @@ pub fn size_mismatch(input: &Input, audit: &mut Audit, f: &FittingRow, run: usiz
     let c = input.column_of(TableKind::Fittings, &f.origin.sheet, "size");
     let cell = CellRef::new(&f.origin.sheet, f.origin.row, c);
     let run_cell = audit.runs[run].cell.clone();
-    let what = if f.size.is_some() {
-        "its size matches no run of line"
-    } else {
-        "it has no size and line has runs of several sizes:"
-    };
     push(
         &mut audit.findings,
         Severity::Warning,
@@ -321,11 +320,36 @@ pub fn size_mismatch(input: &Input, audit: &mut Audit, f: &FittingRow, run: usiz
         Some(&f.tag),
         cell,
         format!(
-            "{}: {what} {}; computed on the run at {run_cell}",
+            "{}: its size matches no run of line {}; its bore is looked up for its own size with \
+             the material and schedule of the run at {run_cell} (that run's bore when none is found)",
             super::lines::fitting_label(f),
             f.line
         ),
         "correct the fitting's size or the line's runs",
+    );
+}
+
+/// A fitting with no size on a line of several bores, placed by its kind or the list order.
+pub fn size_inferred(input: &Input, audit: &mut Audit, f: &FittingRow, run: usize, why: &str) {
+    let c = input.column_of(TableKind::Fittings, &f.origin.sheet, "size");
+    let cell = CellRef::new(&f.origin.sheet, f.origin.row, c);
+    let r = &audit.runs[run];
+    push(
+        &mut audit.findings,
+        Severity::Warning,
+        "size-inferred",
+        &f.line,
+        Some(&f.tag),
+        cell,
+        format!(
+            "{} has no size and line {} has runs of several bores; computed on the run at {} \
+             (bore {:.1} mm): {why}",
+            super::lines::fitting_label(f),
+            f.line,
+            r.cell,
+            r.inner_diameter_m * 1e3
+        ),
+        "write the fitting's size to confirm",
     );
 }
 

@@ -188,6 +188,8 @@ struct ResolvedRun {
     nps: Option<f64>,
     key: Option<SizeKey>,
     d_m: f64,
+    /// Wall thickness where the bore table (or the Size cell) gives it.
+    wall_m: Option<f64>,
     basis: String,
     eps_m: f64,
     eps_basis: String,
@@ -201,6 +203,7 @@ fn resolve_run(ctx: &mut Ctx<'_>, p: &PipeRow) -> Option<ResolvedRun> {
     };
     let nps = dn.and_then(pipe::dn_to_nps);
     let size_cell = ctx.cell(TableKind::Pipes, &p.origin.sheet, p.origin.row, "size");
+    let mut wall = None;
     let (d_m, basis) = if let Some(d) = p.inner_diameter_m {
         (d, "Inner diameter given".to_string())
     } else {
@@ -219,6 +222,7 @@ fn resolve_run(ctx: &mut Ctx<'_>, p: &PipeRow) -> Option<ResolvedRun> {
                     );
                     return None;
                 }
+                wall = Some(wall_m);
                 (
                     od_m - 2.0 * wall_m,
                     "OD and wall written in Size".to_string(),
@@ -226,15 +230,18 @@ fn resolve_run(ctx: &mut Ctx<'_>, p: &PipeRow) -> Option<ResolvedRun> {
             }
             SizeSpec::OuterDiameter { od_m } => {
                 match pipe::bore_from_od(p.material, od_m, p.schedule) {
-                    Ok(b) => (
-                        b.inner_diameter_m,
-                        format!(
-                            "{} OD {:.1} mm {}",
-                            b.standard,
-                            od_m * 1e3,
-                            p.schedule.map(|s| s.label()).unwrap_or_default()
-                        ),
-                    ),
+                    Ok(b) => {
+                        wall = Some(b.wall_m);
+                        (
+                            b.inner_diameter_m,
+                            format!(
+                                "{} OD {:.1} mm {}",
+                                b.standard,
+                                od_m * 1e3,
+                                p.schedule.map(|s| s.label()).unwrap_or_default()
+                            ),
+                        )
+                    }
                     Err(e) => {
                         ctx.error(
                             size_cell,
@@ -256,6 +263,7 @@ fn resolve_run(ctx: &mut Ctx<'_>, p: &PipeRow) -> Option<ResolvedRun> {
                 };
                 match pipe::bore(p.material, dn, p.schedule) {
                     Ok(b) => {
+                        wall = Some(b.wall_m);
                         let sch = p
                             .schedule
                             .or_else(|| pipe::default_schedule(p.material, dn))
@@ -297,6 +305,7 @@ fn resolve_run(ctx: &mut Ctx<'_>, p: &PipeRow) -> Option<ResolvedRun> {
         nps,
         key,
         d_m,
+        wall_m: wall,
         basis,
         eps_m,
         eps_basis,
@@ -438,7 +447,13 @@ pub fn compute(
     for (i, p) in pipes.iter().enumerate().take(runs.len()) {
         runs_by_line.entry(p.line.as_str()).or_default().push(i);
     }
-    for f in &input.fittings {
+    // Fittings of each line in list order (for placing fittings with no Size).
+    let mut fits_by_line: HashMap<&str, Vec<usize>> = HashMap::new();
+    for (i, f) in input.fittings.iter().enumerate() {
+        fits_by_line.entry(f.line.as_str()).or_default().push(i);
+    }
+    let mut inferred = Vec::new();
+    for (fi, f) in input.fittings.iter().enumerate() {
         let Some(state) = states.get(&f.line) else {
             continue;
         };
@@ -450,17 +465,34 @@ pub fn compute(
             continue;
         };
         let key = f.size.as_ref().and_then(size_key);
-        let matched = match key {
-            Some(k) => line_runs
-                .iter()
-                .copied()
-                .find(|&i| resolved[i].key == Some(k)),
-            None => {
-                let distinct = line_runs
-                    .iter()
-                    .filter(|&&i| resolved[i].key != resolved[first].key)
-                    .count();
-                (distinct == 0).then_some(first)
+        let siblings = fits_by_line
+            .get(f.line.as_str())
+            .map_or(&[][..], |v| &v[..]);
+        let matched = match place(&ctx, &resolved, &line_runs, siblings, fi) {
+            Placement::Run(i) => Some(i),
+            Placement::Inferred(i, why) => {
+                inferred.push((f, i, why));
+                Some(i)
+            }
+            Placement::NoMatch => None,
+            Placement::Ambiguous => {
+                let cell = ctx.cell(TableKind::Fittings, &f.origin.sheet, f.origin.row, "size");
+                let sizes = line_sizes(&ctx, &pipes, &resolved, &line_runs);
+                ctx.error(
+                    cell,
+                    format!(
+                        "{} has no Size and line {} has runs of several sizes ({sizes}): it cannot \
+                         be placed on one of them",
+                        fitting_label(f),
+                        f.line
+                    ),
+                    Some(
+                        "write the fitting's Size (or list it after a fitting of known size, in \
+                         flow order)"
+                            .into(),
+                    ),
+                );
+                continue;
             }
         };
         let run = match matched {
@@ -475,12 +507,15 @@ pub fn compute(
             (None, Some(k)) => bore_of_key(k, pipes[run], r).unwrap_or(r.d_m),
             _ => r.d_m,
         };
-        let d_out = f.size_out.as_ref().and_then(size_key).map(|k| {
-            line_runs
-                .iter()
-                .find(|&&i| resolved[i].key == Some(k))
-                .map(|&i| resolved[i].d_m)
-                .or_else(|| bore_of_key(k, pipes[run], r))
+        // The wall of the run, when the fitting sits on it (a projecting entrance's t/d).
+        let wall_m = matched.and(r.wall_m);
+        let d_out = f.size_out.as_ref().and_then(|size| {
+            let k = size_key(size)?;
+            Some(
+                run_of_size(&resolved, &line_runs, size)
+                    .map(|i| resolved[i].d_m)
+                    .or_else(|| bore_of_key(k, pipes[run], r)),
+            )
         });
         let d_out = match d_out {
             Some(Some(d)) => Some(d),
@@ -522,6 +557,10 @@ pub fn compute(
             angle_deg: f.angle_deg,
             fouling: f.fouling,
             beta: f.beta,
+            length_ratio: match f.kind.model {
+                fitting::Model::EntranceProjecting { .. } => wall_m.map(|w| w / d_in),
+                _ => None,
+            },
             ..FittingInput::default()
         };
         let model = FittingModel {
@@ -683,10 +722,154 @@ pub fn compute(
     for (f, run) in mismatches {
         super::findings::size_mismatch(input, &mut audit, f, run);
     }
+    for (f, run, why) in inferred {
+        super::findings::size_inferred(input, &mut audit, f, run, &why);
+    }
     for f in closed {
         super::findings::closed_valve(input, &mut audit, f);
     }
     Ok((audit, models))
+}
+
+/// Where a fitting goes among its line's runs.
+enum Placement {
+    /// On this run (its size matches, or the line has one bore).
+    Run(usize),
+    /// On this run, placed by the list order or its kind (no Size given); the reason in words.
+    Inferred(usize, String),
+    /// Its size matches no run.
+    NoMatch,
+    /// No Size, several bores, and nothing places it.
+    Ambiguous,
+}
+
+/// Relative difference within which a bore written on a fitting (`ID 400`) is the bore of a run:
+/// 1 % (our own choice: adjacent nominal sizes differ by far more, rounding of a written bore by
+/// less).
+const BORE_MATCH_REL: f64 = 0.01;
+
+/// The run of `line_runs` a written size names: same size key, or (for a bore) the same bore.
+fn run_of_size(resolved: &[ResolvedRun], line_runs: &[usize], size: &SizeSpec) -> Option<usize> {
+    let key = size_key(size)?;
+    if let Some(&i) = line_runs.iter().find(|&&i| resolved[i].key == Some(key)) {
+        return Some(i);
+    }
+    let SizeKey::Bore(tenths) = key else {
+        return None;
+    };
+    let d = tenths as f64 * 1e-4;
+    line_runs
+        .iter()
+        .copied()
+        .filter(|&i| (resolved[i].d_m - d).abs() <= BORE_MATCH_REL * resolved[i].d_m)
+        .min_by(|&a, &b| {
+            (resolved[a].d_m - d)
+                .abs()
+                .total_cmp(&(resolved[b].d_m - d).abs())
+        })
+}
+
+/// Whether two runs have the same bore (to 0.1 mm).
+fn same_bore(resolved: &[ResolvedRun], a: usize, b: usize) -> bool {
+    (resolved[a].d_m - resolved[b].d_m).abs() < 0.5e-4
+}
+
+/// Place fitting `fi` (an index into `input.fittings`) on one of its line's runs.
+///
+/// With a Size: the run of that size, else [`Placement::NoMatch`]. Without: the line's run when
+/// all its runs share one bore; an entrance on the first run and an exit on the last (in
+/// sequence); otherwise the bore the list order gives — the outlet of the nearest sized fitting
+/// listed before it and the inlet of the nearest one listed after it, which must agree.
+fn place(
+    ctx: &Ctx<'_>,
+    resolved: &[ResolvedRun],
+    line_runs: &[usize],
+    siblings: &[usize],
+    fi: usize,
+) -> Placement {
+    let input = ctx.input;
+    let f = &input.fittings[fi];
+    if let Some(size) = &f.size {
+        return run_of_size(resolved, line_runs, size).map_or(Placement::NoMatch, Placement::Run);
+    }
+    let (first, last) = (line_runs[0], line_runs[line_runs.len() - 1]);
+    if line_runs.iter().all(|&i| same_bore(resolved, i, first)) {
+        return Placement::Run(first);
+    }
+    match f.kind.group {
+        fitting::Group::Entrance => {
+            return Placement::Inferred(
+                first,
+                "an entrance is at the upstream end: the line's first run".into(),
+            );
+        }
+        fitting::Group::Exit => {
+            return Placement::Inferred(
+                last,
+                "an exit is at the downstream end: the line's last run".into(),
+            );
+        }
+        _ => {}
+    }
+    let pos = siblings.iter().position(|&i| i == fi).unwrap_or(0);
+    let before = siblings[..pos]
+        .iter()
+        .rev()
+        .map(|&i| &input.fittings[i])
+        .find_map(|g| g.size_out.as_ref().or(g.size.as_ref()).map(|s| (g, s)));
+    let after = siblings[pos + 1..]
+        .iter()
+        .map(|&i| &input.fittings[i])
+        .find_map(|g| g.size.as_ref().map(|s| (g, s)));
+    let by_before = before.and_then(|(g, s)| Some((g, run_of_size(resolved, line_runs, s)?)));
+    let by_after = after.and_then(|(g, s)| Some((g, run_of_size(resolved, line_runs, s)?)));
+    let row = |g: &FittingRow| {
+        let cell = ctx.cell(TableKind::Fittings, &g.origin.sheet, g.origin.row, "item");
+        format!("{} at {cell}", fitting_label(g))
+    };
+    match (by_before, by_after) {
+        (Some((g, a)), Some((h, b))) if same_bore(resolved, a, b) => Placement::Inferred(
+            a,
+            format!(
+                "listed between {} and {}, both at this bore",
+                row(g),
+                row(h)
+            ),
+        ),
+        (Some((g, a)), None) if after.is_none() => Placement::Inferred(
+            a,
+            format!("listed after {}, the last sized item before it", row(g)),
+        ),
+        (None, Some((h, b))) if before.is_none() => Placement::Inferred(
+            b,
+            format!("listed before {}, the first sized item after it", row(h)),
+        ),
+        _ => Placement::Ambiguous,
+    }
+}
+
+/// The distinct sizes of a line's runs with their cells, for messages.
+fn line_sizes(
+    ctx: &Ctx<'_>,
+    pipes: &[&PipeRow],
+    resolved: &[ResolvedRun],
+    line_runs: &[usize],
+) -> String {
+    let mut out: Vec<String> = Vec::new();
+    for (n, &i) in line_runs.iter().enumerate() {
+        if line_runs[..n].iter().any(|&j| same_bore(resolved, i, j)) {
+            continue;
+        }
+        let r = &resolved[i];
+        let size = match r.dn {
+            Some(dn) => format!("DN{dn}, bore {:.1} mm", r.d_m * 1e3),
+            None => format!("bore {:.1} mm", r.d_m * 1e3),
+        };
+        let p = pipes[i];
+        let cell = ctx.cell(TableKind::Pipes, &p.origin.sheet, p.origin.row, "size");
+        out.push(format!("{size} at {cell}"));
+    }
+    out.join("; ")
 }
 
 /// Bore of a size written on a fitting that matches no run: looked up with the run's material and schedule.

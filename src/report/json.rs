@@ -10,6 +10,11 @@ use crate::ingest::Input;
 pub struct Document<'a> {
     /// Tool version.
     pub lossledger: &'static str,
+    /// True when the input marks its data as invented (demo, fixtures, synthetic stations).
+    pub invented_data: bool,
+    /// The invented-data label, with the cell that marks it (absent for real data).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub invented_data_note: Option<String>,
     /// Input file and hash.
     pub input: InputRef<'a>,
     /// Lines with their runs.
@@ -49,8 +54,11 @@ pub struct JsonLine<'a> {
 
 /// Build the JSON document.
 pub fn document<'a>(input: &'a Input, audit: &'a Audit) -> Document<'a> {
+    let invented = super::invented::marker(input);
     Document {
         lossledger: env!("CARGO_PKG_VERSION"),
+        invented_data: invented.is_some(),
+        invented_data_note: invented.as_ref().map(super::invented::label),
         input: InputRef {
             file: &input.file,
             sha256: &input.sha256,

@@ -74,6 +74,7 @@ pub fn write_ranking(
     sheet: &str,
     audit: &Audit,
     rows: Option<usize>,
+    invented: Option<&str>,
 ) -> Result<(), XlsxError> {
     let st = Styles::new();
     let cur = &audit.energy.currency;
@@ -142,6 +143,10 @@ pub fn write_ranking(
     .collect();
     // The chart of the worst items sits above the table (rows 3–22), where it is seen first.
     let hr = 24u32;
+    // Just above the header row, below the chart.
+    if let Some(label) = invented {
+        ws.write_string_with_format(hr - 1, 0, label, &st.bold)?;
+    }
     for (c, h) in headers.iter().enumerate() {
         ws.write_string_with_format(hr, c as u16, h, &st.header)?;
     }

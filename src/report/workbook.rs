@@ -158,9 +158,16 @@ pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Wo
         let others = (|| -> Result<Vec<Worksheet>, XlsxError> {
             let mut summary = named(Worksheet::new(), &summary_name)?;
             write_summary(&mut summary, input, audit, st)?;
-            write_findings(&mut findings_ws, audit, st)?;
+            let invented = super::invented::marker(input).map(|c| super::invented::label(&c));
+            write_findings(&mut findings_ws, audit, invented.as_deref(), st)?;
             let ranking_rows = options.ranking_rows;
-            super::ranking::write_ranking(&mut ranking_ws, &ranking_name, audit, ranking_rows)?;
+            super::ranking::write_ranking(
+                &mut ranking_ws,
+                &ranking_name,
+                audit,
+                ranking_rows,
+                invented.as_deref(),
+            )?;
             let mut done = vec![summary, findings_ws, ranking_ws];
             if !audit.systems.is_empty() {
                 let mut ws = named(Worksheet::new(), &systems_name)?;
@@ -670,6 +677,10 @@ fn write_summary(
     ws.set_row_height(2, 30)?;
     let total: f64 = audit.lines.iter().map(|l| l.total_head_m).sum();
     let mut r = 6;
+    if let Some(cell) = super::invented::marker(input) {
+        ws.write_string_with_format(r, 0, super::invented::label(&cell), &st.bold)?;
+        r += 2;
+    }
     for (label, value) in [
         ("Lines audited", audit.lines.len().to_string()),
         ("Pipe runs", audit.runs.len().to_string()),
@@ -738,7 +749,12 @@ fn write_summary(
 
 /// The Findings sheet, an Excel table with a link to each finding's cell. Written row by row
 /// (the sheet streams in constant-memory mode: a huge register has a finding on many rows).
-fn write_findings(ws: &mut Worksheet, audit: &Audit, st: &Styles) -> Result<(), XlsxError> {
+fn write_findings(
+    ws: &mut Worksheet,
+    audit: &Audit,
+    invented: Option<&str>,
+    st: &Styles,
+) -> Result<(), XlsxError> {
     ws.set_landscape().set_print_fit_to_pages(1, 0);
     let headers = [
         "Severity", "Code", "Line", "Tag", "Cell", "Message", "Action",
@@ -755,6 +771,10 @@ fn write_findings(ws: &mut Worksheet, audit: &Audit, st: &Styles) -> Result<(), 
         .collect();
     let table = Table::new().set_columns(&columns).set_name("Findings");
     ws.add_table(0, 0, n.max(1), headers.len() as u16 - 1, &table)?;
+    // The invented-data label beside the header row (the table starts at A1; rows stream in order).
+    if let Some(label) = invented {
+        ws.write_string_with_format(0, headers.len() as u16 + 1, label, &st.bold)?;
+    }
     for (i, f) in audit.findings.iter().enumerate() {
         let r = i as u32 + 1;
         ws.write_string_with_format(r, 0, f.severity.label(), st.severity(f.severity))?;
@@ -806,6 +826,9 @@ fn write_basis(
     )?;
     line(ws, "Input file", &input.file, false)?;
     line(ws, "Input SHA-256", &input.sha256, false)?;
+    if let Some(cell) = super::invented::marker(input) {
+        line(ws, "Invented data", &super::invented::label(&cell), false)?;
+    }
     line(ws, "Caution", super::CAUTION, false)?;
     line(
         ws,

@@ -1,7 +1,9 @@
 //! The fitting catalogue: one table of kinds (data). Aliases are matched after
 //! [`super::normalise_item`], so they are written the way people write them.
 
-use super::opening::{BUTTERFLY, DIAPHRAGM, GATE, GLOBE, PLUG_COCK};
+use super::opening::{
+    BUTTERFLY, DIAPHRAGM, GATE, GLOBE, GLOBE_BEVEL_SEAT, GLOBE_COMPOSITION_SEAT, PLUG_COCK,
+};
 use super::{Group, Kind, Model, OpeningCurve, VelocityRef};
 
 const DARBY: &str = "Darby, Chemical Engineering 106(7) 1999, Table 1; Darby, Chemical Engineering \
@@ -26,13 +28,32 @@ const RH_EXIT: &str = "Rennels & Hudson, Pipe Flow, Wiley 2012, Sect. 10 (K = 1,
 const ISO5167: &str = "ISO 5167-2:2003 Eq. 4 (Reader-Harris/Gallagher C, flange tappings) and \
                        Sect. 5.4.1 Eq. 7 (pressure loss); ISO 5167-1:2003 Eq. 1";
 const NO_SOURCE: &str = "common practice (no source)";
+const STRAINER_SOURCE: &str = "clean K: common practice, no published table found (from memory: \
+                               clean Y strainers with fine screens run 3-4); fouling multiplier \
+                               from the schedule";
+const FOOT_VALVE_POPPET: &str = "Flow of Fluids Through Valves, Fittings, and Pipe, Technical Paper \
+                                 No. 410: foot valve with strainer, poppet disc K = 420 f_T (f_T of \
+                                 clean commercial steel at the bore)";
+const FOOT_VALVE_HINGED: &str = "Flow of Fluids Through Valves, Fittings, and Pipe, Technical Paper \
+                                 No. 410: foot valve with strainer, hinged disc K = 75 f_T (f_T of \
+                                 clean commercial steel at the bore)";
+const FOOT_VALVE_ANY: &str = "Flow of Fluids Through Valves, Fittings, and Pipe, Technical Paper \
+                              No. 410: poppet disc K = 420 f_T; band down to the hinged disc (75 \
+                              f_T) and up to the Hydraulic Institute single value K 15 (Pipe \
+                              Friction Manual, 1961) at NPS 24";
 
 // Bands (low, high multipliers). All common practice (no source) unless stated.
 const B_FITTING: (f64, f64) = (0.8, 1.25);
 const B_VALVE: (f64, f64) = (0.7, 1.4);
 const B_HOOPER: (f64, f64) = (0.7, 1.4);
 const B_CHECK: (f64, f64) = (0.2, 3.0);
+/// Strainers: wide because the clean K has no published table; 2× on the Y strainer's 2.5
+/// reaches the 3-4 of clean fine-screen Y strainers (from memory).
 const B_STRAINER: (f64, f64) = (0.5, 2.0);
+/// Foot valve of unknown disc type (poppet K = 420 f_T nominal): low 0.17 reaches the hinged
+/// disc (75/420 = 0.179), high 3.2 reaches the Hydraulic Institute K 15 up to NPS 24
+/// (15 / (420 f_T) = 3.1 there).
+const B_FOOT_ANY: (f64, f64) = (0.17, 3.2);
 const B_AREA: (f64, f64) = (0.8, 1.2);
 const B_DIFF: (f64, f64) = (0.7, 1.4);
 const B_TIGHT: (f64, f64) = (0.9, 1.1);
@@ -465,8 +486,8 @@ static CATALOGUE: &[Kind] = &[
             "stub in run",
             "stub in tee run",
             "set on branch run",
-            "weldolet run",
-            "olet run",
+            "branch outlet run",
+            "welded branch outlet run",
         ],
         darby(100.0, 0.0, 0.0),
         OWN,
@@ -535,8 +556,8 @@ static CATALOGUE: &[Kind] = &[
             "stub in branch",
             "stub in tee branch",
             "set on branch",
-            "weldolet",
-            "olet branch",
+            "branch outlet",
+            "welded branch outlet",
             "stub in",
         ],
         darby(1000.0, 0.34, 4.0),
@@ -570,7 +591,7 @@ static CATALOGUE: &[Kind] = &[
     ),
     kind(
         "valve-globe",
-        "globe valve, standard pattern, full size (opening = lift fraction)",
+        "globe valve, standard pattern, plug disc, full size (opening = lift fraction)",
         &[
             "globe valve",
             "globe vlv",
@@ -578,6 +599,8 @@ static CATALOGUE: &[Kind] = &[
             "glv",
             "stop valve",
             "regulating valve",
+            "plug disc globe valve",
+            "globe valve plug disc",
         ],
         darby(1500.0, 1.7, 3.6),
         OWN,
@@ -585,6 +608,39 @@ static CATALOGUE: &[Kind] = &[
         B_VALVE,
         G::Valve,
         Some(&GLOBE),
+    ),
+    kind(
+        "valve-globe-bevel-seat",
+        "globe valve, standard pattern, bevel seat (opening = lift fraction)",
+        &[
+            "bevel seat globe valve",
+            "globe valve bevel seat",
+            "globe bevel seat",
+            "bevelled seat globe valve",
+        ],
+        darby(1500.0, 1.7, 3.6),
+        OWN,
+        DARBY,
+        B_VALVE,
+        G::Valve,
+        Some(&GLOBE_BEVEL_SEAT),
+    ),
+    kind(
+        "valve-globe-composition-seat",
+        "globe valve, standard pattern, composition (soft) seat (opening = lift fraction)",
+        &[
+            "composition seat globe valve",
+            "globe valve composition seat",
+            "globe composition seat",
+            "soft seat globe valve",
+            "globe valve soft seat",
+        ],
+        darby(1500.0, 1.7, 3.6),
+        OWN,
+        DARBY,
+        B_VALVE,
+        G::Valve,
+        Some(&GLOBE_COMPOSITION_SEAT),
     ),
     kind(
         "valve-globe-y",
@@ -753,7 +809,7 @@ static CATALOGUE: &[Kind] = &[
             "diaphragm vlv",
             "weir valve",
             "diaphragm",
-            "saunders valve",
+            "weir diaphragm valve",
         ],
         darby(1000.0, 0.69, 4.9),
         OWN,
@@ -805,13 +861,13 @@ static CATALOGUE: &[Kind] = &[
         None,
     ),
     kind(
-        "check-tilting-disk",
+        "check-tilting-disc",
         "tilting-disc check valve",
         &[
-            "tilting disk check",
+            "check-tilting-disk",
+            "tilting disc check",
             "tilting disc check valve",
             "tilting check",
-            "tilting disk nrv",
             "tilting disc nrv",
         ],
         hooper(1000.0, 0.5),
@@ -835,7 +891,7 @@ static CATALOGUE: &[Kind] = &[
         ],
         Model::Strainer { k_clean: 2.5 },
         OWN,
-        NO_SOURCE,
+        STRAINER_SOURCE,
         B_STRAINER,
         G::Strainer,
         None,
@@ -852,14 +908,14 @@ static CATALOGUE: &[Kind] = &[
         ],
         Model::Strainer { k_clean: 1.5 },
         OWN,
-        NO_SOURCE,
+        STRAINER_SOURCE,
         B_STRAINER,
         G::Strainer,
         None,
     ),
     kind(
         "foot-valve",
-        "foot valve with strainer (suction inlet), clean K 15 times fouling",
+        "foot valve with strainer, disc type not given: poppet disc 420 f_T (the higher) times fouling",
         &[
             "foot valve",
             "foot valve with strainer",
@@ -867,18 +923,51 @@ static CATALOGUE: &[Kind] = &[
             "foot valve strainer",
             "suction foot valve",
         ],
-        Model::Strainer { k_clean: 15.0 },
+        Model::FootValve { n: 420.0 },
         OWN,
-        "Hydraulic Institute, Pipe Friction Manual, 3rd ed. 1961, foot valve K = 15; value from memory",
+        FOOT_VALVE_ANY,
+        B_FOOT_ANY,
+        G::Strainer,
+        None,
+    ),
+    kind(
+        "foot-valve-poppet",
+        "foot valve with strainer, poppet (lift) disc: K = 420 f_T times fouling",
+        &[
+            "poppet foot valve",
+            "foot valve poppet",
+            "poppet disc foot valve",
+            "lift foot valve",
+        ],
+        Model::FootValve { n: 420.0 },
+        OWN,
+        FOOT_VALVE_POPPET,
+        B_CHECK,
+        G::Strainer,
+        None,
+    ),
+    kind(
+        "foot-valve-hinged",
+        "foot valve with strainer, hinged (swing) disc: K = 75 f_T times fouling",
+        &[
+            "hinged foot valve",
+            "foot valve hinged",
+            "hinged disc foot valve",
+            "swing foot valve",
+        ],
+        Model::FootValve { n: 75.0 },
+        OWN,
+        FOOT_VALVE_HINGED,
         B_CHECK,
         G::Strainer,
         None,
     ),
     // ---------------- entrances / exit ----------------
     kind(
-        "entrance-sharp",
-        "sharp-edged flush entrance from a vessel",
+        "entrance-square-edged",
+        "square-edged (sharp) flush entrance from a vessel",
         &[
+            "entrance-sharp",
             "entrance",
             "sharp entrance",
             "square edged entrance",
@@ -899,9 +988,10 @@ static CATALOGUE: &[Kind] = &[
         None,
     ),
     kind(
-        "entrance-rounded",
-        "rounded flush entrance, r/d by bend_radius_d (default 0.1)",
+        "entrance-radiused",
+        "radiused (rounded) flush entrance, r/d by bend_radius_d (default 0.1)",
         &[
+            "entrance-rounded",
             "rounded entrance",
             "bellmouth",
             "bell mouth entrance",
@@ -937,13 +1027,13 @@ static CATALOGUE: &[Kind] = &[
         None,
     ),
     kind(
-        "entrance-beveled",
-        "beveled (chamfered) flush entrance, l/d default 0.1, angle default 45",
+        "entrance-chamfered",
+        "chamfered (bevelled) flush entrance, l/d default 0.1, angle default 45",
         &[
-            "beveled entrance",
+            "entrance-beveled",
             "bevelled entrance",
             "chamfered entrance",
-            "beveled inlet",
+            "bevelled inlet",
             "chamfered inlet",
         ],
         Model::EntranceBeveled {
@@ -1014,9 +1104,9 @@ static CATALOGUE: &[Kind] = &[
         None,
     ),
     kind(
-        "contraction-rounded",
-        "rounded contraction, r/d2 by bend_radius_d (default 0.1)",
-        &["rounded contraction", "radiused contraction"],
+        "contraction-radiused",
+        "radiused (rounded) contraction, r/d2 by bend_radius_d (default 0.1)",
+        &["contraction-rounded", "rounded contraction"],
         Model::RoundedContraction { default_r_d: 0.1 },
         SMALL,
         RH_CON_R,
@@ -1025,9 +1115,10 @@ static CATALOGUE: &[Kind] = &[
         None,
     ),
     kind(
-        "contraction-conical",
-        "conical contraction, included angle by angle_deg (default 30)",
+        "contraction-tapered",
+        "tapered (conical) contraction, included angle by angle_deg (default 30)",
         &[
+            "contraction-conical",
             "conical contraction",
             "tapered contraction",
             "cone contraction",
@@ -1043,9 +1134,10 @@ static CATALOGUE: &[Kind] = &[
         None,
     ),
     kind(
-        "diffuser-conical",
-        "conical diffuser (gradual expansion), included angle by angle_deg (default 30)",
+        "expansion-tapered",
+        "tapered (conical) expansion, i.e. a diffuser; included angle by angle_deg (default 30)",
         &[
+            "diffuser-conical",
             "diffuser",
             "conical diffuser",
             "expansion conical",
@@ -1114,7 +1206,7 @@ static CATALOGUE: &[Kind] = &[
         "flowmeter-full-bore",
         "full-bore flow meter (electromagnetic, ultrasonic): K = 0",
         &[
-            "magflow meter",
+            "magnetic flowmeter",
             "mag meter",
             "magmeter",
             "electromagnetic flowmeter",

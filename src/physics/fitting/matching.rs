@@ -37,18 +37,17 @@ fn canonical(tok: &str) -> &str {
         | "of" => "",
         "radiused" | "bellmouth" | "bell" => "rounded",
         "reentrant" | "inward" | "protruding" | "borda" => "projecting",
-        "bevelled" | "chamfered" | "chamfer" | "bevel" => "beveled",
+        "beveled" | "chamfered" | "chamfer" | "bevel" => "bevelled",
         "enlargement" => "expansion",
         "expander" | "increaser" => "reducer",
         "sudden" | "abrupt" => "",
         "reducing" | "red" | "swage" | "concentric" | "conc" | "eccentric" | "ecc" => "reducer",
         "cone" | "tapered" | "taper" | "gradual" => "conical",
-        "disc" => "disk",
+        "disk" => "disc",
         "piston" => "lift",
         "flap" => "swing",
-        "magflow" | "magmeter" | "mag" | "electromagnetic" | "ultrasonic" | "flowmeter" | "emf" => {
-            "meter"
-        }
+        "magmeter" | "mag" | "magnetic" | "electromagnetic" | "ultrasonic" | "flowmeter"
+        | "emf" => "meter",
         "orifices" => "orifice",
         "bends" => "bend",
         "valve" => "valve",

@@ -130,7 +130,7 @@ pub enum Model {
         /// t/d used when the row gives none.
         default_t_d: f64,
     },
-    /// Beveled (chamfered) flush entrance by bevel length l/d and angle (Rennels & Hudson 2012).
+    /// Chamfered (bevelled) flush entrance by bevel length l/d and angle (Rennels & Hudson 2012).
     EntranceBeveled {
         /// l/d used when the row gives none.
         default_l_d: f64,
@@ -141,6 +141,12 @@ pub enum Model {
     Strainer {
         /// K of the clean strainer.
         k_clean: f64,
+    },
+    /// Foot valve with strainer: `K = n · f_T` (f_T of clean commercial steel at the bore)
+    /// times a fouling multiplier.
+    FootValve {
+        /// Multiplier of f_T (420 poppet disc, 75 hinged disc).
+        n: f64,
     },
     /// Square-edged orifice plate, permanent pressure loss per ISO 5167-1/-2 as K on the pipe bore.
     OrificePlate,
@@ -194,8 +200,9 @@ impl Kind {
             Model::EntranceSharp => "Rennels & Hudson sharp entrance",
             Model::EntranceRounded { .. } => "Rennels & Hudson rounded entrance",
             Model::EntranceProjecting { .. } => "Rennels & Hudson projecting entrance",
-            Model::EntranceBeveled { .. } => "Rennels & Hudson beveled entrance",
+            Model::EntranceBeveled { .. } => "Rennels & Hudson bevelled entrance",
             Model::Strainer { .. } => "strainer K x fouling",
+            Model::FootValve { .. } => "foot valve n f_T x fouling",
             Model::OrificePlate => "ISO 5167 orifice permanent loss",
             Model::EquivalentLength => "Le/D x f_T",
             Model::Given => "given",
@@ -204,7 +211,8 @@ impl Kind {
 
     /// True for isolating/regulating valves and check valves (and foot valves).
     pub fn is_valve(&self) -> bool {
-        matches!(self.group, Group::Valve | Group::CheckValve) || self.id == "foot-valve"
+        matches!(self.group, Group::Valve | Group::CheckValve)
+            || matches!(self.model, Model::FootValve { .. })
     }
 }
 
@@ -351,6 +359,7 @@ pub const GIVEN_KV_BAND: (f64, f64) = (1.0 / (1.1 * 1.1), 1.0 / (0.9 * 0.9));
 /// Band used for Le/D × f_T (common practice, no source): the method ignores Re and size.
 pub const LE_D_BAND: (f64, f64) = (0.7, 1.5);
 /// Minimum band for partly open valves (common practice, no source): opening data are coarse.
+/// Each kind's curve widens it where the published tables disagree ([`OpeningCurve::band`]).
 pub const PARTLY_OPEN_BAND: (f64, f64) = (0.6, 1.6);
 
 fn check_finite_pos(what: &'static str, v: f64) -> Result<f64, FittingError> {
@@ -484,12 +493,32 @@ pub fn evaluate(kind: &Kind, input: &FittingInput) -> Result<FittingK, FittingEr
                 .k_at(k_open, h)
                 .ok_or(FittingError::Closed { id: kind.id })?;
             let band = (
-                band.0.min(PARTLY_OPEN_BAND.0),
-                band.1.max(PARTLY_OPEN_BAND.1),
+                band.0.min(curve.band.0).min(PARTLY_OPEN_BAND.0),
+                band.1.max(curve.band.1).max(PARTLY_OPEN_BAND.1),
             );
             Ok(banded(k, band, d_ref, curve.model, curve.source))
         }
-        _ => Ok(banded(k_open, band, d_ref, kind.model_name(), kind.source)),
+        _ => Ok(banded(
+            k_open,
+            band,
+            d_ref,
+            model_label(kind, input),
+            kind.source,
+        )),
+    }
+}
+
+/// Model name as reported, saying where a geometry default applied that the reader should see:
+/// a projecting entrance with no wall thickness uses t/d 0 (the conservative K 1.12).
+fn model_label(kind: &Kind, input: &FittingInput) -> &'static str {
+    match (kind.model, input.length_ratio) {
+        (Model::EntranceProjecting { .. }, None) => {
+            "Rennels & Hudson projecting entrance, wall not known: t/d 0 assumed"
+        }
+        (Model::EntranceProjecting { .. }, Some(_)) => {
+            "Rennels & Hudson projecting entrance, t/d from the pipe's wall"
+        }
+        _ => kind.model_name(),
     }
 }
 

@@ -1,7 +1,7 @@
 //! Loss-coefficient correlations (pure `f64`). Each returns K on the bore its doc states.
 
 use super::{FittingError, FittingInput, IN_M, Kind, Model, nominal_inches};
-use crate::physics::friction::colebrook;
+use crate::physics::friction::{colebrook, fully_turbulent};
 use std::f64::consts::PI;
 
 /// Reynolds number below which the turbulent-only methods hold f at its Re = 4000 value.
@@ -54,7 +54,7 @@ pub fn hooper_2k(k1: f64, kinf: f64, re: f64, d_in_inches: f64) -> f64 {
 /// 2012, §15.1 (Eq. 15.1), fitted to Ito (1960) smooth-bend data.
 /// # Validity
 /// 0 < α ≤ 180°, r/d ≥ 0.5, turbulent Re (f held at its Re = 4000 value below that).
-pub fn bend_rennels(angle_deg: f64, r_d: f64, f: f64) -> f64 {
+pub fn bend_k(angle_deg: f64, r_d: f64, f: f64) -> f64 {
     let a = angle_deg.to_radians();
     let s = (0.5 * a).sin();
     f * a * r_d + (0.10 + 2.4 * f) * s + 6.6 * f * (s.sqrt() + s) / r_d.powf(4.0 * a / PI)
@@ -68,7 +68,7 @@ pub fn bend_rennels(angle_deg: f64, r_d: f64, f: f64) -> f64 {
 /// Rennels & Hudson, "Pipe Flow", 2012, §15.2 (Eq. 15.2).
 /// # Validity
 /// 0 < α ≤ 150°, turbulent flow; one joint (multi-joint mitres: use the mitre-90-*weld kinds).
-pub fn mitre_rennels(angle_deg: f64) -> f64 {
+pub fn mitre_k(angle_deg: f64) -> f64 {
     let s = (0.5 * angle_deg.to_radians()).sin();
     0.42 * s + 2.56 * s * s * s
 }
@@ -94,7 +94,7 @@ pub fn borda_carnot(beta: f64) -> f64 {
 /// Rennels & Hudson 2012, §12.1 (Eqs. 12.1-12.2).
 /// # Validity
 /// 0 < β ≤ 1, turbulent flow.
-pub fn contraction_sharp_rennels(beta: f64) -> f64 {
+pub fn contraction_square_edged_k(beta: f64) -> f64 {
     let b2 = beta * beta;
     let b5 = b2 * b2 * beta;
     let lbd = 1.0 + 0.622 * (1.0 - 0.215 * b2 - 0.785 * b5);
@@ -110,7 +110,7 @@ pub fn contraction_sharp_rennels(beta: f64) -> f64 {
 /// Rennels & Hudson 2012, §12.2 (Eqs. 12.3-12.4).
 /// # Validity
 /// 0 ≤ r/d₂ ≤ 1 (r/d₂ clamped to 1 above), 0 < β ≤ 1, turbulent flow.
-pub fn contraction_round_rennels(beta: f64, r_d2: f64) -> f64 {
+pub fn contraction_radiused_k(beta: f64, r_d2: f64) -> f64 {
     let r = r_d2.clamp(0.0, 1.0);
     let sr = r.sqrt();
     let t = 1.0 - 0.30 * sr - 0.70 * r;
@@ -131,7 +131,7 @@ pub fn contraction_round_rennels(beta: f64, r_d2: f64) -> f64 {
 /// Rennels & Hudson 2012, §12.3 (Eqs. 12.5-12.7, sharp cone corners).
 /// # Validity
 /// 0 < α ≤ 180°, 0 < β ≤ 1, turbulent flow.
-pub fn contraction_conical_rennels(beta: f64, angle_deg: f64, f: f64) -> f64 {
+pub fn contraction_tapered_k(beta: f64, angle_deg: f64, f: f64) -> f64 {
     let a = angle_deg.to_radians();
     let b2 = beta * beta;
     let b4 = b2 * b2;
@@ -154,7 +154,7 @@ pub fn contraction_conical_rennels(beta: f64, angle_deg: f64, f: f64) -> f64 {
 /// Rennels & Hudson 2012, §11.2 (Eqs. 11.3-11.6).
 /// # Validity
 /// 0 < α ≤ 180°, 0 < β ≤ 1, turbulent flow, uniform inlet velocity profile.
-pub fn diffuser_conical_rennels(beta: f64, angle_deg: f64, f: f64) -> f64 {
+pub fn expansion_tapered_k(beta: f64, angle_deg: f64, f: f64) -> f64 {
     let a = angle_deg.to_radians();
     let b2 = beta * beta;
     let b4 = b2 * b2;
@@ -200,7 +200,7 @@ pub const ENTRANCE_SHARP_K: f64 = 0.57;
 /// Rennels & Hudson 2012, §9.2 (Eqs. 9.1-9.2).
 /// # Validity
 /// 0 ≤ r/d; turbulent flow.
-pub fn entrance_rounded_rennels(r_d: f64) -> f64 {
+pub fn entrance_radiused_k(r_d: f64) -> f64 {
     if r_d > 1.0 {
         return 0.03;
     }
@@ -217,12 +217,47 @@ pub fn entrance_rounded_rennels(r_d: f64) -> f64 {
 /// Rennels & Hudson 2012, §9.4 (Eq. 9.5).
 /// # Validity
 /// Pipe projecting at least d/2 into the vessel; 0 ≤ t/d; turbulent flow.
-pub fn entrance_projecting_rennels(t_d: f64) -> f64 {
+pub fn entrance_projecting_k(t_d: f64) -> f64 {
     let x = t_d.clamp(0.0, 0.05);
     1.12 + x * (x * (80.0 * x + 216.0) - 22.0)
 }
 
-/// Beveled (chamfered) flush entrance.
+/// Roughness of clean commercial steel pipe, 0.0018 in (= 0.04572 m/1000), the roughness the
+/// f_T of the foot-valve formulas is defined with.
+pub const CLEAN_STEEL_ROUGHNESS_M: f64 = 0.0018 * IN_M;
+
+/// Fully turbulent friction factor f_T of clean commercial steel pipe of bore `d_m`.
+///
+/// # Formula
+/// `f_T = 0.25 / [log₁₀(ε / 3.7 d)]²` with ε = 0.0018 in (the rough limit of Colebrook-White,
+/// [`fully_turbulent`]).
+/// # Source
+/// Flow of Fluids Through Valves, Fittings, and Pipe, Technical Paper No. 410 (a published
+/// handbook), Appendix A: the f_T the handbook's K formulas use, defined for clean commercial
+/// steel. The handbook also tabulates f_T by nominal size (rounded); the tests compare this
+/// closed form with a reference library's fit to that table (within 2 %).
+/// # Validity
+/// d > 0.
+pub fn f_t_clean_steel(d_m: f64) -> f64 {
+    fully_turbulent(CLEAN_STEEL_ROUGHNESS_M / d_m)
+}
+
+/// Foot valve with strainer, by disc type.
+///
+/// # Formula
+/// `K = n · f_T`, n = 420 for a poppet (lift) disc, 75 for a hinged (swing) disc, f_T from
+/// [`f_t_clean_steel`] at the valve's bore; K includes the strainer.
+/// # Source
+/// Flow of Fluids Through Valves, Fittings, and Pipe, Technical Paper No. 410, foot valves with
+/// strainer (poppet disc K = 420 f_T, hinged disc K = 75 f_T).
+/// # Validity
+/// Turbulent flow with the disc fully lifted: the handbook gives a minimum velocity for that;
+/// below it K is higher (the kinds' bands reach 3× for that reason).
+pub fn foot_valve_k(n: f64, d_m: f64) -> f64 {
+    n * f_t_clean_steel(d_m)
+}
+
+/// Chamfered (bevelled) flush entrance.
 ///
 /// # Formula
 /// `C_b = (1 − θ/90)(θ/90)^(1/(1 + l/d))`,
@@ -232,7 +267,7 @@ pub fn entrance_projecting_rennels(t_d: f64) -> f64 {
 /// Rennels & Hudson 2012, §9.3 (Eqs. 9.3-9.4).
 /// # Validity
 /// 0 ≤ θ ≤ 90°, 0 ≤ l/d ≤ 1; turbulent flow.
-pub fn entrance_beveled_rennels(l_d: f64, angle_deg: f64) -> f64 {
+pub fn entrance_chamfered_k(l_d: f64, angle_deg: f64) -> f64 {
     let cb = (1.0 - angle_deg / 90.0) * (angle_deg / 90.0).powf(1.0 / (1.0 + l_d));
     let lbd = 1.0 + 0.622 * (1.0 - 1.5 * cb * l_d.powf((1.0 - l_d.sqrt().sqrt()) / 2.0));
     0.0696 * (1.0 - cb * l_d) * lbd * lbd + (lbd - 1.0) * (lbd - 1.0)
@@ -356,7 +391,7 @@ pub(super) fn model_k(kind: &Kind, input: &FittingInput) -> Result<f64, FittingE
             )?;
             let r = input.bend_radius_d.unwrap_or(default_r_d);
             let r = check_range("bend r/D", r, 0.5, 1e6, ">= 0.5")?;
-            bend_rennels(a, r, f_turbulent(re, rr))
+            bend_k(a, r, f_turbulent(re, rr))
         }
         Model::Mitre { default_angle_deg } => {
             let a = check_range(
@@ -366,7 +401,7 @@ pub(super) fn model_k(kind: &Kind, input: &FittingInput) -> Result<f64, FittingE
                 150.0,
                 "0..=150 deg",
             )?;
-            mitre_rennels(a)
+            mitre_k(a)
         }
         Model::SuddenExpansion
         | Model::SuddenContraction
@@ -377,11 +412,11 @@ pub(super) fn model_k(kind: &Kind, input: &FittingInput) -> Result<f64, FittingE
         Model::EntranceSharp => ENTRANCE_SHARP_K,
         Model::EntranceRounded { default_r_d } => {
             let r = input.bend_radius_d.unwrap_or(default_r_d);
-            entrance_rounded_rennels(check_range("entrance r/d", r, 0.0, 1e6, ">= 0")?)
+            entrance_radiused_k(check_range("entrance r/d", r, 0.0, 1e6, ">= 0")?)
         }
         Model::EntranceProjecting { default_t_d } => {
             let t = input.length_ratio.unwrap_or(default_t_d);
-            entrance_projecting_rennels(check_range("wall t/d", t, 0.0, 1.0, "0..=1")?)
+            entrance_projecting_k(check_range("wall t/d", t, 0.0, 1.0, "0..=1")?)
         }
         Model::EntranceBeveled {
             default_l_d,
@@ -401,11 +436,16 @@ pub(super) fn model_k(kind: &Kind, input: &FittingInput) -> Result<f64, FittingE
                 90.0,
                 "0..=90 deg",
             )?;
-            entrance_beveled_rennels(l, a)
+            entrance_chamfered_k(l, a)
         }
         Model::Strainer { k_clean } => {
             let m = input.fouling.unwrap_or(1.0);
             k_clean * check_range("fouling multiplier", m, 1.0, 1e6, ">= 1 (1 = clean)")?
+        }
+        Model::FootValve { n } => {
+            let m = input.fouling.unwrap_or(1.0);
+            foot_valve_k(n, input.d_in_m)
+                * check_range("fouling multiplier", m, 1.0, 1e6, ">= 1 (1 = clean)")?
         }
         Model::OrificePlate => {
             let b = input.beta.ok_or(FittingError::Missing {
@@ -473,7 +513,7 @@ fn area_change_k(kind: &Kind, input: &FittingInput) -> Result<f64, FittingError>
             if expanding {
                 return Err(wrong());
             }
-            contraction_sharp_rennels(beta)
+            contraction_square_edged_k(beta)
         }
         Model::RoundedContraction { default_r_d } => {
             if expanding {
@@ -486,13 +526,13 @@ fn area_change_k(kind: &Kind, input: &FittingInput) -> Result<f64, FittingError>
                 1e6,
                 ">= 0",
             )?;
-            contraction_round_rennels(beta, r)
+            contraction_radiused_k(beta, r)
         }
         Model::ConicalDiffuser { default_angle_deg } => {
             if !expanding {
                 return Err(wrong());
             }
-            diffuser_conical_rennels(
+            expansion_tapered_k(
                 beta,
                 cone(default_angle_deg)?,
                 f_turbulent(re_small, rr_small),
@@ -502,7 +542,7 @@ fn area_change_k(kind: &Kind, input: &FittingInput) -> Result<f64, FittingError>
             if expanding {
                 return Err(wrong());
             }
-            contraction_conical_rennels(
+            contraction_tapered_k(
                 beta,
                 cone(default_angle_deg)?,
                 f_turbulent(re_small, rr_small),
@@ -512,9 +552,9 @@ fn area_change_k(kind: &Kind, input: &FittingInput) -> Result<f64, FittingError>
             let a = cone(default_angle_deg)?;
             let f = f_turbulent(re_small, rr_small);
             if expanding {
-                diffuser_conical_rennels(beta, a, f)
+                expansion_tapered_k(beta, a, f)
             } else {
-                contraction_conical_rennels(beta, a, f)
+                contraction_tapered_k(beta, a, f)
             }
         }
         _ => 0.0,
