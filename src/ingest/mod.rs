@@ -5,10 +5,12 @@
 //! problem as a [`Diagnostic`] so the user sees them all at once.
 
 pub mod csv;
+pub mod describe;
 pub mod grid;
 pub mod header;
 pub mod map;
 pub mod parse;
+pub mod quantity;
 pub mod rows;
 pub mod schema;
 
