@@ -245,8 +245,7 @@ const IGNORED: &[&str] = &[
 
 /// Words that make a row a pipe run.
 const PIPE_WORDS: &[&str] = &[
-    "pipework", "pipeline", "piping", "pipes", "pipe", "tubing", "tubes", "tube", "spools",
-    "spool",
+    "pipework", "pipeline", "piping", "pipes", "pipe", "tubing", "tubes", "tube", "spools", "spool",
 ];
 
 /// Words of items outside the flow path, and what they are.
@@ -368,7 +367,8 @@ impl Work {
         let Some(taken) = self.text.get(start..end).map(str::to_string) else {
             return String::new();
         };
-        self.text.replace_range(start..end, &" ".repeat(end - start));
+        self.text
+            .replace_range(start..end, &" ".repeat(end - start));
         taken.trim().to_string()
     }
 }
@@ -586,10 +586,7 @@ const ACCESSORY: &[&str] = &["c/w", "complete with", "including", "incl.", "incl
 const FILLER: &[&str] = &["for", "at", "per"];
 
 fn read_ignored(w: &mut Work, d: &mut Description) {
-    let cut = ACCESSORY
-        .iter()
-        .filter_map(|a| find_word(&w.text, a))
-        .min();
+    let cut = ACCESSORY.iter().filter_map(|a| find_word(&w.text, a)).min();
     if let Some(at) = cut {
         let end = w.text.len();
         let t = w.blank(at, end);
@@ -665,7 +662,8 @@ fn decide(w: &mut Work, d: &mut Description) {
         && kind.is_none_or(|k| !names_a_vessel(k))
     {
         d.role = Role::NotHydraulic(what);
-        d.deciding.insert(0, format!("not in the flow path: '{word}'"));
+        d.deciding
+            .insert(0, format!("not in the flow path: '{word}'"));
         return;
     }
     if let Some(k) = kind {
@@ -676,7 +674,8 @@ fn decide(w: &mut Work, d: &mut Description) {
     }
     if let Some((_, word, what)) = not_hydraulic {
         d.role = Role::NotHydraulic(what);
-        d.deciding.insert(0, format!("not in the flow path: '{word}'"));
+        d.deciding
+            .insert(0, format!("not in the flow path: '{word}'"));
         return;
     }
     if let Some((_, word, ())) = pipe_at {
@@ -698,7 +697,10 @@ mod tests {
     #[test]
     fn a_register_line_reads_noun_first() {
         let d = describe("VALVE, GATE, DN150, PN16");
-        assert_eq!(d.role, Role::Fitting(fitting::find_kind("valve-gate").unwrap()));
+        assert_eq!(
+            d.role,
+            Role::Fitting(fitting::find_kind("valve-gate").unwrap())
+        );
         assert_eq!(d.size, Some(SizeSpec::Dn(150)));
         assert_eq!(d.rating.map(|r| r.label()), Some("PN16".into()));
     }

@@ -193,7 +193,14 @@ mod tests {
     #[test]
     fn feet_and_inches_read_to_metres() {
         // 12 ft 6 in = 12.5 ft = 3.81 m exactly.
-        for t in ["12'6\"", "12' 6\"", "12'-6\"", "12 ft 6 in", "12’6”", "12'6''"] {
+        for t in [
+            "12'6\"",
+            "12' 6\"",
+            "12'-6\"",
+            "12 ft 6 in",
+            "12’6”",
+            "12'6''",
+        ] {
             assert!((q(t).value - 3.81).abs() < EXACT, "{t}");
         }
         assert!((q("10'").value - 3.048).abs() < EXACT);
