@@ -8,6 +8,7 @@ pub mod csv;
 pub mod describe;
 pub mod grid;
 pub mod header;
+pub mod list;
 pub mod map;
 pub mod parse;
 pub mod quantity;
@@ -69,6 +70,10 @@ pub struct ParseReport {
     pub skipped: Vec<Skipped>,
     /// Blank rows inside tables, per sheet.
     pub blank_rows: Vec<(String, usize)>,
+    /// Rows of mixed lists left out of the audit by their status (decommissioned, removed ...).
+    pub left_out: Vec<Skipped>,
+    /// How each row of a mixed list was read (run, fitting, heading, skipped, left out).
+    pub classified: Vec<list::Classified>,
 }
 
 /// How to read inputs.
@@ -359,6 +364,7 @@ fn parse_part(source: Source, sheets: Vec<SheetGrid>, options: &ReadOptions) -> 
     input.layouts = layouts;
     input.diagnostics = diagnostics;
     rows::read_all(&mut input);
+    list::read_lists(&mut input, options);
     input
 }
 
@@ -410,6 +416,8 @@ fn merge(parts: Vec<Input>) -> Input {
         all.report.conversions.append(&mut part.report.conversions);
         all.report.skipped.append(&mut part.report.skipped);
         all.report.blank_rows.append(&mut part.report.blank_rows);
+        all.report.left_out.append(&mut part.report.left_out);
+        all.report.classified.append(&mut part.report.classified);
     }
     if merged {
         all.file = all
@@ -493,6 +501,13 @@ fn sheet_table(name: &str, map: Option<&HeaderMap>) -> Option<TableKind> {
                 .filter(|(_, n)| n.chars().all(|c| c.is_ascii_digit()));
             base.and_then(|(b, _)| schema::match_sheet(b))
         })
+        .or_else(|| {
+            let f = schema::fold(name);
+            list::columns::LIST_SHEETS
+                .iter()
+                .any(|a| schema::fold(a) == f)
+                .then_some(TableKind::List)
+        })
 }
 
 /// Find each table: by sheet name first, then by headers; check required columns.
@@ -504,6 +519,13 @@ fn locate_tables(
 ) -> Vec<Layout> {
     let mut layouts = Vec::new();
     let mut used = vec![false; sheets.len()];
+    for (i, s) in sheets.iter().enumerate() {
+        let named = sheet_table(&s.name, map);
+        if let Some(l) = list::find_list(s, i, named, map) {
+            used[i] = true;
+            layouts.push(l);
+        }
+    }
     for table in schema::ALL_TABLES {
         let spec = schema::spec(table);
         let by_name = sheets
@@ -682,7 +704,7 @@ pub fn describe(input: &Input) -> String {
             s.sha256
         );
     }
-    for l in &input.layouts {
+    for l in input.layouts.iter().filter(|l| !list::is_view(input, l)) {
         let rows = if l.header_rows > 1 {
             format!("rows {}-{}", l.header_row + 1, l.header_row + l.header_rows)
         } else {
@@ -711,7 +733,11 @@ pub fn describe(input: &Input) -> String {
             }
         }
     }
-    let layouts: Vec<&Layout> = input.layouts.iter().collect();
+    let layouts: Vec<&Layout> = input
+        .layouts
+        .iter()
+        .filter(|l| !list::is_view(input, l))
+        .collect();
     out.push('\n');
     out.push_str(&map::mapping_toml(&layouts));
     let by_sheet = input.assumed_by_sheet();
@@ -746,6 +772,27 @@ pub fn describe(input: &Input) -> String {
                 "  ... and {} more (all listed in the Basis sheet of the audit)",
                 input.report.conversions.len() - 20
             );
+        }
+    }
+    if !input.report.classified.is_empty() {
+        out.push_str("\nList rows (what each became and the words that decided):\n");
+        for c in &input.report.classified {
+            let what = if c.what.is_empty() {
+                String::new()
+            } else {
+                format!(" {}", c.what)
+            };
+            let _ = writeln!(out, "  {}: {}{what} — {}", c.cell, c.became.word(), c.deciding);
+        }
+    }
+    if !input.report.left_out.is_empty() {
+        let _ = writeln!(
+            out,
+            "\nLeft out by status: {} row(s)",
+            input.report.left_out.len()
+        );
+        for s in &input.report.left_out {
+            let _ = writeln!(out, "  {}: {}", s.cell, s.reason);
         }
     }
     if !input.report.skipped.is_empty() || !input.report.blank_rows.is_empty() {

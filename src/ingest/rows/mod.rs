@@ -13,6 +13,8 @@ mod pump_curve;
 mod systems;
 
 pub use cells::format_number;
+pub(crate) use cells::{Cells, decimal_comma_columns, skip_reason, truncate};
+pub(crate) use pipes::run_assumptions;
 pub use fittings::FittingRow;
 pub use fluids::FluidRow;
 pub use lines::{LineRow, Service};

@@ -1,6 +1,6 @@
 //! Rows of `Pipes`: one per pipe run.
 
-use super::cells::{Sink, for_each_row};
+use super::cells::{Cells, Sink, for_each_row};
 use super::{Assumed, Origin};
 use crate::ingest::Input;
 use crate::ingest::parse::SizeSpec;
@@ -95,6 +95,48 @@ pub(super) fn read_pipes(input: &Input, sink: &mut Sink) -> Vec<PipeRow> {
         let c_factor = c.positive("c_factor", false);
         let age = c.positive("age", true);
         let seq = c.number("seq");
+        assumed.extend(run_assumptions(c, material, size, schedule, inner, roughness, c_factor, age));
+        if let Some(length_m) = length
+            && c.errors == 0
+        {
+            pipes.push(PipeRow {
+                origin: Origin {
+                    sheet: c.layout.sheet.clone(),
+                    row: c.row,
+                },
+                line,
+                seq,
+                size,
+                schedule,
+                material,
+                length_m,
+                inner_diameter_m: inner,
+                roughness_m: roughness,
+                age_years: age,
+                c_factor,
+                flow_m3_s: flow,
+                assumed,
+            });
+        }
+    });
+    pipes.shrink_to_fit();
+    pipes
+}
+
+/// The values assumed for a run whose schedule, roughness (or C factor) is not given: the
+/// material's default schedule for the size and its new-pipe (or aged) roughness.
+#[allow(clippy::too_many_arguments)]
+pub(crate) fn run_assumptions(
+    c: &Cells<'_>,
+    material: Material,
+    size: Option<SizeSpec>,
+    schedule: Option<Schedule>,
+    inner: Option<f64>,
+    roughness: Option<f64>,
+    c_factor: Option<f64>,
+    age: Option<f64>,
+) -> Vec<Assumed> {
+    let mut assumed = Vec::new();
         if schedule.is_none() && inner.is_none() {
             let dn = match size {
                 Some(SizeSpec::Dn(dn)) => Some(dn),
@@ -129,29 +171,5 @@ pub(super) fn read_pipes(input: &Input, sink: &mut Sink) -> Vec<PipeRow> {
             };
             assumed.push(c.assumed("roughness", what));
         }
-        if let Some(length_m) = length
-            && c.errors == 0
-        {
-            pipes.push(PipeRow {
-                origin: Origin {
-                    sheet: c.layout.sheet.clone(),
-                    row: c.row,
-                },
-                line,
-                seq,
-                size,
-                schedule,
-                material,
-                length_m,
-                inner_diameter_m: inner,
-                roughness_m: roughness,
-                age_years: age,
-                c_factor,
-                flow_m3_s: flow,
-                assumed,
-            });
-        }
-    });
-    pipes.shrink_to_fit();
-    pipes
+    assumed
 }
