@@ -18,10 +18,26 @@ struct Line {
 }
 
 const LINES: &[Line] = &[
-    Line { id: "MC-01", service: "pump-suction", flow_m3h: 180.0 },
-    Line { id: "MC-02", service: "pump-discharge", flow_m3h: 180.0 },
-    Line { id: "MC-03", service: "distribution", flow_m3h: 90.0 },
-    Line { id: "MC-04", service: "distribution", flow_m3h: 60.0 },
+    Line {
+        id: "MC-01",
+        service: "pump-suction",
+        flow_m3h: 180.0,
+    },
+    Line {
+        id: "MC-02",
+        service: "pump-discharge",
+        flow_m3h: 180.0,
+    },
+    Line {
+        id: "MC-03",
+        service: "distribution",
+        flow_m3h: 90.0,
+    },
+    Line {
+        id: "MC-04",
+        service: "distribution",
+        flow_m3h: 60.0,
+    },
 ];
 
 /// One item of the station, with its spellings in three house styles.
@@ -39,36 +55,254 @@ struct Item {
     register: &'static str,
 }
 
-const fn run(line: &'static str, material: &'static str, schedule: &'static str, dn: u16, m: f64, boq: &'static str, mto: &'static str, register: &'static str) -> Item {
-    Item { line, run: Some((material, schedule)), kind: "", dn, dn_out: None, qty: m, boq, mto, register }
+const fn run(
+    line: &'static str,
+    material: &'static str,
+    schedule: &'static str,
+    dn: u16,
+    m: f64,
+    boq: &'static str,
+    mto: &'static str,
+    register: &'static str,
+) -> Item {
+    Item {
+        line,
+        run: Some((material, schedule)),
+        kind: "",
+        dn,
+        dn_out: None,
+        qty: m,
+        boq,
+        mto,
+        register,
+    }
 }
 
 #[allow(clippy::too_many_arguments)]
-const fn fit(line: &'static str, kind: &'static str, dn: u16, dn_out: Option<u16>, n: f64, boq: &'static str, mto: &'static str, register: &'static str) -> Item {
-    Item { line, run: None, kind, dn, dn_out, qty: n, boq, mto, register }
+const fn fit(
+    line: &'static str,
+    kind: &'static str,
+    dn: u16,
+    dn_out: Option<u16>,
+    n: f64,
+    boq: &'static str,
+    mto: &'static str,
+    register: &'static str,
+) -> Item {
+    Item {
+        line,
+        run: None,
+        kind,
+        dn,
+        dn_out,
+        qty: n,
+        boq,
+        mto,
+        register,
+    }
 }
 
 const ITEMS: &[Item] = &[
-    run("MC-01", "carbon steel", "40", 200, 6.5, "Supply and install CS pipe, seamless, DN200 Sch 40", "PIPE SMLS DN200 SCH40 CS", "PIPE, CS, DN200, SCH 40"),
-    run("MC-01", "carbon steel", "40", 200, 3.81, "Supply and install CS pipe DN200 Sch 40 (make-up piece)", "PIPE DN200 SCH40 CS", "PIPE, CS, DN200, SCH40"),
-    fit("MC-01", "y strainer", 200, None, 1.0, "Supply and install DN200 PN16 Y-type strainer c/w 3 mm mesh", "STRAINER Y DN200 PN16", "STRAINER, Y-TYPE, DN200, PN16"),
-    fit("MC-01", "gate valve", 200, None, 1.0, "DN200 PN16 flanged gate valve c/w handwheel", "GATE VLV DN200 PN16 RF", "VALVE, GATE, DN200, PN16"),
-    fit("MC-01", "90 lr elbow", 200, None, 2.0, "90 degree long radius elbow DN200", "ELL 90 LR BW DN200", "ELBOW, 90DEG, LR, DN200"),
-    fit("MC-01", "reducer", 200, Some(150), 1.0, "Concentric reducer 200 x 150", "RED CONC DN200XDN150", "REDUCER, CONCENTRIC, DN200XDN150"),
-    run("MC-01", "carbon steel", "40", 150, 2.0, "Supply and install CS pipe DN150 Sch 40", "PIPE DN150 SCH40 CS", "PIPE, CS, DN150, SCH 40"),
-    run("MC-02", "carbon steel", "", 150, 45.0, "Carbon steel pipework DN150", "PIPE DN150 CS", "PIPE, CS, DN150"),
-    fit("MC-02", "swing check valve", 150, None, 1.0, "Swing check valve DN150 PN16 flanged", "CHK VLV SWING DN150 PN16", "VALVE, CHECK, SWING, DN150, PN16"),
-    fit("MC-02", "gate valve", 150, None, 1.0, "Gate valve DN150 PN16", "GATE VLV DN150 PN16", "VALVE, GATE, DN150, PN16"),
-    fit("MC-02", "90 lr elbow", 150, None, 4.0, "Extra over pipe for 90 degree long radius elbows DN150", "ELL 90 LR DN150", "ELBOW, 90DEG, LR, DN150"),
-    fit("MC-02", "tee run", 150, None, 1.0, "Equal tee, flow through run, DN150", "TEE RUN DN150", "TEE, RUN, DN150"),
-    run("MC-03", "ductile iron", "", 100, 120.0, "Supply and lay DI pipe, cement lined, DN100", "PIPE DI DN100", "PIPE, DI, DN100"),
-    fit("MC-03", "gate valve", 100, None, 2.0, "Gate valve DN100 PN16", "GATE VLV DN100 PN16", "VALVE, GATE, DN100, PN16"),
-    fit("MC-03", "45 elbow", 100, None, 2.0, "45 deg elbow DN100", "ELL 45 DN100", "ELBOW, 45DEG, DN100"),
-    fit("MC-03", "butterfly valve", 100, None, 1.0, "Butterfly valve DN100 PN16, electrically actuated", "BFV DN100 PN16", "VALVE, BUTTERFLY, DN100, PN16"),
-    run("MC-04", "SS316", "10S", 80, 60.0, "Stainless steel pipe SS316 DN80 Sch 10S", "PIPE DN80 10S SS316", "PIPE, SS316, DN80, SCH 10S"),
-    fit("MC-04", "ball valve", 80, None, 1.0, "Ball valve full bore DN80 PN40", "BALL VLV FB DN80", "VALVE, BALL, DN80"),
-    fit("MC-04", "90 lr elbow", 80, None, 3.0, "90 degree long radius elbow DN80", "ELL 90 LR DN80", "ELBOW, 90DEG, LR, DN80"),
-    fit("MC-04", "exit", 80, None, 1.0, "Pipe exit into tank DN80", "EXIT DN80", "EXIT, DN80"),
+    run(
+        "MC-01",
+        "carbon steel",
+        "40",
+        200,
+        6.5,
+        "Supply and install CS pipe, seamless, DN200 Sch 40",
+        "PIPE SMLS DN200 SCH40 CS",
+        "PIPE, CS, DN200, SCH 40",
+    ),
+    run(
+        "MC-01",
+        "carbon steel",
+        "40",
+        200,
+        3.81,
+        "Supply and install CS pipe DN200 Sch 40 (make-up piece)",
+        "PIPE DN200 SCH40 CS",
+        "PIPE, CS, DN200, SCH40",
+    ),
+    fit(
+        "MC-01",
+        "y strainer",
+        200,
+        None,
+        1.0,
+        "Supply and install DN200 PN16 Y-type strainer c/w 3 mm mesh",
+        "STRAINER Y DN200 PN16",
+        "STRAINER, Y-TYPE, DN200, PN16",
+    ),
+    fit(
+        "MC-01",
+        "gate valve",
+        200,
+        None,
+        1.0,
+        "DN200 PN16 flanged gate valve c/w handwheel",
+        "GATE VLV DN200 PN16 RF",
+        "VALVE, GATE, DN200, PN16",
+    ),
+    fit(
+        "MC-01",
+        "90 lr elbow",
+        200,
+        None,
+        2.0,
+        "90 degree long radius elbow DN200",
+        "ELL 90 LR BW DN200",
+        "ELBOW, 90DEG, LR, DN200",
+    ),
+    fit(
+        "MC-01",
+        "reducer",
+        200,
+        Some(150),
+        1.0,
+        "Concentric reducer 200 x 150",
+        "RED CONC DN200XDN150",
+        "REDUCER, CONCENTRIC, DN200XDN150",
+    ),
+    run(
+        "MC-01",
+        "carbon steel",
+        "40",
+        150,
+        2.0,
+        "Supply and install CS pipe DN150 Sch 40",
+        "PIPE DN150 SCH40 CS",
+        "PIPE, CS, DN150, SCH 40",
+    ),
+    run(
+        "MC-02",
+        "carbon steel",
+        "",
+        150,
+        45.0,
+        "Carbon steel pipework DN150",
+        "PIPE DN150 CS",
+        "PIPE, CS, DN150",
+    ),
+    fit(
+        "MC-02",
+        "swing check valve",
+        150,
+        None,
+        1.0,
+        "Swing check valve DN150 PN16 flanged",
+        "CHK VLV SWING DN150 PN16",
+        "VALVE, CHECK, SWING, DN150, PN16",
+    ),
+    fit(
+        "MC-02",
+        "gate valve",
+        150,
+        None,
+        1.0,
+        "Gate valve DN150 PN16",
+        "GATE VLV DN150 PN16",
+        "VALVE, GATE, DN150, PN16",
+    ),
+    fit(
+        "MC-02",
+        "90 lr elbow",
+        150,
+        None,
+        4.0,
+        "Extra over pipe for 90 degree long radius elbows DN150",
+        "ELL 90 LR DN150",
+        "ELBOW, 90DEG, LR, DN150",
+    ),
+    fit(
+        "MC-02",
+        "tee run",
+        150,
+        None,
+        1.0,
+        "Equal tee, flow through run, DN150",
+        "TEE RUN DN150",
+        "TEE, RUN, DN150",
+    ),
+    run(
+        "MC-03",
+        "ductile iron",
+        "",
+        100,
+        120.0,
+        "Supply and lay DI pipe, cement lined, DN100",
+        "PIPE DI DN100",
+        "PIPE, DI, DN100",
+    ),
+    fit(
+        "MC-03",
+        "gate valve",
+        100,
+        None,
+        2.0,
+        "Gate valve DN100 PN16",
+        "GATE VLV DN100 PN16",
+        "VALVE, GATE, DN100, PN16",
+    ),
+    fit(
+        "MC-03",
+        "45 elbow",
+        100,
+        None,
+        2.0,
+        "45 deg elbow DN100",
+        "ELL 45 DN100",
+        "ELBOW, 45DEG, DN100",
+    ),
+    fit(
+        "MC-03",
+        "butterfly valve",
+        100,
+        None,
+        1.0,
+        "Butterfly valve DN100 PN16, electrically actuated",
+        "BFV DN100 PN16",
+        "VALVE, BUTTERFLY, DN100, PN16",
+    ),
+    run(
+        "MC-04",
+        "SS316",
+        "10S",
+        80,
+        60.0,
+        "Stainless steel pipe SS316 DN80 Sch 10S",
+        "PIPE DN80 10S SS316",
+        "PIPE, SS316, DN80, SCH 10S",
+    ),
+    fit(
+        "MC-04",
+        "ball valve",
+        80,
+        None,
+        1.0,
+        "Ball valve full bore DN80 PN40",
+        "BALL VLV FB DN80",
+        "VALVE, BALL, DN80",
+    ),
+    fit(
+        "MC-04",
+        "90 lr elbow",
+        80,
+        None,
+        3.0,
+        "90 degree long radius elbow DN80",
+        "ELL 90 LR DN80",
+        "ELBOW, 90DEG, LR, DN80",
+    ),
+    fit(
+        "MC-04",
+        "exit",
+        80,
+        None,
+        1.0,
+        "Pipe exit into tank DN80",
+        "EXIT DN80",
+        "EXIT, DN80",
+    ),
 ];
 
 fn service(id: &str) -> &'static str {
@@ -83,7 +317,10 @@ fn title(ws: &mut Worksheet, text: &str) -> Result<(), XlsxError> {
 
 fn lines_sheet(wb: &mut Workbook) -> Result<(), XlsxError> {
     let ws = wb.add_worksheet().set_name("Lines")?;
-    for (c, h) in ["Line", "Service", "Flow [m3/h]", "Temperature [°C]"].iter().enumerate() {
+    for (c, h) in ["Line", "Service", "Flow [m3/h]", "Temperature [°C]"]
+        .iter()
+        .enumerate()
+    {
         ws.write_string(0, c as u16, *h)?;
     }
     for (r, l) in LINES.iter().enumerate() {
@@ -93,7 +330,7 @@ fn lines_sheet(wb: &mut Workbook) -> Result<(), XlsxError> {
         ws.write_number(r, 2, l.flow_m3h)?;
         ws.write_number(r, 3, 15.0)?;
     }
-    ws.write_string(LINES.len() as u32 + 2, 0, NOTE)?;
+    ws.write_string(0, 5, NOTE)?;
     Ok(())
 }
 
@@ -109,7 +346,11 @@ fn canonical(path: &Path) -> Result<(), XlsxError> {
     let mut wb = Workbook::new();
     lines_sheet(&mut wb)?;
     let ws = wb.add_worksheet().set_name("Pipes")?;
-    header(ws, 0, &["Line", "Size", "Schedule", "Material", "Length [m]"])?;
+    header(
+        ws,
+        0,
+        &["Line", "Size", "Schedule", "Material", "Length [m]"],
+    )?;
     let mut r = 1;
     for i in ITEMS.iter().filter(|i| i.run.is_some()) {
         let (material, schedule) = i.run.unwrap_or_default();
@@ -145,8 +386,23 @@ fn unit_of(i: &Item) -> &'static str {
 /// 01: a bill of quantities with a Line column and a Unit column.
 fn line_column(wb: &mut Workbook) -> Result<(), XlsxError> {
     let ws = wb.add_worksheet().set_name("BoQ")?;
-    title(ws, "Marrow Creek booster station — mechanical bill of quantities")?;
-    header(ws, 3, &["Item", "Line", "Description", "Qty", "Unit", "Rate", "Amount"])?;
+    title(
+        ws,
+        "Marrow Creek booster station — mechanical bill of quantities",
+    )?;
+    header(
+        ws,
+        3,
+        &[
+            "Item",
+            "Line",
+            "Description",
+            "Qty",
+            "Unit",
+            "Rate",
+            "Amount",
+        ],
+    )?;
     for (n, i) in ITEMS.iter().enumerate() {
         let r = 4 + n as u32;
         ws.write_string(r, 0, format!("{}", n + 1))?;
@@ -162,7 +418,11 @@ fn line_column(wb: &mut Workbook) -> Result<(), XlsxError> {
 fn headings(wb: &mut Workbook) -> Result<(), XlsxError> {
     let ws = wb.add_worksheet().set_name("Bill 3 Mechanical")?;
     title(ws, "Bill No. 3 — pipework and valves")?;
-    header(ws, 3, &["Ref", "Description", "Qty", "Unit", "Rate", "Amount"])?;
+    header(
+        ws,
+        3,
+        &["Ref", "Description", "Qty", "Unit", "Rate", "Amount"],
+    )?;
     let mut r = 4;
     ws.write_string(r, 1, "Preliminaries for pipework")?;
     r += 1;
@@ -171,7 +431,12 @@ fn headings(wb: &mut Workbook) -> Result<(), XlsxError> {
     ws.write_number(r, 2, 1.0)?;
     ws.write_string(r, 3, "Sum")?;
     r += 1;
-    let heads = ["Line MC-01", "LINE NO: MC-02", "MC-03 — distribution to east reservoir", "Line No. MC-04 (west main)"];
+    let heads = [
+        "Line MC-01",
+        "LINE NO: MC-02",
+        "MC-03 — distribution to east reservoir",
+        "Line No. MC-04 (west main)",
+    ];
     for (h, line) in heads.iter().zip(LINES) {
         r += 1;
         ws.write_string(r, 0, *h)?;
@@ -242,7 +507,10 @@ fn item_numbers(wb: &mut Workbook) -> Result<(), XlsxError> {
     let ws = wb.add_worksheet().set_name("Bill of quantities")?;
     title(ws, "Marrow Creek — works package 2")?;
     header(ws, 3, &["Item", "Particulars", "Line ref", "Qty", "Unit"])?;
-    let numbers = ["A.1", "A.2", "(a)", "(b)", "A.3", "A.4", "A.5", "B.1", "B.2", "B.3", "B.4", "B.5", "C.1", "C.2", "C.3", "C.4", "D.1", "D.2", "D.3", "D.4"];
+    let numbers = [
+        "A.1", "A.2", "(a)", "(b)", "A.3", "A.4", "A.5", "B.1", "B.2", "B.3", "B.4", "B.5", "C.1",
+        "C.2", "C.3", "C.4", "D.1", "D.2", "D.3", "D.4",
+    ];
     for (n, i) in ITEMS.iter().enumerate() {
         let r = 4 + n as u32;
         ws.write_string(r, 0, numbers[n % numbers.len()])?;
@@ -268,21 +536,82 @@ fn register_rows(location: impl Fn(&str) -> String) -> Vec<[String; 4]> {
             } else {
                 i.register.to_string()
             };
-            rows.push([format!("A{:05}", 1000 + n), text, "In service".into(), location(i.line)]);
+            rows.push([
+                format!("A{:05}", 1000 + n),
+                text,
+                "In service".into(),
+                location(i.line),
+            ]);
         }
     }
-    rows.insert(2, ["A00990".into(), "PUMP, CENTRIFUGAL, END SUCTION, DN200".into(), "Duty".into(), location("MC-01")]);
-    rows.insert(3, ["A00991".into(), "MOTOR, ELECTRIC, 37 KW".into(), "Duty".into(), location("MC-01")]);
-    rows.insert(9, ["A00992".into(), "VALVE, GATE, DN150, PN16".into(), "Removed".into(), location("MC-02")]);
-    rows.insert(12, ["A00993".into(), "VALVE, CHECK, SWING, DN150".into(), "Spare".into(), location("MC-02")]);
-    rows.push(["A00994".into(), "TRANSMITTER, PRESSURE, 0-16 BAR".into(), "In service".into(), location("MC-04")]);
-    rows.push(["A00995".into(), "PIPE, CS, DN150, 12 M".into(), "Abandoned in place".into(), location("MC-02")]);
+    rows.insert(
+        2,
+        [
+            "A00990".into(),
+            "PUMP, CENTRIFUGAL, END SUCTION, DN200".into(),
+            "Duty".into(),
+            location("MC-01"),
+        ],
+    );
+    rows.insert(
+        3,
+        [
+            "A00991".into(),
+            "MOTOR, ELECTRIC, 37 KW".into(),
+            "Duty".into(),
+            location("MC-01"),
+        ],
+    );
+    rows.insert(
+        9,
+        [
+            "A00992".into(),
+            "VALVE, GATE, DN150, PN16".into(),
+            "Removed".into(),
+            location("MC-02"),
+        ],
+    );
+    rows.insert(
+        12,
+        [
+            "A00993".into(),
+            "VALVE, CHECK, SWING, DN150".into(),
+            "Spare".into(),
+            location("MC-02"),
+        ],
+    );
+    rows.push([
+        "A00994".into(),
+        "TRANSMITTER, PRESSURE, 0-16 BAR".into(),
+        "In service".into(),
+        location("MC-04"),
+    ]);
+    rows.push([
+        "A00995".into(),
+        "PIPE, CS, DN150, 12 M".into(),
+        "Abandoned in place".into(),
+        location("MC-02"),
+    ]);
     rows
 }
 
-fn register_sheet(wb: &mut Workbook, loc_header: &str, location: impl Fn(&str) -> String) -> Result<(), XlsxError> {
+fn register_sheet(
+    wb: &mut Workbook,
+    loc_header: &str,
+    location: impl Fn(&str) -> String,
+) -> Result<(), XlsxError> {
     let ws = wb.add_worksheet().set_name("Asset register")?;
-    header(ws, 0, &["Asset no", "Description", "Status", loc_header, "Criticality"])?;
+    header(
+        ws,
+        0,
+        &[
+            "Asset no",
+            "Description",
+            "Status",
+            loc_header,
+            "Criticality",
+        ],
+    )?;
     for (r, row) in register_rows(location).iter().enumerate() {
         for (c, v) in row.iter().enumerate() {
             ws.write_string(r as u32 + 1, c as u16, v)?;
@@ -321,7 +650,9 @@ fn size_cells(wb: &mut Workbook) -> Result<(), XlsxError> {
 
 /// 08: a register whose locations are not line ids, mapped by `08_location_map.map.toml`.
 fn location_map(wb: &mut Workbook) -> Result<(), XlsxError> {
-    register_sheet(wb, "FLOC", |l| format!("MCR-PS1-{}", service(l).to_uppercase()) + &l[3..])
+    register_sheet(wb, "FLOC", |l| {
+        format!("MCR-PS1-{}", service(l).to_uppercase()) + &l[3..]
+    })
 }
 
 fn main() -> Result<(), Box<dyn std::error::Error>> {
@@ -345,9 +676,16 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         wb.save(dir.join(format!("{name}.xlsx")))?;
         canonical(&dir.join(format!("{name}.canonical.xlsx")))?;
     }
-    let mut map = String::from("# Invented locations of the invented Marrow Creek station, mapped to its lines.\n[locations]\n");
+    let mut map = String::from(
+        "# Invented locations of the invented Marrow Creek station, mapped to its lines.\n[locations]\n",
+    );
     for l in LINES {
-        map.push_str(&format!("\"MCR-PS1-{}{}\" = \"{}\"\n", l.service.to_uppercase(), &l.id[3..], l.id));
+        map.push_str(&format!(
+            "\"MCR-PS1-{}{}\" = \"{}\"\n",
+            l.service.to_uppercase(),
+            &l.id[3..],
+            l.id
+        ));
     }
     std::fs::write(dir.join("08_location_map.map.toml"), map)?;
     println!("wrote {} fixtures to {}", fixtures.len(), dir.display());

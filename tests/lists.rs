@@ -37,11 +37,19 @@ fn read(name: &str, map: Option<&str>) -> Input {
 }
 
 fn totals(input: &Input) -> Vec<(String, f64, f64, f64)> {
-    let a = audit::run(input, &Rules::default()).unwrap_or_else(|e| panic!("{}: {e:#?}", input.file));
+    let a =
+        audit::run(input, &Rules::default()).unwrap_or_else(|e| panic!("{}: {e:#?}", input.file));
     let mut v: Vec<_> = a
         .lines
         .iter()
-        .map(|l| (l.line.clone(), l.friction_head_m, l.fittings_head_m, l.total_head_m))
+        .map(|l| {
+            (
+                l.line.clone(),
+                l.friction_head_m,
+                l.fittings_head_m,
+                l.total_head_m,
+            )
+        })
         .collect();
     v.sort_by(|a, b| a.0.cmp(&b.0));
     v
@@ -55,9 +63,17 @@ fn same(stem: &str, map: Option<&str>) -> Input {
     assert_eq!(tl.len(), tc.len(), "{stem}: line count");
     for (a, b) in tl.iter().zip(&tc) {
         assert_eq!(a.0, b.0);
-        for (x, y, what) in [(a.1, b.1, "friction"), (a.2, b.2, "fittings"), (a.3, b.3, "total")] {
+        for (x, y, what) in [
+            (a.1, b.1, "friction"),
+            (a.2, b.2, "fittings"),
+            (a.3, b.3, "total"),
+        ] {
             let rel = (x - y).abs() / y.abs().max(1e-300);
-            assert!(rel <= SAME, "{stem}: line {} {what} {x} vs twin {y} (rel {rel:e})", a.0);
+            assert!(
+                rel <= SAME,
+                "{stem}: line {} {what} {x} vs twin {y} (rel {rel:e})",
+                a.0
+            );
         }
     }
     assert_eq!(list.pipes.len(), twin.pipes.len(), "{stem}: runs");
@@ -65,7 +81,12 @@ fn same(stem: &str, map: Option<&str>) -> Input {
 }
 
 fn count(input: &Input, became: Became) -> usize {
-    input.report.classified.iter().filter(|c| c.became == became).count()
+    input
+        .report
+        .classified
+        .iter()
+        .filter(|c| c.became == became)
+        .count()
 }
 
 #[test]
@@ -73,7 +94,10 @@ fn line_column_and_unit_column() {
     let l = same("01_line_column", None);
     assert_eq!(count(&l, Became::Run), 6);
     assert_eq!(count(&l, Became::Fitting), 14);
-    assert!(l.layout(TableKind::List).is_some_and(|x| x.column("item_no").is_some()));
+    assert!(
+        l.layout(TableKind::List)
+            .is_some_and(|x| x.column("item_no").is_some())
+    );
 }
 
 #[test]
@@ -81,15 +105,31 @@ fn section_headings_and_skipped_rows() {
     let l = same("02_section_headings", None);
     assert_eq!(count(&l, Became::Heading), 4);
     let reasons: Vec<&str> = l.report.skipped.iter().map(|s| s.reason.as_str()).collect();
-    for want in ["preliminaries or an allowance (unit 'Sum')", "extra over", "not in the flow path: a pipe support", "a totals or carried row ('To collection')", "a totals or carried row ('Carried to summary')", "a note", "a heading or note with no quantity ('Preliminaries"] {
-        assert!(reasons.iter().any(|r| r.starts_with(want)), "{want} in {reasons:#?}");
+    for want in [
+        "preliminaries or an allowance (unit 'Sum')",
+        "extra over",
+        "not in the flow path: a pipe support",
+        "a totals or carried row ('To collection')",
+        "a totals or carried row ('Carried to summary')",
+        "a note",
+        "a heading or note with no quantity ('Preliminaries",
+    ] {
+        assert!(
+            reasons.iter().any(|r| r.starts_with(want)),
+            "{want} in {reasons:#?}"
+        );
     }
 }
 
 #[test]
 fn tags_carry_the_line() {
     let l = same("03_tags", None);
-    assert!(l.report.classified.iter().any(|c| c.deciding.contains("line from tag 'MC-01-001'")));
+    assert!(
+        l.report
+            .classified
+            .iter()
+            .any(|c| c.deciding.contains("line from tag 'MC-01-001'"))
+    );
 }
 
 #[test]
@@ -111,15 +151,26 @@ fn register_with_status_and_locations() {
     let l = same("06_register", None);
     assert_eq!(l.report.left_out.len(), 3, "{:#?}", l.report.left_out);
     let skipped: Vec<&str> = l.report.skipped.iter().map(|s| s.reason.as_str()).collect();
-    for want in ["not in the flow path: a pump", "not in the flow path: a motor", "not in the flow path: an instrument"] {
-        assert!(skipped.iter().any(|r| r.starts_with(want)), "{want} in {skipped:#?}");
+    for want in [
+        "not in the flow path: a pump",
+        "not in the flow path: a motor",
+        "not in the flow path: an instrument",
+    ] {
+        assert!(
+            skipped.iter().any(|r| r.starts_with(want)),
+            "{want} in {skipped:#?}"
+        );
     }
 }
 
 #[test]
 fn size_cells_with_schedules_and_reducers() {
     let l = same("07_size_cells", None);
-    assert!(l.fittings.iter().any(|f| f.kind.id == "reducer" && f.size_out.is_some()));
+    assert!(
+        l.fittings
+            .iter()
+            .any(|f| f.kind.id == "reducer" && f.size_out.is_some())
+    );
 }
 
 #[test]

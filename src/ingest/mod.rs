@@ -782,7 +782,13 @@ pub fn describe(input: &Input) -> String {
             } else {
                 format!(" {}", c.what)
             };
-            let _ = writeln!(out, "  {}: {}{what} — {}", c.cell, c.became.word(), c.deciding);
+            let _ = writeln!(
+                out,
+                "  {}: {}{what} — {}",
+                c.cell,
+                c.became.word(),
+                c.deciding
+            );
         }
     }
     if !input.report.left_out.is_empty() {

@@ -958,7 +958,11 @@ fn write_basis(
             false,
         )?;
     }
-    for l in input.layouts.iter().filter(|l| !crate::ingest::list::is_view(input, l)) {
+    for l in input
+        .layouts
+        .iter()
+        .filter(|l| !crate::ingest::list::is_view(input, l))
+    {
         let mapping: Vec<String> = l
             .columns
             .iter()

@@ -79,7 +79,10 @@ pub fn is_numbering(d: &Data) -> bool {
     match d {
         Data::Int(_) | Data::Float(_) => true,
         Data::String(s) => {
-            let t = s.trim().trim_start_matches('(').trim_end_matches([')', '.']);
+            let t = s
+                .trim()
+                .trim_start_matches('(')
+                .trim_end_matches([')', '.']);
             !t.is_empty()
                 && t.len() <= 12
                 && t.split(['.', '-', '/']).all(|part| {
@@ -95,7 +98,9 @@ pub fn is_numbering(d: &Data) -> bool {
 }
 
 fn is_roman(t: &str) -> bool {
-    t.len() <= 5 && t.chars().all(|c| matches!(c.to_ascii_lowercase(), 'i' | 'v' | 'x'))
+    t.len() <= 5
+        && t.chars()
+            .all(|c| matches!(c.to_ascii_lowercase(), 'i' | 'v' | 'x'))
 }
 
 /// A column first taken for the item text (`Item`) whose values are numbering, with another
@@ -106,7 +111,15 @@ fn resolve_item_numbers(grid: &SheetGrid, layout: &mut Layout) {
         return;
     };
     let end = grid.end_row().min(layout.data_start + EVIDENCE_ROWS);
+    // Heading and note rows (one filled cell) say nothing about the column.
+    let filled = |r: u32| {
+        (0..grid.end_col())
+            .filter(|&c| !matches!(grid.value(r, c), Data::Empty))
+            .take(2)
+            .count()
+    };
     let values: Vec<&Data> = (layout.data_start..end)
+        .filter(|&r| filled(r) >= 2)
         .map(|r| grid.value(r, text.col))
         .filter(|d| !matches!(d, Data::Empty))
         .collect();
@@ -116,7 +129,8 @@ fn resolve_item_numbers(grid: &SheetGrid, layout: &mut Layout) {
     }
     let other = layout.unknown.iter().position(|(_, h)| {
         let (name, _) = header::split_header(h);
-        schema::match_column(TableKind::List, &schema::fold(&name)).is_some_and(|s| s.key == "description")
+        schema::match_column(TableKind::List, &schema::fold(&name))
+            .is_some_and(|s| s.key == "description")
     });
     let Some(i) = other else { return };
     let (col, header) = layout.unknown.remove(i);
@@ -128,7 +142,10 @@ fn resolve_item_numbers(grid: &SheetGrid, layout: &mut Layout) {
     if let Some(spec) = number_spec
         && layout.column("item_no").is_none()
     {
-        layout.columns.push(MappedColumn { spec, ..text.clone() });
+        layout.columns.push(MappedColumn {
+            spec,
+            ..text.clone()
+        });
     } else {
         layout.unknown.push((text.col, text.header.clone()));
     }

@@ -109,7 +109,15 @@ pub fn read_heading(text: &str, known: &KnownLines) -> Heading {
     let t = text.trim();
     let lower = t.to_lowercase();
     let mut rest = None;
-    for prefix in ["line number", "line no.", "line no", "line ref.", "line ref", "line id", "line"] {
+    for prefix in [
+        "line number",
+        "line no.",
+        "line no",
+        "line ref.",
+        "line ref",
+        "line id",
+        "line",
+    ] {
         if let Some(r) = lower.strip_prefix(prefix)
             && r.chars().next().is_none_or(|c| !c.is_alphanumeric())
         {
@@ -135,12 +143,13 @@ pub fn read_heading(text: &str, known: &KnownLines) -> Heading {
         return Heading::Line(found.to_string());
     }
     let after = body[id.len().min(body.len())..].trim_start();
-    let separated = after.is_empty()
-        || after.starts_with(['—', '–', ':', '('])
-        || after.starts_with("- ");
+    let separated =
+        after.is_empty() || after.starts_with(['—', '–', ':', '(']) || after.starts_with("- ");
     let looks_like_id = id.chars().any(|c| c.is_ascii_digit())
         && id.chars().any(char::is_alphabetic)
-        && id.chars().all(|c| c.is_alphanumeric() || matches!(c, '-' | '/' | '_' | '.'));
+        && id
+            .chars()
+            .all(|c| c.is_alphanumeric() || matches!(c, '-' | '/' | '_' | '.'));
     match (prefixed, known.is_empty()) {
         (true, true) => Heading::Line(id),
         (true, false) => Heading::Unknown(id),
@@ -163,13 +172,29 @@ mod tests {
     #[test]
     fn headings_name_lines() {
         let k = known();
-        for t in ["Line TB-01", "LINE NO: TB-01", "Line No. TB-01 (suction)", "TB-01 — pump suction", "TB-01", "line tb-01"] {
+        for t in [
+            "Line TB-01",
+            "LINE NO: TB-01",
+            "Line No. TB-01 (suction)",
+            "TB-01 — pump suction",
+            "TB-01",
+            "line tb-01",
+        ] {
             assert_eq!(read_heading(t, &k), Heading::Line("TB-01".into()), "{t}");
         }
-        assert_eq!(read_heading("Line TB-09", &k), Heading::Unknown("TB-09".into()));
-        assert_eq!(read_heading("TB-09 — spare", &k), Heading::Unknown("TB-09".into()));
+        assert_eq!(
+            read_heading("Line TB-09", &k),
+            Heading::Unknown("TB-09".into())
+        );
+        assert_eq!(
+            read_heading("TB-09 — spare", &k),
+            Heading::Unknown("TB-09".into())
+        );
         assert_eq!(read_heading("Valves", &k), Heading::Other("Valves".into()));
-        assert_eq!(read_heading("Lined pipework", &k), Heading::Other("Lined pipework".into()));
+        assert_eq!(
+            read_heading("Lined pipework", &k),
+            Heading::Other("Lined pipework".into())
+        );
     }
 
     #[test]

@@ -100,7 +100,10 @@ pub fn read_lists(input: &mut Input, options: &ReadOptions) {
         input.report.left_out.append(&mut out.left_out);
         input.report.classified.append(&mut out.classified);
         if out.blank_rows > 0 {
-            input.report.blank_rows.push((layout.sheet.clone(), out.blank_rows));
+            input
+                .report
+                .blank_rows
+                .push((layout.sheet.clone(), out.blank_rows));
         }
         input.layouts.push(view(&layout, TableKind::Pipes));
         input.layouts.push(view(&layout, TableKind::Fittings));
@@ -120,7 +123,10 @@ fn view(list: &Layout, table: TableKind) -> Layout {
             (_, k) => k,
         };
         if let Some(s) = spec.columns.iter().find(|s| s.key == key) {
-            columns.push(MappedColumn { spec: s, ..c.clone() });
+            columns.push(MappedColumn {
+                spec: s,
+                ..c.clone()
+            });
         }
     }
     Layout {
@@ -134,8 +140,9 @@ fn view(list: &Layout, table: TableKind) -> Layout {
 /// Whether a layout is a Pipes or Fittings view of a mixed list (not a table of its own).
 pub fn is_view(input: &Input, layout: &Layout) -> bool {
     matches!(layout.table, TableKind::Pipes | TableKind::Fittings)
-        && input
-            .layouts
-            .iter()
-            .any(|l| l.table == TableKind::List && l.sheet == layout.sheet && l.header_row == layout.header_row)
+        && input.layouts.iter().any(|l| {
+            l.table == TableKind::List
+                && l.sheet == layout.sheet
+                && l.header_row == layout.header_row
+        })
 }

@@ -50,13 +50,40 @@ const TOTALS: &[&str] = &[
 
 /// Status words: in the flow path or not (asset-register practice; from memory).
 const IN_PATH: &[&str] = &[
-    "inservice", "duty", "standby", "assist", "active", "operational", "operating", "running",
-    "installed", "live", "commissioned", "inuse", "normal", "ok",
+    "inservice",
+    "duty",
+    "standby",
+    "assist",
+    "active",
+    "operational",
+    "operating",
+    "running",
+    "installed",
+    "live",
+    "commissioned",
+    "inuse",
+    "normal",
+    "ok",
 ];
 const OUT_OF_PATH: &[&str] = &[
-    "decommissioned", "removed", "abandoned", "abandonedinplace", "spare", "scrapped",
-    "disposed", "demolished", "retired", "instore", "stored", "notinstalled", "isolated",
-    "outofservice", "inactive", "deleted", "proposed", "future",
+    "decommissioned",
+    "removed",
+    "abandoned",
+    "abandonedinplace",
+    "spare",
+    "scrapped",
+    "disposed",
+    "demolished",
+    "retired",
+    "instore",
+    "stored",
+    "notinstalled",
+    "isolated",
+    "outofservice",
+    "inactive",
+    "deleted",
+    "proposed",
+    "future",
 ];
 
 /// Read one mixed list.
@@ -69,7 +96,11 @@ pub fn read_list(
     out: &mut ListOut,
 ) {
     let dc = crate::ingest::rows::decimal_comma_columns(grid, layout);
-    let folded: Vec<String> = layout.columns.iter().map(|c| schema::fold(&c.header)).collect();
+    let folded: Vec<String> = layout
+        .columns
+        .iter()
+        .map(|c| schema::fold(&c.header))
+        .collect();
     // Every cell of the row counts: a heading may sit in a column with no header.
     let width = grid.end_col();
     let is_blank = |row: u32| {
@@ -80,7 +111,10 @@ pub fn read_list(
         }) && (0..width).all(|col| grid.formula(row, col).is_none())
     };
     let end = grid.end_row();
-    let last = (layout.data_start..end).rev().find(|&r| !is_blank(r)).unwrap_or(0);
+    let last = (layout.data_start..end)
+        .rev()
+        .find(|&r| !is_blank(r))
+        .unwrap_or(0);
     let mut heading: Option<(String, CellRef)> = None;
     let mut poisoned = false;
     for row in layout.data_start..end {
@@ -88,7 +122,11 @@ pub fn read_list(
             out.blank_rows += usize::from(row < last);
             continue;
         }
-        let first = CellRef::new(&layout.sheet, row, first_col(layout));
+        let first = CellRef::new(
+            &layout.sheet,
+            row,
+            text_col(grid, row).min(first_col(layout)),
+        );
         if let Some(reason) = crate::ingest::rows::skip_reason(grid, layout, &folded, row) {
             skip(out, file, first, reason);
             continue;
@@ -96,7 +134,12 @@ pub fn read_list(
         if let Some(text) = heading_text(grid, layout, row) {
             let cell = CellRef::new(&layout.sheet, row, text_col(grid, row));
             if is_totals(&text) {
-                skip(out, file, cell, format!("a totals or carried row ('{}')", cut(&text)));
+                skip(
+                    out,
+                    file,
+                    cell,
+                    format!("a totals or carried row ('{}')", cut(&text)),
+                );
                 continue;
             }
             match read_heading(&text, known) {
@@ -115,8 +158,14 @@ pub fn read_list(
                         severity: Severity::Error,
                         file: file.to_string(),
                         cell: Some(cell),
-                        message: format!("heading '{}' names line '{id}', which Lines does not list", cut(&text)),
-                        hint: Some(format!("known lines: {}; add the line to Lines or correct the heading", known.listing())),
+                        message: format!(
+                            "heading '{}' names line '{id}', which Lines does not list",
+                            cut(&text)
+                        ),
+                        hint: Some(format!(
+                            "known lines: {}; add the line to Lines or correct the heading",
+                            known.listing()
+                        )),
                     });
                     heading = None;
                     poisoned = true;
@@ -150,7 +199,7 @@ pub fn read_list(
                 out.classified.push(Classified {
                     cell: CellRef::new(&layout.sheet, row, text_col_of(layout)),
                     became: Became::Run,
-                    what: format!("run on {}", p.line),
+                    what: format!("on {}", p.line),
                     deciding: why,
                 });
                 out.pipes.push(p);
@@ -172,7 +221,10 @@ pub fn read_list(
                     what: String::new(),
                     deciding: reason.clone(),
                 });
-                out.left_out.push(Skipped { cell: first, reason });
+                out.left_out.push(Skipped {
+                    cell: first,
+                    reason,
+                });
             }
             RowResult::Refused => {}
         }
@@ -292,7 +344,10 @@ fn read_measure(c: &mut Cells<'_>) -> Option<Measure> {
                         value: q.value,
                         unit: q.unit_text.clone(),
                     });
-                    (Some(q.value), q.unit.zip(q.unit_text).map(|(u, t)| (u, t, "qty")))
+                    (
+                        Some(q.value),
+                        q.unit.zip(q.unit_text).map(|(u, t)| (u, t, "qty")),
+                    )
                 }
                 Err(e) => {
                     c.error("qty", e.to_string(), None);
@@ -301,17 +356,26 @@ fn read_measure(c: &mut Cells<'_>) -> Option<Measure> {
             }
         }
         Some(_) => {
-            c.error("qty", "the quantity is not a number".into(), Some("enter e.g. 2, 2 No or 12.5 m".into()));
+            c.error(
+                "qty",
+                "the quantity is not a number".into(),
+                Some("enter e.g. 2, 2 No or 12.5 m".into()),
+            );
             return None;
         }
     };
     if let Some(v) = value
         && (!v.is_finite() || v < 0.0)
     {
-        c.error("qty", format!("quantity {} must be zero or more", format_number(v)), None);
+        c.error(
+            "qty",
+            format!("quantity {} must be zero or more", format_number(v)),
+            None,
+        );
         return None;
     }
-    let same_kind = |a: UnitWord, b: UnitWord| std::mem::discriminant(&a) == std::mem::discriminant(&b);
+    let same_kind =
+        |a: UnitWord, b: UnitWord| std::mem::discriminant(&a) == std::mem::discriminant(&b);
     let unit = match (column_unit, cell_unit) {
         (Some(a), Some(b)) if !same_kind(a.0, b.0) => {
             c.error(
@@ -348,7 +412,10 @@ fn read_row(c: &mut Cells<'_>, ctx: &RowContext<'_>) -> RowResult {
     if let Some(status) = c.text("status") {
         match status_in_path(&status) {
             Some(false) => {
-                return RowResult::LeftOut(format!("status '{status}': not in the flow path ('{}')", cut(&text)));
+                return RowResult::LeftOut(format!(
+                    "status '{status}': not in the flow path ('{}')",
+                    cut(&text)
+                ));
             }
             Some(true) => {}
             None => {
@@ -371,12 +438,17 @@ fn read_row(c: &mut Cells<'_>, ctx: &RowContext<'_>) -> RowResult {
         return RowResult::Skip(format!("preliminaries or an allowance (unit '{u}')"));
     }
     match d.role {
-        Role::Allowance => return RowResult::Skip(format!("preliminaries or an allowance ('{}')", cut(&text))),
+        Role::Run | Role::Unknown | Role::NotHydraulic(_) if d.extra_over => {
+            return RowResult::Skip(format!(
+                "extra over: adds cost to an item measured elsewhere ('{}')",
+                cut(&text)
+            ));
+        }
+        Role::Allowance => {
+            return RowResult::Skip(format!("preliminaries or an allowance ('{}')", cut(&text)));
+        }
         Role::NotHydraulic(what) => {
             return RowResult::Skip(format!("not in the flow path: {what} ('{}')", cut(&text)));
-        }
-        Role::Run | Role::Unknown if d.extra_over => {
-            return RowResult::Skip(format!("extra over: adds cost to an item measured elsewhere ('{}')", cut(&text)));
         }
         _ => {}
     }
@@ -393,7 +465,11 @@ fn read_row(c: &mut Cells<'_>, ctx: &RowContext<'_>) -> RowResult {
         (Role::Fitting(k), Some((UnitWord::Length(_), u, key))) => {
             c.error(
                 key,
-                format!("'{}' is a fitting ({}) but is measured in '{u}'", cut(&text), k.id),
+                format!(
+                    "'{}' is a fitting ({}) but is measured in '{u}'",
+                    cut(&text),
+                    k.id
+                ),
                 Some("count fittings in No, nr, ea or pcs (or correct the description)".into()),
             );
             RowResult::Refused
@@ -456,13 +532,19 @@ fn line_of(c: &mut Cells<'_>, ctx: &RowContext<'_>) -> Option<(String, String)> 
 
 /// Size, second size and schedule from the Size column (which may hold `4" Sch 80` or
 /// `150x100`), falling back to the description; a disagreement is a warning at both cells.
-fn sizes(c: &mut Cells<'_>, d: &Description) -> (Option<SizeSpec>, Option<SizeSpec>, Option<pipe::Schedule>) {
+fn sizes(
+    c: &mut Cells<'_>,
+    d: &Description,
+) -> (Option<SizeSpec>, Option<SizeSpec>, Option<pipe::Schedule>) {
     let mut from_cell: Option<Description> = None;
-    let unit = c.col("size").and_then(|m| m.unit_label.as_deref()).and_then(|l| match schema::fold(l).as_str() {
-        "mm" | "dn" => Some(SizeUnit::Millimetre),
-        "in" | "inch" | "inches" | "nps" => Some(SizeUnit::Inch),
-        _ => None,
-    });
+    let unit = c
+        .col("size")
+        .and_then(|m| m.unit_label.as_deref())
+        .and_then(|l| match schema::fold(l).as_str() {
+            "mm" | "dn" => Some(SizeUnit::Millimetre),
+            "in" | "inch" | "inches" | "nps" => Some(SizeUnit::Inch),
+            _ => None,
+        });
     let size_cell = match c.text("size") {
         None => None,
         Some(t) => match parse::parse_size(&t, unit) {
@@ -484,12 +566,24 @@ fn sizes(c: &mut Cells<'_>, d: &Description) -> (Option<SizeSpec>, Option<SizeSp
     if let (Some(a), Some(b)) = (size_cell, d.size)
         && a != b
     {
-        warn_both(c, "size", format!("the Size column says {} but the description says {}: the column is used", label(a), label(b)));
+        warn_both(
+            c,
+            "size",
+            format!(
+                "the Size column says {} but the description says {}: the column is used",
+                label(a),
+                label(b)
+            ),
+        );
     }
     let size = size_cell.or(d.size);
     let size_out = size_out_col
         .or(from_cell.as_ref().and_then(|e| e.size_out))
-        .or(if size_cell.is_none() || size_cell == d.size { d.size_out } else { None });
+        .or(if size_cell.is_none() || size_cell == d.size {
+            d.size_out
+        } else {
+            None
+        });
     let schedule = from_cell.as_ref().and_then(|e| e.schedule).or(d.schedule);
     (size, size_out, schedule)
 }
@@ -499,7 +593,11 @@ fn label(s: SizeSpec) -> String {
         SizeSpec::Dn(d) => format!("DN{d}"),
         SizeSpec::Nps(n) => format!("{}\"", format_number(n)),
         SizeSpec::OuterDiameter { od_m } => format!("{} OD", format_number(od_m * 1e3)),
-        SizeSpec::OdWall { od_m, wall_m } => format!("{}x{}", format_number(od_m * 1e3), format_number(wall_m * 1e3)),
+        SizeSpec::OdWall { od_m, wall_m } => format!(
+            "{}x{}",
+            format_number(od_m * 1e3),
+            format_number(wall_m * 1e3)
+        ),
         SizeSpec::InnerDiameter { id_m } => format!("ID {}", format_number(id_m * 1e3)),
     }
 }
@@ -536,7 +634,13 @@ fn other_kind_columns(c: &mut Cells<'_>, keys: &[&str], this: &str) {
     }
 }
 
-fn run_row(c: &mut Cells<'_>, ctx: &RowContext<'_>, d: &Description, m: &Measure, why: String) -> RowResult {
+fn run_row(
+    c: &mut Cells<'_>,
+    ctx: &RowContext<'_>,
+    d: &Description,
+    m: &Measure,
+    why: String,
+) -> RowResult {
     let Some((line, line_why)) = line_of(c, ctx) else {
         return RowResult::Refused;
     };
@@ -546,7 +650,11 @@ fn run_row(c: &mut Cells<'_>, ctx: &RowContext<'_>, d: &Description, m: &Measure
         Some(t) => match pipe::parse_schedule(&t) {
             Some(s) => Some(s),
             None => {
-                c.error("schedule", format!("schedule '{t}' is not known"), Some("write e.g. 40, STD, XS, 80, 10S, 40S or SDR11".into()));
+                c.error(
+                    "schedule",
+                    format!("schedule '{t}' is not known"),
+                    Some("write e.g. 40, STD, XS, 80, 10S, 40S or SDR11".into()),
+                );
                 None
             }
         },
@@ -557,7 +665,11 @@ fn run_row(c: &mut Cells<'_>, ctx: &RowContext<'_>, d: &Description, m: &Measure
         Some(t) => match pipe::material_from_text(&t) {
             Some(m) => m,
             None => {
-                c.error("material", format!("material '{t}' is not known"), Some("use e.g. CS, SS316, galvanised, DI, uPVC, HDPE, copper".into()));
+                c.error(
+                    "material",
+                    format!("material '{t}' is not known"),
+                    Some("use e.g. CS, SS316, galvanised, DI, uPVC, HDPE, copper".into()),
+                );
                 return RowResult::Refused;
             }
         },
@@ -572,25 +684,38 @@ fn run_row(c: &mut Cells<'_>, ctx: &RowContext<'_>, d: &Description, m: &Measure
     let length = c.positive("length", false).or(m.value).or(d.length_m);
     let Some(length_m) = length.filter(|l| *l > 0.0) else {
         if c.errors == 0 {
-            c.error("qty", "the pipe run has no length".into(), Some("give the length in the quantity (12.5 m) or a Length column".into()));
+            c.error(
+                "qty",
+                "the pipe run has no length".into(),
+                Some("give the length in the quantity (12.5 m) or a Length column".into()),
+            );
         }
         return RowResult::Refused;
     };
     let inner = c.positive("inner_diameter", false);
     if size.is_none() && inner.is_none() && c.errors == 0 {
-        c.error("size", "the pipe run has no size".into(), Some("give a size (DN150, 6\") in the Size column or the description".into()));
+        c.error(
+            "size",
+            "the pipe run has no size".into(),
+            Some("give a size (DN150, 6\") in the Size column or the description".into()),
+        );
         return RowResult::Refused;
     }
     let roughness = c.positive("roughness", true);
     let c_factor = c.positive("c_factor", false);
     let age = c.positive("age", true);
     let flow = c.positive("flow", true);
-    assumed.extend(run_assumptions(c, material, size, schedule, inner, roughness, c_factor, age));
+    assumed.extend(run_assumptions(
+        c, material, size, schedule, inner, roughness, c_factor, age,
+    ));
     if c.errors > 0 {
         return RowResult::Refused;
     }
     let row = PipeRow {
-        origin: Origin { sheet: c.layout.sheet.clone(), row: c.row },
+        origin: Origin {
+            sheet: c.layout.sheet.clone(),
+            row: c.row,
+        },
         line,
         seq: None,
         size,
@@ -618,7 +743,13 @@ fn size_mm(s: SizeSpec) -> Option<f64> {
     }
 }
 
-fn fitting_row(c: &mut Cells<'_>, ctx: &RowContext<'_>, d: &Description, kind: &'static Kind, m: &Measure) -> RowResult {
+fn fitting_row(
+    c: &mut Cells<'_>,
+    ctx: &RowContext<'_>,
+    d: &Description,
+    kind: &'static Kind,
+    m: &Measure,
+) -> RowResult {
     let Some((line, line_why)) = line_of(c, ctx) else {
         return RowResult::Refused;
     };
@@ -637,14 +768,33 @@ fn fitting_row(c: &mut Cells<'_>, ctx: &RowContext<'_>, d: &Description, kind: &
             None
         };
         if let Some(w) = wrong {
-            let key = if c.col("size_out").is_some() { "size_out" } else if c.col("size").is_some() { "size" } else { "description" };
-            c.error(key, format!("{} {}: {w}", kind.id, label_pair(size, size_out)), Some("write the inlet size first (150x100 reduces from DN150 to DN100)".into()));
+            // The cell the sizes were read from.
+            let filled = |c: &Cells<'_>, k: &str| {
+                c.col(k)
+                    .is_some_and(|m| !matches!(c.grid.value(c.row, m.col), Data::Empty))
+            };
+            let key = ["size_out", "size"]
+                .into_iter()
+                .find(|k| filled(c, k))
+                .unwrap_or("description");
+            c.error(
+                key,
+                format!("{} {}: {w}", kind.id, label_pair(size, size_out)),
+                Some("write the inlet size first (150x100 reduces from DN150 to DN100)".into()),
+            );
             return RowResult::Refused;
         }
     }
     let qty = match m.value {
         Some(q) if q.fract() != 0.0 || q <= 0.0 => {
-            c.error("qty", format!("a fitting's quantity must be a whole number of at least 1, not {}", format_number(q)), Some("count fittings; a length belongs to a pipe run".into()));
+            c.error(
+                "qty",
+                format!(
+                    "a fitting's quantity must be a whole number of at least 1, not {}",
+                    format_number(q)
+                ),
+                Some("count fittings; a length belongs to a pipe run".into()),
+            );
             return RowResult::Refused;
         }
         Some(q) => q,
@@ -657,14 +807,24 @@ fn fitting_row(c: &mut Cells<'_>, ctx: &RowContext<'_>, d: &Description, kind: &
     if let Some(o) = opening
         && o > 1.0
     {
-        c.error("opening", format!("opening {} % is above 100 %", format_number(o * 100.0)), None);
+        c.error(
+            "opening",
+            format!("opening {} % is above 100 %", format_number(o * 100.0)),
+            None,
+        );
     }
     if opening.is_none() && kind.is_valve() {
         assumed.push(c.assumed("opening", "fully open".into()));
     }
-    let tag = c.text("tag").or_else(|| c.text("item_no")).unwrap_or_default();
+    let tag = c
+        .text("tag")
+        .or_else(|| c.text("item_no"))
+        .unwrap_or_default();
     let row = FittingRow {
-        origin: Origin { sheet: c.layout.sheet.clone(), row: c.row },
+        origin: Origin {
+            sheet: c.layout.sheet.clone(),
+            row: c.row,
+        },
         tag,
         line,
         item: c.text("description").unwrap_or_default(),
@@ -691,5 +851,9 @@ fn fitting_row(c: &mut Cells<'_>, ctx: &RowContext<'_>, d: &Description, kind: &
 }
 
 fn label_pair(a: Option<SizeSpec>, b: Option<SizeSpec>) -> String {
-    format!("{} x {}", a.map(label).unwrap_or_default(), b.map(label).unwrap_or_default())
+    format!(
+        "{} x {}",
+        a.map(label).unwrap_or_default(),
+        b.map(label).unwrap_or_default()
+    )
 }

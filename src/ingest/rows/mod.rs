@@ -14,11 +14,11 @@ mod systems;
 
 pub use cells::format_number;
 pub(crate) use cells::{Cells, decimal_comma_columns, skip_reason, truncate};
-pub(crate) use pipes::run_assumptions;
 pub use fittings::FittingRow;
 pub use fluids::FluidRow;
 pub use lines::{LineRow, Service};
 pub use pipes::PipeRow;
+pub(crate) use pipes::run_assumptions;
 pub use pump_curve::PumpCurveRow;
 pub use systems::{SITE_ELEVATION_RANGE_M, SystemRow};
 

@@ -95,7 +95,9 @@ pub(super) fn read_pipes(input: &Input, sink: &mut Sink) -> Vec<PipeRow> {
         let c_factor = c.positive("c_factor", false);
         let age = c.positive("age", true);
         let seq = c.number("seq");
-        assumed.extend(run_assumptions(c, material, size, schedule, inner, roughness, c_factor, age));
+        assumed.extend(run_assumptions(
+            c, material, size, schedule, inner, roughness, c_factor, age,
+        ));
         if let Some(length_m) = length
             && c.errors == 0
         {
@@ -137,39 +139,39 @@ pub(crate) fn run_assumptions(
     age: Option<f64>,
 ) -> Vec<Assumed> {
     let mut assumed = Vec::new();
-        if schedule.is_none() && inner.is_none() {
-            let dn = match size {
-                Some(SizeSpec::Dn(dn)) => Some(dn),
-                Some(SizeSpec::Nps(n)) => pipe::nps_to_dn(n),
-                _ => None,
-            };
-            if let Some(s) = dn.and_then(|dn| pipe::default_schedule(material, dn)) {
-                assumed.push(c.assumed(
-                    "schedule",
-                    format!("schedule {} (default for {})", s.label(), material.name()),
-                ));
-            } else if matches!(size, Some(SizeSpec::OuterDiameter { .. })) {
-                assumed.push(c.assumed(
-                    "schedule",
-                    format!("the usual wall of {} for that OD", material.name()),
-                ));
-            }
+    if schedule.is_none() && inner.is_none() {
+        let dn = match size {
+            Some(SizeSpec::Dn(dn)) => Some(dn),
+            Some(SizeSpec::Nps(n)) => pipe::nps_to_dn(n),
+            _ => None,
+        };
+        if let Some(s) = dn.and_then(|dn| pipe::default_schedule(material, dn)) {
+            assumed.push(c.assumed(
+                "schedule",
+                format!("schedule {} (default for {})", s.label(), material.name()),
+            ));
+        } else if matches!(size, Some(SizeSpec::OuterDiameter { .. })) {
+            assumed.push(c.assumed(
+                "schedule",
+                format!("the usual wall of {} for that OD", material.name()),
+            ));
         }
-        if roughness.is_none() && c_factor.is_none() {
-            let r = pipe::roughness(material);
-            let what = match age.and_then(|a| pipe::aged_roughness(material, a).map(|e| (a, e))) {
-                Some((a, e)) => format!(
-                    "roughness {:.4} mm ({} aged {a} years)",
-                    e * 1e3,
-                    material.name()
-                ),
-                None => format!(
-                    "roughness {:.4} mm (new {})",
-                    r.epsilon_m * 1e3,
-                    material.name()
-                ),
-            };
-            assumed.push(c.assumed("roughness", what));
-        }
+    }
+    if roughness.is_none() && c_factor.is_none() {
+        let r = pipe::roughness(material);
+        let what = match age.and_then(|a| pipe::aged_roughness(material, a).map(|e| (a, e))) {
+            Some((a, e)) => format!(
+                "roughness {:.4} mm ({} aged {a} years)",
+                e * 1e3,
+                material.name()
+            ),
+            None => format!(
+                "roughness {:.4} mm (new {})",
+                r.epsilon_m * 1e3,
+                material.name()
+            ),
+        };
+        assumed.push(c.assumed("roughness", what));
+    }
     assumed
 }
