@@ -591,6 +591,19 @@ fn cases() -> Vec<Case> {
             Some("BoQ!E2"),
             "is not a quantity",
         ),
+        // Item numbers in `Item` and the kind in `Description`: no duplicate-column error.
+        completes(
+            "fittings-item-numbers-and-description",
+            with_all(&[
+                ("Fittings", 0, 8, s("Description")),
+                ("Fittings", 1, 2, s("1.1")),
+                ("Fittings", 2, 2, s("1.2")),
+                ("Fittings", 1, 8, s("90 elbow")),
+                ("Fittings", 2, 8, s("gate valve")),
+            ]),
+            None,
+            "valve-gate",
+        ),
         completes(
             "list-heading-known-line",
             list_with_heading("LINE NO: L1"),

@@ -566,6 +566,12 @@ fn locate_tables(
             continue;
         };
         used[layout.sheet_index] = true;
+        let mut layout = layout;
+        if table == TableKind::Fittings {
+            // `Item` holding numbering next to a `Description`: the text is in Description.
+            let grid = &sheets[layout.sheet_index];
+            list::detect::resolve_item_numbers(grid, &mut layout, "item", None);
+        }
         for key in spec.required {
             if layout.column(key).is_none() {
                 let header = spec

@@ -26,7 +26,7 @@ pub fn find_list(
     map: Option<&HeaderMap>,
 ) -> Option<Layout> {
     let mut layout = header::find_layout_with(grid, sheet_index, TableKind::List, map)?;
-    resolve_item_numbers(grid, &mut layout);
+    resolve_item_numbers(grid, &mut layout, "description", Some("item_no"));
     layout.column("description")?;
     let amount = ["qty", "length", "status", "location"]
         .iter()
@@ -104,10 +104,17 @@ fn is_roman(t: &str) -> bool {
 }
 
 /// A column first taken for the item text (`Item`) whose values are numbering, with another
-/// header that also names the text (`Description`): the first is the item number, the other
-/// the text. No duplicate-column error for this pair.
-fn resolve_item_numbers(grid: &SheetGrid, layout: &mut Layout) {
-    let Some(text) = layout.column("description").cloned() else {
+/// header that also names the text (`Description`): the first is the item number (the
+/// `number_key` column, or kept as is when the table has none), the other the text. No
+/// duplicate-column error for this pair. Used for mixed lists and for Fittings tables.
+pub fn resolve_item_numbers(
+    grid: &SheetGrid,
+    layout: &mut Layout,
+    text_key: &str,
+    number_key: Option<&str>,
+) {
+    let table = layout.table;
+    let Some(text) = layout.column(text_key).cloned() else {
         return;
     };
     let end = grid.end_row().min(layout.data_start + EVIDENCE_ROWS);
@@ -134,21 +141,19 @@ fn resolve_item_numbers(grid: &SheetGrid, layout: &mut Layout) {
     });
     let Some(i) = other else { return };
     let (col, header) = layout.unknown.remove(i);
-    let number_spec = schema::spec(TableKind::List)
-        .columns
-        .iter()
-        .find(|c| c.key == "item_no");
-    layout.columns.retain(|c| c.spec.key != "description");
+    let number_spec =
+        number_key.and_then(|k| schema::spec(table).columns.iter().find(|c| c.key == k));
+    layout.columns.retain(|c| c.spec.key != text_key);
     if let Some(spec) = number_spec
-        && layout.column("item_no").is_none()
+        && layout.column(spec.key).is_none()
     {
         layout.columns.push(MappedColumn {
             spec,
             ..text.clone()
         });
-    } else {
-        layout.unknown.push((text.col, text.header.clone()));
     }
+    // Without a numbering column the numbers stay in the copy untouched, outside the mapping
+    // (not as an unknown header, which would read as a duplicate of the text column).
     layout.columns.push(MappedColumn {
         col,
         header,

@@ -648,7 +648,20 @@ fn run_row(
     let (size, _, schedule_text) = sizes(c, d);
     let schedule = match c.text("schedule") {
         Some(t) => match pipe::parse_schedule(&t) {
-            Some(s) => Some(s),
+            Some(s) => {
+                if let Some(d) = schedule_text.filter(|d| *d != s) {
+                    warn_both(
+                        c,
+                        "schedule",
+                        format!(
+                            "the Schedule column says {} but the description says {}: the column is used",
+                            s.label(),
+                            d.label()
+                        ),
+                    );
+                }
+                Some(s)
+            }
             None => {
                 c.error(
                     "schedule",
@@ -663,7 +676,20 @@ fn run_row(
     let mut assumed = Vec::new();
     let material = match c.text("material") {
         Some(t) => match pipe::material_from_text(&t) {
-            Some(m) => m,
+            Some(m) => {
+                if let Some(dm) = d.material.filter(|dm| *dm != m) {
+                    warn_both(
+                        c,
+                        "material",
+                        format!(
+                            "the Material column says {} but the description says {}: the column is used",
+                            m.name(),
+                            dm.name()
+                        ),
+                    );
+                }
+                m
+            }
             None => {
                 c.error(
                     "material",
