@@ -655,6 +655,37 @@ fn location_map(wb: &mut Workbook) -> Result<(), XlsxError> {
     })
 }
 
+/// 09 and 10: fixture 01 saved as `.ods` and as `.xls` by LibreOffice (headless), when it is
+/// installed (Debian: `apt-get install libreoffice-calc-nogui`); the committed files were made
+/// that way. Without it the existing files are left as they are.
+fn legacy_twins(dir: &Path) -> Result<(), Box<dyn std::error::Error>> {
+    let tmp = std::env::temp_dir().join(format!("lossledger-lists-{}", std::process::id()));
+    std::fs::create_dir_all(&tmp)?;
+    for (stem, ext) in [("09_ods", "ods"), ("10_xls", "xls")] {
+        let source = tmp.join(format!("{stem}.xlsx"));
+        std::fs::copy(dir.join("01_line_column.xlsx"), &source)?;
+        let status = std::process::Command::new("soffice")
+            .args(["--headless", "--calc", "--convert-to", ext, "--outdir"])
+            .arg(&tmp)
+            .arg(&source)
+            .stdout(std::process::Stdio::null())
+            .stderr(std::process::Stdio::null())
+            .status();
+        match status {
+            Ok(s) if s.success() => {
+                std::fs::copy(
+                    tmp.join(format!("{stem}.{ext}")),
+                    dir.join(format!("{stem}.{ext}")),
+                )?;
+                canonical(&dir.join(format!("{stem}.canonical.xlsx")))?;
+            }
+            _ => println!("soffice not found or failed: {stem}.{ext} not regenerated"),
+        }
+    }
+    let _ = std::fs::remove_dir_all(&tmp);
+    Ok(())
+}
+
 fn main() -> Result<(), Box<dyn std::error::Error>> {
     let dir = Path::new(env!("CARGO_MANIFEST_DIR")).join("fixtures/lists");
     std::fs::create_dir_all(&dir)?;
@@ -676,6 +707,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         wb.save(dir.join(format!("{name}.xlsx")))?;
         canonical(&dir.join(format!("{name}.canonical.xlsx")))?;
     }
+    legacy_twins(&dir)?;
     let mut map = String::from(
         "# Invented locations of the invented Marrow Creek station, mapped to its lines.\n[locations]\n",
     );

@@ -198,6 +198,18 @@ fn cases() -> Vec<Case> {
             "cannot read",
         ),
         refused("ods-given-as-xlsx", ods_bytes(), None, "cannot read"),
+        Case {
+            name: "garbage-named-ods",
+            file: "station.ods",
+            bytes: zip(&[(
+                "mimetype",
+                b"application/vnd.oasis.opendocument.spreadsheet",
+            )]),
+            expect: Expect::Refused {
+                cell: None,
+                says: "cannot read",
+            },
+        },
         refused(
             "password-protected",
             compound_file(&["EncryptionInfo", "EncryptedPackage"]),
@@ -219,13 +231,15 @@ fn cases() -> Vec<Case> {
             None,
             "cannot read",
         ),
+        // .ods and .xls are read (through calamine): an .ods whose Pipes sheet has no header is
+        // refused at its cell, an .xls container with no workbook stream cannot be read.
         Case {
             name: "ods-extension",
             file: "station.ods",
             bytes: ods_bytes(),
             expect: Expect::Refused {
-                cell: None,
-                says: "unsupported file type",
+                cell: Some("Pipes!A1"),
+                says: "has no header row",
             },
         },
         Case {
@@ -234,7 +248,7 @@ fn cases() -> Vec<Case> {
             bytes: compound_file(&["Workbook"]),
             expect: Expect::Refused {
                 cell: None,
-                says: "unsupported file type",
+                says: "cannot read",
             },
         },
         // --- workbook without usable tables ---

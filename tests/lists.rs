@@ -56,7 +56,11 @@ fn totals(input: &Input) -> Vec<(String, f64, f64, f64)> {
 }
 
 fn same(stem: &str, map: Option<&str>) -> Input {
-    let list = read(&format!("{stem}.xlsx"), map);
+    same_file(stem, "xlsx", map)
+}
+
+fn same_file(stem: &str, ext: &str, map: Option<&str>) -> Input {
+    let list = read(&format!("{stem}.{ext}"), map);
     let twin = read(&format!("{stem}.canonical.xlsx"), None);
     let (tl, tc) = (totals(&list), totals(&twin));
     assert_eq!(tl.len(), 4, "{stem}: every line audited");
@@ -176,4 +180,16 @@ fn size_cells_with_schedules_and_reducers() {
 #[test]
 fn locations_through_the_map() {
     same("08_location_map", Some("08_location_map.map.toml"));
+}
+
+#[test]
+fn opendocument_twin() {
+    let l = same_file("09_ods", "ods", None);
+    assert_eq!(count(&l, Became::Fitting), 14);
+}
+
+#[test]
+fn legacy_xls_twin() {
+    let l = same_file("10_xls", "xls", None);
+    assert_eq!(count(&l, Became::Fitting), 14);
 }

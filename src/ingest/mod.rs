@@ -8,6 +8,7 @@ pub mod csv;
 pub mod describe;
 pub mod grid;
 pub mod header;
+pub mod legacy;
 pub mod list;
 pub mod map;
 pub mod parse;
@@ -203,7 +204,9 @@ pub fn folder_inputs(dir: &Path) -> Result<Vec<PathBuf>, InputError> {
             !name.starts_with("~$")
                 && !name.starts_with('.')
                 && !name.ends_with(".audit.xlsx")
-                && (name.ends_with(".xlsx") || name.ends_with(".xlsm") || name.ends_with(".csv"))
+                && [".xlsx", ".xlsm", ".xls", ".ods", ".csv"]
+                    .iter()
+                    .any(|e| name.ends_with(e))
         })
         .collect();
     files.sort();
@@ -236,12 +239,9 @@ fn read_file(
     let sha256 = hex(&Sha256::digest(&bytes));
     let sheets = match extension(path).as_str() {
         "xlsx" | "xlsm" if table.is_none() => grid::read_xlsx_bytes(&bytes, &file)?,
+        "xls" | "ods" if table.is_none() => legacy::read_bytes(&bytes, &file)?,
         "csv" | "txt" => {
-            let text = match String::from_utf8(bytes) {
-                Ok(t) => t,
-                // Spreadsheet applications often save CSV as Windows-1252: read it byte for byte.
-                Err(e) => e.into_bytes().iter().map(|&b| char::from(b)).collect(),
-            };
+            let (text, _) = csv::decode(&bytes);
             let name = match table {
                 Some(t) => t.sheet_name().to_string(),
                 None => sheet_name_of(path),
