@@ -55,6 +55,7 @@ struct Item {
     register: &'static str,
 }
 
+#[allow(clippy::too_many_arguments)]
 const fn run(
     line: &'static str,
     material: &'static str,
@@ -351,8 +352,7 @@ fn canonical(path: &Path) -> Result<(), XlsxError> {
         0,
         &["Line", "Size", "Schedule", "Material", "Length [m]"],
     )?;
-    let mut r = 1;
-    for i in ITEMS.iter().filter(|i| i.run.is_some()) {
+    for (r, i) in (1..).zip(ITEMS.iter().filter(|i| i.run.is_some())) {
         let (material, schedule) = i.run.unwrap_or_default();
         ws.write_string(r, 0, i.line)?;
         ws.write_string(r, 1, format!("DN{}", i.dn))?;
@@ -361,12 +361,10 @@ fn canonical(path: &Path) -> Result<(), XlsxError> {
         }
         ws.write_string(r, 3, material)?;
         ws.write_number(r, 4, i.qty)?;
-        r += 1;
     }
     let ws = wb.add_worksheet().set_name("Fittings")?;
     header(ws, 0, &["Line", "Item", "Size", "Size out", "Qty"])?;
-    let mut r = 1;
-    for i in ITEMS.iter().filter(|i| i.run.is_none()) {
+    for (r, i) in (1..).zip(ITEMS.iter().filter(|i| i.run.is_none())) {
         ws.write_string(r, 0, i.line)?;
         ws.write_string(r, 1, i.kind)?;
         ws.write_string(r, 2, format!("DN{}", i.dn))?;
@@ -374,7 +372,6 @@ fn canonical(path: &Path) -> Result<(), XlsxError> {
             ws.write_string(r, 3, format!("DN{o}"))?;
         }
         ws.write_number(r, 4, i.qty)?;
-        r += 1;
     }
     wb.save(path)
 }
@@ -493,7 +490,7 @@ fn units_in_cell(wb: &mut Workbook) -> Result<(), XlsxError> {
             // 3.81 m is exactly 12 ft 6 in (NIST SP 811: 1 ft = 0.3048 m).
             (true, q) if (q - 3.81).abs() < 1e-12 => "12'6\"".to_string(),
             (true, q) => format!("{q} m"),
-            (false, q) if q == 1.0 => "1 off".to_string(),
+            (false, 1.0) => "1 off".to_string(),
             (false, q) => format!("{q} No"),
         };
         ws.write_string(r, 2, q)?;
