@@ -193,3 +193,77 @@ fn legacy_xls_twin() {
     let l = same_file("10_xls", "xls", None);
     assert_eq!(count(&l, Became::Fitting), 14);
 }
+
+fn grid(name: &str, rows: &[&[&str]]) -> lossledger::ingest::SheetGrid {
+    use calamine::{Data, Range};
+    let width = rows.iter().map(|r| r.len()).max().unwrap_or(1) as u32;
+    let mut r = Range::new((0, 0), (rows.len() as u32 - 1, width - 1));
+    for (i, row) in rows.iter().enumerate() {
+        for (j, v) in row.iter().enumerate() {
+            if !v.is_empty() {
+                let d = v
+                    .parse::<f64>()
+                    .map_or_else(|_| Data::String((*v).into()), Data::Float);
+                r.set_value((i as u32, j as u32), d);
+            }
+        }
+    }
+    lossledger::ingest::SheetGrid::from_values(name, r)
+}
+
+/// A K on a run and a roughness on a fitting are warnings at those cells; a Size column that
+/// disagrees with the description is a warning at both cells and the column wins. Invented rows.
+#[test]
+fn other_kind_columns_and_disagreements_are_warned() {
+    let lines = grid("Lines", &[&["Line", "Flow [m3/h]"], &["L1", "40"]]);
+    let list = grid(
+        "BoQ",
+        &[
+            &[
+                "Line",
+                "Description",
+                "Size",
+                "Qty",
+                "Unit",
+                "K",
+                "Roughness [mm]",
+            ],
+            &["L1", "Pipe, CS, DN100", "DN80", "20", "m", "0.5", ""],
+            &["L1", "Gate valve", "DN80", "1", "No", "", "0.1"],
+        ],
+    );
+    let input = ingest::from_sheets(
+        "t.xlsx".into(),
+        "t.xlsx".into(),
+        String::new(),
+        vec![lines, list],
+    );
+    assert_eq!(input.error_count(), 0, "{:#?}", input.diagnostics);
+    let warned = |cell: &str, says: &str| {
+        input.diagnostics.iter().any(|d| {
+            d.severity == Severity::Warning
+                && d.cell.as_ref().is_some_and(|c| c.to_string() == cell)
+                && d.message.contains(says)
+        })
+    };
+    assert!(warned(
+        "BoQ!F2",
+        "applies to the other kind of row; this row is a pipe run"
+    ));
+    assert!(warned(
+        "BoQ!G3",
+        "applies to the other kind of row; this row is a fitting"
+    ));
+    assert!(warned(
+        "BoQ!C2",
+        "the Size column says DN80 but the description says DN100"
+    ));
+    assert!(warned(
+        "BoQ!B2",
+        "the Size column says DN80 but the description says DN100"
+    ));
+    assert_eq!(
+        input.pipes[0].size,
+        Some(lossledger::ingest::parse::SizeSpec::Dn(80))
+    );
+}
