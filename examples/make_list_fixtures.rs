@@ -683,6 +683,37 @@ fn legacy_twins(dir: &Path) -> Result<(), Box<dyn std::error::Error>> {
     Ok(())
 }
 
+/// 11: two tables on one sheet: the line list on top, a blank row, then the takeoff.
+fn two_tables(dir: &Path) -> Result<(), XlsxError> {
+    let mut wb = Workbook::new();
+    let ws = wb.add_worksheet().set_name("Station")?;
+    header(
+        ws,
+        0,
+        &["Line", "Service", "Flow [m3/h]", "Temperature [°C]"],
+    )?;
+    for (r, l) in LINES.iter().enumerate() {
+        let r = r as u32 + 1;
+        ws.write_string(r, 0, l.id)?;
+        ws.write_string(r, 1, l.service)?;
+        ws.write_number(r, 2, l.flow_m3h)?;
+        ws.write_number(r, 3, 15.0)?;
+    }
+    ws.write_string(0, 6, NOTE)?;
+    let top = LINES.len() as u32 + 2;
+    header(ws, top, &["Item", "Line", "Description", "Qty", "Unit"])?;
+    for (n, i) in ITEMS.iter().enumerate() {
+        let r = top + 1 + n as u32;
+        ws.write_string(r, 0, format!("{}", n + 1))?;
+        ws.write_string(r, 1, i.line)?;
+        ws.write_string(r, 2, i.mto)?;
+        ws.write_number(r, 3, i.qty)?;
+        ws.write_string(r, 4, unit_of(i))?;
+    }
+    wb.save(dir.join("11_two_tables.xlsx"))?;
+    canonical(&dir.join("11_two_tables.canonical.xlsx"))
+}
+
 fn main() -> Result<(), Box<dyn std::error::Error>> {
     let dir = Path::new(env!("CARGO_MANIFEST_DIR")).join("fixtures/lists");
     std::fs::create_dir_all(&dir)?;
@@ -704,6 +735,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         wb.save(dir.join(format!("{name}.xlsx")))?;
         canonical(&dir.join(format!("{name}.canonical.xlsx")))?;
     }
+    two_tables(&dir)?;
     legacy_twins(&dir)?;
     let mut map = String::from(
         "# Invented locations of the invented Marrow Creek station, mapped to its lines.\n[locations]\n",
@@ -717,6 +749,10 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         ));
     }
     std::fs::write(dir.join("08_location_map.map.toml"), map)?;
-    println!("wrote {} fixtures to {}", fixtures.len(), dir.display());
+    println!(
+        "wrote {} fixtures and their twins to {}",
+        fixtures.len() + 3,
+        dir.display()
+    );
     Ok(())
 }

@@ -267,3 +267,18 @@ fn other_kind_columns_and_disagreements_are_warned() {
         Some(lossledger::ingest::parse::SizeSpec::Dn(80))
     );
 }
+
+/// A line list above a takeoff on one sheet, separated by a blank row and a new header.
+#[test]
+fn two_tables_on_one_sheet() {
+    let l = same("11_two_tables", None);
+    let lines = l.layout(TableKind::Lines).expect("lines");
+    let list = l.layout(TableKind::List).expect("list");
+    assert_eq!(
+        (lines.sheet.as_str(), list.sheet.as_str()),
+        ("Station", "Station")
+    );
+    assert_eq!(lines.data_end, Some(5));
+    assert_eq!(list.header_row, 6);
+    assert_eq!(l.lines.len(), 4);
+}

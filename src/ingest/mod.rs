@@ -596,7 +596,74 @@ fn locate_tables(
         duplicate_columns(file, table, &layout, diags);
         layouts.push(layout);
     }
+    stacked_tables(sheets, map, &mut layouts);
     layouts
+}
+
+/// Several tables on one sheet: under a table, after a blank row, a header row of another table
+/// (a line list above a takeoff) starts a second table; the first ends at the blank row. Only
+/// tables not found elsewhere in the file are looked for, so a repeated header (page break)
+/// stays part of its table.
+fn stacked_tables(sheets: &[SheetGrid], map: Option<&HeaderMap>, layouts: &mut Vec<Layout>) {
+    let mut i = 0;
+    while i < layouts.len() {
+        let l = &layouts[i];
+        let grid = &sheets[l.sheet_index];
+        let (end, width) = (grid.end_row(), grid.end_col());
+        let blank = |r: u32| {
+            (0..width).all(|c| match grid.value(r, c) {
+                calamine::Data::Empty => true,
+                calamine::Data::String(s) => s.trim().is_empty(),
+                _ => false,
+            })
+        };
+        let taken: Vec<TableKind> = layouts.iter().map(|x| x.table).collect();
+        let mut found = None;
+        let mut r = l.data_start;
+        while r < end && found.is_none() {
+            if !blank(r) {
+                r += 1;
+                continue;
+            }
+            let Some(h) = (r + 1..end).find(|&x| !blank(x)) else {
+                break;
+            };
+            found = another_table_at(grid, l, h, map, &taken).map(|t| (r, t));
+            r = h;
+        }
+        if let Some((gap, next)) = found {
+            layouts[i].data_end = Some(gap);
+            layouts.push(next);
+        }
+        i += 1;
+    }
+}
+
+/// A table of another kind (not yet found in the file) whose header is on `row`.
+fn another_table_at(
+    grid: &SheetGrid,
+    above: &Layout,
+    row: u32,
+    map: Option<&HeaderMap>,
+    taken: &[TableKind],
+) -> Option<Layout> {
+    if above.table != TableKind::List
+        && let Some(l) = list::detect::find_list_at(grid, above.sheet_index, row, map)
+    {
+        return Some(l);
+    }
+    schema::ALL_TABLES
+        .into_iter()
+        .filter(|t| *t != above.table && !taken.contains(t))
+        .find_map(|t| {
+            header::find_layout_in(grid, above.sheet_index, t, map, row..row + 1).filter(|l| {
+                schema::spec(t)
+                    .required
+                    .iter()
+                    .all(|k| l.column(k).is_some())
+                    && l.columns.len() >= 2
+            })
+        })
 }
 
 /// A header that names a column already matched earlier in the row is ambiguous: which of the two

@@ -25,7 +25,23 @@ pub fn find_list(
     named_table: Option<TableKind>,
     map: Option<&HeaderMap>,
 ) -> Option<Layout> {
-    let mut layout = header::find_layout_with(grid, sheet_index, TableKind::List, map)?;
+    let layout = header::find_layout_with(grid, sheet_index, TableKind::List, map)?;
+    accept(grid, layout, named_table)
+}
+
+/// The mixed list whose header is on `row` (a second table further down a sheet), judged as
+/// [`find_list`] judges a sheet not named for another table.
+pub fn find_list_at(
+    grid: &SheetGrid,
+    sheet_index: usize,
+    row: u32,
+    map: Option<&HeaderMap>,
+) -> Option<Layout> {
+    let layout = header::find_layout_in(grid, sheet_index, TableKind::List, map, row..row + 1)?;
+    accept(grid, layout, None)
+}
+
+fn accept(grid: &SheetGrid, mut layout: Layout, named_table: Option<TableKind>) -> Option<Layout> {
     resolve_item_numbers(grid, &mut layout, "description", Some("item_no"));
     layout.column("description")?;
     let amount = ["qty", "length", "status", "location"]
@@ -50,7 +66,7 @@ pub fn find_list(
 fn has_runs(grid: &SheetGrid, layout: &Layout) -> bool {
     let text_col = layout.column("description").map(|c| c.col);
     let qty_col = layout.column("qty").map(|c| c.col);
-    let end = grid.end_row().min(layout.data_start + EVIDENCE_ROWS);
+    let end = layout.end_row(grid).min(layout.data_start + EVIDENCE_ROWS);
     (layout.data_start..end).any(|row| {
         let text = text_col.and_then(|c| text_of(grid.value(row, c)));
         let qty = qty_col.and_then(|c| text_of(grid.value(row, c)));
@@ -117,7 +133,7 @@ pub fn resolve_item_numbers(
     let Some(text) = layout.column(text_key).cloned() else {
         return;
     };
-    let end = grid.end_row().min(layout.data_start + EVIDENCE_ROWS);
+    let end = layout.end_row(grid).min(layout.data_start + EVIDENCE_ROWS);
     // Heading and note rows (one filled cell) say nothing about the column.
     let filled = |r: u32| {
         (0..grid.end_col())

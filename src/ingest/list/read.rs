@@ -110,7 +110,7 @@ pub fn read_list(
             _ => false,
         }) && (0..width).all(|col| grid.formula(row, col).is_none())
     };
-    let end = grid.end_row();
+    let end = layout.end_row(grid);
     let last = (layout.data_start..end)
         .rev()
         .find(|&r| !is_blank(r))

@@ -304,7 +304,7 @@ pub(crate) fn decimal_comma_columns(grid: &SheetGrid, layout: &Layout) -> HashMa
             continue;
         }
         let (mut decimal, mut other) = (0, 0);
-        for row in layout.data_start..grid.end_row() {
+        for row in layout.data_start..layout.end_row(grid) {
             if let Data::String(s) = grid.value(row, c.col)
                 && s.contains(',')
             {
@@ -413,7 +413,7 @@ pub(crate) fn for_each_row(
         .map(|c| crate::ingest::schema::fold(&c.header))
         .collect();
     let mut blanks = 0;
-    let end = grid.end_row();
+    let end = layout.end_row(grid);
     let is_blank = |row: u32| {
         layout
             .columns
