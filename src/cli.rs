@@ -149,6 +149,10 @@ pub enum Command {
         /// Units written in the units row.
         #[arg(long, value_enum, default_value = "si")]
         units: report::console::UnitSystem,
+        /// `canonical`: one sheet per table; `list`: Lines plus one item list holding runs and
+        /// fittings together (a Unit drop-down: m, No ...).
+        #[arg(long, value_enum, default_value = "canonical")]
+        layout: crate::template::Layout,
     },
     /// Print the default rules as TOML, ready to copy and edit.
     Rules,
@@ -260,7 +264,9 @@ fn run(cli: Cli) -> u8 {
         }
         Command::Demo { dir } => crate::demo::run(&dir),
         Command::Check { inputs } => check(&inputs),
-        Command::Template { out, units } => crate::template::run(&out, units),
+        Command::Template { out, units, layout } => {
+            crate::template::run_layout(&out, units, layout)
+        }
     }
 }
 

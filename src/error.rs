@@ -146,7 +146,7 @@ pub enum InputError {
         reason: String,
     },
     /// A file type the tool does not read.
-    #[error("{file}: unsupported file type (expected .xlsx or .csv)")]
+    #[error("{file}: unsupported file type (expected .xlsx, .xlsm, .xls, .ods or .csv)")]
     UnsupportedType {
         /// File name.
         file: String,

@@ -9,7 +9,7 @@
 mod support;
 
 use std::ffi::OsStr;
-use support::{Cell, Sheet, base_station, n, s, sheet, xlsx, zip};
+use support::{Cell, Sheet, base_station, list_station, n, s, sheet, xlsx, zip};
 
 /// What a case must do.
 enum Expect {
@@ -87,6 +87,27 @@ fn with_all(changes: &[(&str, usize, usize, Cell)]) -> Vec<u8> {
     for (name, r, c, cell) in changes {
         sheet(&mut st, name).set(*r, *c, cell.clone());
     }
+    xlsx(&st)
+}
+
+/// The mixed-list station with some cells of its `BoQ` sheet changed.
+fn list_with(changes: &[(usize, usize, Cell)]) -> Vec<u8> {
+    let mut st = list_station();
+    for (r, c, cell) in changes {
+        sheet(&mut st, "BoQ").set(*r, *c, cell.clone());
+    }
+    xlsx(&st)
+}
+
+/// The mixed-list station with its Line column emptied and a heading row naming `line` put
+/// above the rows.
+fn list_with_heading(line: &str) -> Vec<u8> {
+    let mut st = list_station();
+    let boq = sheet(&mut st, "BoQ");
+    for r in 1..4 {
+        boq.set(r, 1, Cell::E);
+    }
+    boq.rows.insert(1, vec![s(line)]);
     xlsx(&st)
 }
 
@@ -177,6 +198,18 @@ fn cases() -> Vec<Case> {
             "cannot read",
         ),
         refused("ods-given-as-xlsx", ods_bytes(), None, "cannot read"),
+        Case {
+            name: "garbage-named-ods",
+            file: "station.ods",
+            bytes: zip(&[(
+                "mimetype",
+                b"application/vnd.oasis.opendocument.spreadsheet",
+            )]),
+            expect: Expect::Refused {
+                cell: None,
+                says: "cannot read",
+            },
+        },
         refused(
             "password-protected",
             compound_file(&["EncryptionInfo", "EncryptedPackage"]),
@@ -198,13 +231,15 @@ fn cases() -> Vec<Case> {
             None,
             "cannot read",
         ),
+        // .ods and .xls are read (through calamine): an .ods whose Pipes sheet has no header is
+        // refused at its cell, an .xls container with no workbook stream cannot be read.
         Case {
             name: "ods-extension",
             file: "station.ods",
             bytes: ods_bytes(),
             expect: Expect::Refused {
-                cell: None,
-                says: "unsupported file type",
+                cell: Some("Pipes!A1"),
+                says: "has no header row",
             },
         },
         Case {
@@ -213,7 +248,7 @@ fn cases() -> Vec<Case> {
             bytes: compound_file(&["Workbook"]),
             expect: Expect::Refused {
                 cell: None,
-                says: "unsupported file type",
+                says: "cannot read",
             },
         },
         // --- workbook without usable tables ---
@@ -497,6 +532,98 @@ fn cases() -> Vec<Case> {
             None,
             RTL,
         ),
+        // --- mixed item lists: each new error class at its cell ---
+        refused(
+            "list-neither-run-nor-fitting",
+            list_with(&[(2, 2, s("Widget assembly"))]),
+            Some("BoQ!C3"),
+            "neither a pipe run nor a fitting",
+        ),
+        refused(
+            "list-pipe-counted",
+            list_with(&[(2, 2, s("Pipe, CS, DN100"))]),
+            Some("BoQ!F3"),
+            "is a pipe run but is counted in 'No'",
+        ),
+        refused(
+            "list-elbow-in-metres",
+            list_with(&[(3, 5, s("m"))]),
+            Some("BoQ!F4"),
+            "is a fitting (elbow-90-long) but is measured in 'm'",
+        ),
+        refused(
+            "list-reducer-equal-sizes",
+            list_with(&[(2, 2, s("Concentric reducer")), (2, 3, s("100x100"))]),
+            Some("BoQ!D3"),
+            "its two sizes are equal",
+        ),
+        refused(
+            "list-expansion-reversed",
+            list_with(&[(2, 2, s("Sudden expansion")), (2, 3, s("DN150xDN100"))]),
+            Some("BoQ!D3"),
+            "second size must be the larger",
+        ),
+        refused(
+            "list-fitting-not-whole",
+            list_with(&[(3, 4, n(1.5))]),
+            Some("BoQ!E4"),
+            "must be a whole number",
+        ),
+        refused(
+            "list-unit-unknown",
+            list_with(&[(3, 5, s("kg"))]),
+            Some("BoQ!F4"),
+            "unit 'kg' is not known",
+        ),
+        refused(
+            "list-unit-contradicts-cell",
+            list_with(&[(3, 4, s("2 No")), (3, 5, s("m"))]),
+            Some("BoQ!E4"),
+            "but the Unit column says 'm'",
+        ),
+        refused(
+            "list-no-line",
+            list_with(&[(1, 1, Cell::E), (2, 1, Cell::E), (3, 1, Cell::E)]),
+            Some("BoQ!C2"),
+            "no line for this row",
+        ),
+        refused(
+            "list-heading-unknown-line",
+            list_with_heading("Line ZZ-9"),
+            Some("BoQ!A2"),
+            "known lines: L1",
+        ),
+        refused(
+            "list-blank-description",
+            list_with(&[(2, 2, Cell::E)]),
+            Some("BoQ!C3"),
+            "the description is blank",
+        ),
+        refused(
+            "list-quantity-not-a-quantity",
+            list_with(&[(1, 4, s("twenty"))]),
+            Some("BoQ!E2"),
+            "is not a quantity",
+        ),
+        // Item numbers in `Item` and the kind in `Description`: no duplicate-column error.
+        completes(
+            "fittings-item-numbers-and-description",
+            with_all(&[
+                ("Fittings", 0, 8, s("Description")),
+                ("Fittings", 1, 2, s("1.1")),
+                ("Fittings", 2, 2, s("1.2")),
+                ("Fittings", 1, 8, s("90 elbow")),
+                ("Fittings", 2, 8, s("gate valve")),
+            ]),
+            None,
+            "valve-gate",
+        ),
+        completes(
+            "list-heading-known-line",
+            list_with_heading("LINE NO: L1"),
+            None,
+            "L1",
+        ),
     ];
     v
 }
@@ -725,4 +852,73 @@ fn missing_input_and_directory_input_are_refused() {
         "{err}"
     );
     assert_eq!(support::entries(&dir), ["folder.xlsx"]);
+}
+
+/// Every reason a mixed-list row is skipped or left out, through the binary: `check` lists each
+/// with its cell and exits 0 (they are warnings), and the audit still runs.
+#[test]
+fn list_rows_skipped_with_their_reasons() {
+    let mut st = list_station();
+    let boq = sheet(&mut st, "BoQ");
+    boq.set(0, 6, s("Status"));
+    let rows: [(&str, &str, &str, &str); 8] = [
+        ("To collection", "", "", ""),
+        ("Provisional sum for testing", "1", "Sum", ""),
+        ("Extra over for excavation in rock", "3", "m", ""),
+        ("PUMP, CENTRIFUGAL, DN100", "1", "No", ""),
+        ("Pipe supports", "4", "No", ""),
+        ("Gate valve DN100", "1", "No", "Removed"),
+        ("Valves and pipework", "", "", ""),
+        ("Allow for flushing", "1", "Item", ""),
+    ];
+    for (i, (text, qty, unit, status)) in rows.iter().enumerate() {
+        let r = 4 + i;
+        boq.set(r, 1, if qty.is_empty() { Cell::E } else { s("L1") });
+        boq.set(r, 2, s(text));
+        if !qty.is_empty() {
+            boq.set(r, 4, n(qty.parse().unwrap_or(1.0)));
+            boq.set(r, 5, s(unit));
+        }
+        if !status.is_empty() {
+            boq.set(r, 6, s(status));
+        }
+    }
+    boq.set(13, 0, s("Note: rates exclude VAT"));
+    let dir = support::temp_dir("list-skips");
+    let input = dir.join("station.xlsx");
+    std::fs::write(&input, xlsx(&st)).expect("write");
+    let out = support::run(&[OsStr::new("check"), input.as_os_str()]);
+    let stdout = String::from_utf8_lossy(&out.stdout).into_owned();
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{stdout}\n{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    for want in [
+        "BoQ!C5: a totals or carried row ('To collection')",
+        "BoQ!A6: preliminaries or an allowance (unit 'Sum')",
+        "BoQ!A7: extra over: adds cost to an item measured elsewhere",
+        "BoQ!A8: not in the flow path: a pump",
+        "BoQ!A9: not in the flow path: a pipe support",
+        "BoQ!A10: status 'Removed': not in the flow path",
+        "BoQ!C11: a heading or note with no quantity ('Valves and pipework')",
+        "BoQ!A12: preliminaries or an allowance (unit 'Item')",
+        "BoQ!A14: a note ('Note: rates exclude VAT')",
+        "BoQ!C3: fitting valve-gate on L1",
+        "BoQ!C2: run on L1",
+    ] {
+        assert!(
+            stdout.contains(want),
+            "check does not list {want:?}:\n{stdout}"
+        );
+    }
+    let audit = support::run(&[OsStr::new("audit"), input.as_os_str()]);
+    assert_eq!(
+        audit.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&audit.stderr)
+    );
+    let _ = std::fs::remove_dir_all(&dir);
 }

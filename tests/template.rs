@@ -138,3 +138,27 @@ fn readme_carries_the_cautions() {
     assert!(all.contains("vacuum at high points and siphons are not checked"));
     assert!(all.contains("before speed control or impeller trimming"));
 }
+
+/// The single-sheet template (`--layout list`) reads as a mixed list with its invented example
+/// rows (one run, three fittings on the example line) and audits.
+#[test]
+fn list_template_reads_and_audits() {
+    let bytes = template::build_list(UnitSystem::Si).expect("template builds");
+    let path = std::env::temp_dir().join(format!(
+        "lossledger-template-{}-list.xlsx",
+        std::process::id()
+    ));
+    std::fs::write(&path, bytes).expect("write");
+    let sh = grid::read_xlsx(&path, "list").expect("readable");
+    let _ = std::fs::remove_file(&path);
+    let input = ingest::from_sheets("t.xlsx".into(), "t.xlsx".into(), String::new(), sh);
+    assert_eq!(input.error_count(), 0, "{:#?}", input.diagnostics);
+    assert!(
+        input
+            .layout(TableKind::List)
+            .is_some_and(|l| l.column("unit").is_some())
+    );
+    assert_eq!((input.pipes.len(), input.fittings.len()), (1, 3));
+    let a = audit::run(&input, &Rules::default()).expect("audits");
+    assert_eq!(a.lines.len(), 1);
+}

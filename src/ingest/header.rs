@@ -46,6 +46,9 @@ pub struct Layout {
     pub units_row: Option<u32>,
     /// First data row.
     pub data_start: u32,
+    /// One past the last row of the table, when another table follows it on the same sheet
+    /// (`None`: the table runs to the end of the sheet).
+    pub data_end: Option<u32>,
     /// Matched columns.
     pub columns: Vec<MappedColumn>,
     /// Header texts that matched no column (kept untouched in the copy).
@@ -53,6 +56,11 @@ pub struct Layout {
 }
 
 impl Layout {
+    /// One past the table's last row on `grid`.
+    pub fn end_row(&self, grid: &SheetGrid) -> u32 {
+        self.data_end.unwrap_or_else(|| grid.end_row())
+    }
+
     /// The mapped column with a key.
     pub fn column(&self, key: &str) -> Option<&MappedColumn> {
         self.columns.iter().find(|c| c.spec.key == key)
@@ -217,7 +225,18 @@ pub fn find_layout_with(
 ) -> Option<Layout> {
     let start = grid.values.start().map(|(r, _)| r).unwrap_or(0);
     let last = grid.end_row().min(start + HEADER_SEARCH_ROWS);
-    for row in 0..last {
+    find_layout_in(grid, sheet_index, table, map, 0..last)
+}
+
+/// [`find_layout_with`] over given header rows only (a second table further down a sheet).
+pub fn find_layout_in(
+    grid: &SheetGrid,
+    sheet_index: usize,
+    table: TableKind,
+    map: Option<&HeaderMap>,
+    rows: std::ops::Range<u32>,
+) -> Option<Layout> {
+    for row in rows {
         let (single, single_unknown) = map_texts(table, one_row(grid, row), map);
         let units_under = (single.len() >= 2)
             .then(|| detect_units_row(grid, row + 1, &single))
@@ -273,6 +292,7 @@ pub fn find_layout_with(
             header_rows,
             units_row,
             data_start: row + header_rows + u32::from(units_row.is_some()),
+            data_end: None,
             columns,
             unknown,
         });

@@ -45,6 +45,7 @@ struct Entry {
 pub struct HeaderMap {
     sheets: Vec<(String, TableKind)>,
     columns: Vec<(TableKind, Entry)>,
+    locations: BTreeMap<String, String>,
 }
 
 /// The table a map section or value names (`pipes`, `Pipe takeoff`, `pump curve`...).
@@ -52,6 +53,7 @@ pub fn table_named(name: &str) -> Option<TableKind> {
     let f = schema::fold(name);
     ALL_TABLES
         .into_iter()
+        .chain([TableKind::List])
         .find(|&k| schema::fold(k.sheet_name()) == f || schema::fold(&format!("{k:?}")) == f)
         .or_else(|| schema::match_sheet(name))
 }
@@ -102,6 +104,18 @@ impl HeaderMap {
                     "'{section}' must be a section such as [pipes] holding \"Your header\" = \"column\" lines"
                 )));
             };
+            if schema::fold(&section) == "locations" {
+                for (location, v) in entries {
+                    let Some(line) = v.as_str().filter(|l| !l.trim().is_empty()) else {
+                        return Err(err(format!(
+                            "[locations] \"{location}\": the value must be a line id in quotes"
+                        )));
+                    };
+                    map.locations
+                        .insert(schema::fold(&location), line.trim().to_string());
+                }
+                continue;
+            }
             if schema::fold(&section) == "sheets" {
                 for (sheet, v) in entries {
                     let name = v.as_str().unwrap_or_default();
@@ -152,6 +166,11 @@ impl HeaderMap {
             }
         }
         Ok(map)
+    }
+
+    /// Locations of a register mapped to line ids (`[locations]`), keys folded.
+    pub fn locations(&self) -> &BTreeMap<String, String> {
+        &self.locations
     }
 
     /// The table a sheet name is mapped to.

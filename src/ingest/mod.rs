@@ -5,10 +5,14 @@
 //! problem as a [`Diagnostic`] so the user sees them all at once.
 
 pub mod csv;
+pub mod describe;
 pub mod grid;
 pub mod header;
+pub mod legacy;
+pub mod list;
 pub mod map;
 pub mod parse;
+pub mod quantity;
 pub mod rows;
 pub mod schema;
 
@@ -67,6 +71,10 @@ pub struct ParseReport {
     pub skipped: Vec<Skipped>,
     /// Blank rows inside tables, per sheet.
     pub blank_rows: Vec<(String, usize)>,
+    /// Rows of mixed lists left out of the audit by their status (decommissioned, removed ...).
+    pub left_out: Vec<Skipped>,
+    /// How each row of a mixed list was read (run, fitting, heading, skipped, left out).
+    pub classified: Vec<list::Classified>,
 }
 
 /// How to read inputs.
@@ -196,7 +204,9 @@ pub fn folder_inputs(dir: &Path) -> Result<Vec<PathBuf>, InputError> {
             !name.starts_with("~$")
                 && !name.starts_with('.')
                 && !name.ends_with(".audit.xlsx")
-                && (name.ends_with(".xlsx") || name.ends_with(".xlsm") || name.ends_with(".csv"))
+                && [".xlsx", ".xlsm", ".xls", ".ods", ".csv"]
+                    .iter()
+                    .any(|e| name.ends_with(e))
         })
         .collect();
     files.sort();
@@ -229,12 +239,9 @@ fn read_file(
     let sha256 = hex(&Sha256::digest(&bytes));
     let sheets = match extension(path).as_str() {
         "xlsx" | "xlsm" if table.is_none() => grid::read_xlsx_bytes(&bytes, &file)?,
+        "xls" | "ods" if table.is_none() => legacy::read_bytes(&bytes, &file)?,
         "csv" | "txt" => {
-            let text = match String::from_utf8(bytes) {
-                Ok(t) => t,
-                // Spreadsheet applications often save CSV as Windows-1252: read it byte for byte.
-                Err(e) => e.into_bytes().iter().map(|&b| char::from(b)).collect(),
-            };
+            let (text, _) = csv::decode(&bytes);
             let name = match table {
                 Some(t) => t.sheet_name().to_string(),
                 None => sheet_name_of(path),
@@ -357,6 +364,7 @@ fn parse_part(source: Source, sheets: Vec<SheetGrid>, options: &ReadOptions) -> 
     input.layouts = layouts;
     input.diagnostics = diagnostics;
     rows::read_all(&mut input);
+    list::read_lists(&mut input, options);
     input
 }
 
@@ -408,6 +416,8 @@ fn merge(parts: Vec<Input>) -> Input {
         all.report.conversions.append(&mut part.report.conversions);
         all.report.skipped.append(&mut part.report.skipped);
         all.report.blank_rows.append(&mut part.report.blank_rows);
+        all.report.left_out.append(&mut part.report.left_out);
+        all.report.classified.append(&mut part.report.classified);
     }
     if merged {
         all.file = all
@@ -491,6 +501,13 @@ fn sheet_table(name: &str, map: Option<&HeaderMap>) -> Option<TableKind> {
                 .filter(|(_, n)| n.chars().all(|c| c.is_ascii_digit()));
             base.and_then(|(b, _)| schema::match_sheet(b))
         })
+        .or_else(|| {
+            let f = schema::fold(name);
+            list::columns::LIST_SHEETS
+                .iter()
+                .any(|a| schema::fold(a) == f)
+                .then_some(TableKind::List)
+        })
 }
 
 /// Find each table: by sheet name first, then by headers; check required columns.
@@ -502,6 +519,13 @@ fn locate_tables(
 ) -> Vec<Layout> {
     let mut layouts = Vec::new();
     let mut used = vec![false; sheets.len()];
+    for (i, s) in sheets.iter().enumerate() {
+        let named = sheet_table(&s.name, map);
+        if let Some(l) = list::find_list(s, i, named, map) {
+            used[i] = true;
+            layouts.push(l);
+        }
+    }
     for table in schema::ALL_TABLES {
         let spec = schema::spec(table);
         let by_name = sheets
@@ -542,6 +566,12 @@ fn locate_tables(
             continue;
         };
         used[layout.sheet_index] = true;
+        let mut layout = layout;
+        if table == TableKind::Fittings {
+            // `Item` holding numbering next to a `Description`: the text is in Description.
+            let grid = &sheets[layout.sheet_index];
+            list::detect::resolve_item_numbers(grid, &mut layout, "item", None);
+        }
         for key in spec.required {
             if layout.column(key).is_none() {
                 let header = spec
@@ -566,7 +596,74 @@ fn locate_tables(
         duplicate_columns(file, table, &layout, diags);
         layouts.push(layout);
     }
+    stacked_tables(sheets, map, &mut layouts);
     layouts
+}
+
+/// Several tables on one sheet: under a table, after a blank row, a header row of another table
+/// (a line list above a takeoff) starts a second table; the first ends at the blank row. Only
+/// tables not found elsewhere in the file are looked for, so a repeated header (page break)
+/// stays part of its table.
+fn stacked_tables(sheets: &[SheetGrid], map: Option<&HeaderMap>, layouts: &mut Vec<Layout>) {
+    let mut i = 0;
+    while i < layouts.len() {
+        let l = &layouts[i];
+        let grid = &sheets[l.sheet_index];
+        let (end, width) = (grid.end_row(), grid.end_col());
+        let blank = |r: u32| {
+            (0..width).all(|c| match grid.value(r, c) {
+                calamine::Data::Empty => true,
+                calamine::Data::String(s) => s.trim().is_empty(),
+                _ => false,
+            })
+        };
+        let taken: Vec<TableKind> = layouts.iter().map(|x| x.table).collect();
+        let mut found = None;
+        let mut r = l.data_start;
+        while r < end && found.is_none() {
+            if !blank(r) {
+                r += 1;
+                continue;
+            }
+            let Some(h) = (r + 1..end).find(|&x| !blank(x)) else {
+                break;
+            };
+            found = another_table_at(grid, l, h, map, &taken).map(|t| (r, t));
+            r = h;
+        }
+        if let Some((gap, next)) = found {
+            layouts[i].data_end = Some(gap);
+            layouts.push(next);
+        }
+        i += 1;
+    }
+}
+
+/// A table of another kind (not yet found in the file) whose header is on `row`.
+fn another_table_at(
+    grid: &SheetGrid,
+    above: &Layout,
+    row: u32,
+    map: Option<&HeaderMap>,
+    taken: &[TableKind],
+) -> Option<Layout> {
+    if above.table != TableKind::List
+        && let Some(l) = list::detect::find_list_at(grid, above.sheet_index, row, map)
+    {
+        return Some(l);
+    }
+    schema::ALL_TABLES
+        .into_iter()
+        .filter(|t| *t != above.table && !taken.contains(t))
+        .find_map(|t| {
+            header::find_layout_in(grid, above.sheet_index, t, map, row..row + 1).filter(|l| {
+                schema::spec(t)
+                    .required
+                    .iter()
+                    .all(|k| l.column(k).is_some())
+                    && l.columns.len() >= 2
+            })
+        })
 }
 
 /// A header that names a column already matched earlier in the row is ambiguous: which of the two
@@ -680,7 +777,7 @@ pub fn describe(input: &Input) -> String {
             s.sha256
         );
     }
-    for l in &input.layouts {
+    for l in input.layouts.iter().filter(|l| !list::is_view(input, l)) {
         let rows = if l.header_rows > 1 {
             format!("rows {}-{}", l.header_row + 1, l.header_row + l.header_rows)
         } else {
@@ -709,7 +806,11 @@ pub fn describe(input: &Input) -> String {
             }
         }
     }
-    let layouts: Vec<&Layout> = input.layouts.iter().collect();
+    let layouts: Vec<&Layout> = input
+        .layouts
+        .iter()
+        .filter(|l| !list::is_view(input, l))
+        .collect();
     out.push('\n');
     out.push_str(&map::mapping_toml(&layouts));
     let by_sheet = input.assumed_by_sheet();
@@ -744,6 +845,33 @@ pub fn describe(input: &Input) -> String {
                 "  ... and {} more (all listed in the Basis sheet of the audit)",
                 input.report.conversions.len() - 20
             );
+        }
+    }
+    if !input.report.classified.is_empty() {
+        out.push_str("\nList rows (what each became and the words that decided):\n");
+        for c in &input.report.classified {
+            let what = if c.what.is_empty() {
+                String::new()
+            } else {
+                format!(" {}", c.what)
+            };
+            let _ = writeln!(
+                out,
+                "  {}: {}{what} — {}",
+                c.cell,
+                c.became.word(),
+                c.deciding
+            );
+        }
+    }
+    if !input.report.left_out.is_empty() {
+        let _ = writeln!(
+            out,
+            "\nLeft out by status: {} row(s)",
+            input.report.left_out.len()
+        );
+        for s in &input.report.left_out {
+            let _ = writeln!(out, "  {}: {}", s.cell, s.reason);
         }
     }
     if !input.report.skipped.is_empty() || !input.report.blank_rows.is_empty() {

@@ -20,6 +20,9 @@ pub enum TableKind {
     Fluids,
     /// Optional: pump head-versus-flow points per system.
     PumpCurve,
+    /// A mixed item list (bill of quantities, takeoff, register export): runs and fittings in
+    /// one table, read by [`crate::ingest::list`] into Pipes and Fittings rows.
+    List,
 }
 
 impl TableKind {
@@ -650,6 +653,7 @@ pub fn spec(kind: TableKind) -> &'static TableSpec {
         TableKind::Systems => &SYSTEMS,
         TableKind::Fluids => &FLUIDS,
         TableKind::PumpCurve => &PUMP_CURVE,
+        TableKind::List => &super::list::columns::LIST,
     }
 }
 

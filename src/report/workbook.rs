@@ -12,6 +12,7 @@ use super::console::{UnitSystem, header_in};
 use super::style::{MAX_CELL_CHARS, Styles, shown, truncate};
 use crate::audit::{Audit, FittingResult, LineResult, RunResult};
 use crate::error::{Severity, quote_sheet};
+use crate::ingest::list::Became;
 use crate::ingest::{Input, Layout, SheetGrid, TableKind};
 
 /// Deflate level of the written workbook (1 fastest … 9 smallest).
@@ -130,11 +131,18 @@ pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Wo
         if sheet.hidden {
             ws.set_hidden(true);
         }
+        // Several tables on one sheet (a mixed list's runs and fittings) get their computed
+        // columns side by side, one gap column apart.
+        let mut next_col = sheet.end_col() + 1;
         let blocks: Vec<_> = input
             .layouts
             .iter()
             .filter(|l| l.sheet_index == i)
-            .filter_map(|l| computed_block(input, audit, l, st.units))
+            .filter_map(|l| {
+                let b = computed_block(input, audit, l, st.units, next_col)?;
+                next_col = b.first_col() + b.headers().len() as u32 + 1;
+                Some(b)
+            })
             .collect();
         copies.push((ws, sheet, blocks));
     }
@@ -408,6 +416,10 @@ fn copy_sheet(
     Ok(())
 }
 
+/// Rows of mixed lists whose classification is listed in the Parse report at most (all are
+/// shown by `lossledger check`).
+const MAX_CLASSIFIED: usize = 5_000;
+
 /// Cell notes written per sheet at most; beyond this the cells are still filled by severity and
 /// every finding is listed in Findings (a note per cell makes huge registers slow to open).
 pub const MAX_NOTES_PER_SHEET: usize = 10_000;
@@ -542,7 +554,7 @@ struct Computed<'a, T: 'static> {
 impl<'a, T: 'static> Computed<'a, T> {
     fn new(
         layout: &Layout,
-        grid: &SheetGrid,
+        first_col: u32,
         columns: &'static [Column<T>],
         mut items: Vec<(u32, &'a T)>,
         units: UnitSystem,
@@ -557,7 +569,7 @@ impl<'a, T: 'static> Computed<'a, T> {
             .unzip();
         Computed {
             header_row: layout.header_row,
-            first_col: grid.end_col() + 1,
+            first_col,
             headers,
             factors,
             columns,
@@ -606,17 +618,17 @@ impl<T: 'static> Block for Computed<'_, T> {
 
 /// The computed block of one input table, if its kind has computed columns.
 fn computed_block<'a>(
-    input: &Input,
+    _input: &Input,
     audit: &'a Audit,
     layout: &Layout,
     units: UnitSystem,
+    first_col: u32,
 ) -> Option<Box<dyn Block + Send + 'a>> {
-    let grid = &input.sheets[layout.sheet_index];
     let here = |sheet: &str| sheet == layout.sheet;
     Some(match layout.table {
         TableKind::Pipes => Box::new(Computed::new(
             layout,
-            grid,
+            first_col,
             RUN_COLUMNS,
             audit
                 .runs
@@ -628,7 +640,7 @@ fn computed_block<'a>(
         )),
         TableKind::Fittings => Box::new(Computed::new(
             layout,
-            grid,
+            first_col,
             FITTING_COLUMNS,
             audit
                 .fittings
@@ -640,7 +652,7 @@ fn computed_block<'a>(
         )),
         TableKind::Lines => Box::new(Computed::new(
             layout,
-            grid,
+            first_col,
             LINE_COLUMNS,
             audit
                 .lines
@@ -698,6 +710,18 @@ fn write_summary(
     ] {
         ws.write_string_with_format(r, 0, label, &st.bold)?;
         ws.write_string(r, 2, value)?;
+        r += 1;
+    }
+    if !input.report.left_out.is_empty() {
+        ws.write_string_with_format(r, 0, "Rows left out by status", &st.bold)?;
+        ws.write_string(
+            r,
+            2,
+            format!(
+                "{} (decommissioned, removed, spare ...; listed in Basis)",
+                input.report.left_out.len()
+            ),
+        )?;
         r += 1;
     }
     r = super::ranking::write_summary_block(ws, audit, r)?;
@@ -957,7 +981,11 @@ fn write_basis(
             false,
         )?;
     }
-    for l in &input.layouts {
+    for l in input
+        .layouts
+        .iter()
+        .filter(|l| !crate::ingest::list::is_view(input, l))
+    {
         let mapping: Vec<String> = l
             .columns
             .iter()
@@ -1071,6 +1099,24 @@ fn write_basis(
             &format!("{}: {}", sk.cell, sk.reason),
             false,
         )?;
+    }
+    for sk in &input.report.left_out {
+        line(
+            ws,
+            "left out by status",
+            &format!("{}: {}", sk.cell, sk.reason),
+            false,
+        )?;
+    }
+    for c in input.report.classified.iter().take(MAX_CLASSIFIED) {
+        if matches!(c.became, Became::Run | Became::Fitting | Became::Heading) {
+            line(
+                ws,
+                &format!("list row read as {}", c.became.word()),
+                &format!("{}: {} — {}", c.cell, c.what, c.deciding),
+                false,
+            )?;
+        }
     }
     for (sheet, n) in &input.report.blank_rows {
         line(

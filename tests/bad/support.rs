@@ -282,3 +282,54 @@ pub fn entries(dir: &Path) -> Vec<String> {
     v.sort();
     v
 }
+
+/// A small valid station kept as one mixed item list (`BoQ`: Item, Line, Description, Size,
+/// Qty, Unit) with its Lines sheet. Invented.
+pub fn list_station() -> Vec<Sheet> {
+    vec![
+        Sheet::new(
+            "Lines",
+            vec![
+                vec![s("Line"), s("Service"), s("Flow [m3/h]")],
+                vec![s("L1"), s("pump-discharge"), n(50.0)],
+            ],
+        ),
+        Sheet::new(
+            "BoQ",
+            vec![
+                vec![
+                    s("Item"),
+                    s("Line"),
+                    s("Description"),
+                    s("Size"),
+                    s("Qty"),
+                    s("Unit"),
+                ],
+                vec![
+                    s("1"),
+                    s("L1"),
+                    s("Pipe, CS, Sch 40"),
+                    s("DN100"),
+                    n(20.0),
+                    s("m"),
+                ],
+                vec![
+                    s("2"),
+                    s("L1"),
+                    s("Gate valve PN16"),
+                    s("DN100"),
+                    n(1.0),
+                    s("No"),
+                ],
+                vec![
+                    s("3"),
+                    s("L1"),
+                    s("90 LR elbow"),
+                    s("DN100"),
+                    n(2.0),
+                    s("No"),
+                ],
+            ],
+        ),
+    ]
+}

@@ -1,0 +1,188 @@
+//! Typed rows read from the located tables, one cell at a time, with every problem collected.
+//!
+//! One file per row type (`lines`, `pipes`, `fittings`, `systems`, `fluids`, `pump_curve`);
+//! [`cells`] reads the cells of a row. Mixed item lists are read by [`super::list`] into the
+//! same rows.
+
+mod cells;
+mod fittings;
+mod fluids;
+mod lines;
+mod pipes;
+mod pump_curve;
+mod systems;
+
+pub use cells::format_number;
+pub(crate) use cells::{Cells, decimal_comma_columns, skip_reason, truncate};
+pub use fittings::FittingRow;
+pub use fluids::FluidRow;
+pub use lines::{LineRow, Service};
+pub use pipes::PipeRow;
+pub(crate) use pipes::run_assumptions;
+pub use pump_curve::PumpCurveRow;
+pub use systems::{SITE_ELEVATION_RANGE_M, SystemRow};
+
+use std::collections::HashSet;
+
+use super::Input;
+use super::schema::TableKind;
+use crate::error::{CellRef, Diagnostic, Severity};
+use cells::Sink as TableSink;
+
+/// Where a row came from.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Origin {
+    /// Sheet name.
+    pub sheet: String,
+    /// Zero-based row.
+    pub row: u32,
+}
+
+/// A value the tool assumed because the cell was blank.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Assumed {
+    /// The (blank) cell, when the column exists; otherwise the row's first cell.
+    pub cell: CellRef,
+    /// Canonical column key.
+    pub key: &'static str,
+    /// What was assumed, in words.
+    pub what: String,
+}
+
+/// Read all tables of an input into its row vectors. Fittings, the longest table of a register,
+/// are read on a second thread while this one reads the others; what the tables report is
+/// appended in table order, so the result does not depend on the threads.
+pub fn read_all(input: &mut Input) {
+    let (sinks, (lines, pipes, fittings, systems, fluids, pump_curves)) = {
+        let input = &*input;
+        std::thread::scope(|scope| {
+            let fittings = scope.spawn(|| {
+                let mut sink = TableSink::default();
+                let rows = fittings::read_fittings(input, &mut sink);
+                (sink, rows)
+            });
+            let mut sinks: [TableSink; 6] = Default::default();
+            let lines = lines::read_lines(input, &mut sinks[0]);
+            let pipes = pipes::read_pipes(input, &mut sinks[1]);
+            let systems = systems::read_systems(input, &mut sinks[3]);
+            let fluids = fluids::read_fluids(input, &mut sinks[4]);
+            let pump_curves = pump_curve::read_pump_curves(input, &mut sinks[5]);
+            let (fitting_sink, fittings) = fittings
+                .join()
+                .unwrap_or_else(|panic| std::panic::resume_unwind(panic));
+            sinks[2] = fitting_sink;
+            (
+                sinks,
+                (lines, pipes, fittings, systems, fluids, pump_curves),
+            )
+        })
+    };
+    for sink in sinks {
+        sink.append_to(input);
+    }
+    input.lines = lines;
+    input.pipes = pipes;
+    input.fittings = fittings;
+    input.systems = systems;
+    input.fluids = fluids;
+    input.pump_curves = pump_curves;
+}
+
+/// Checks across tables (after all files are read): every line referenced exists where it must,
+/// and every line has a flow.
+pub fn cross_check(input: &mut Input) {
+    let pipe_lines: HashSet<&str> = input.pipes.iter().map(|p| p.line.as_str()).collect();
+    let mut diags = Vec::new();
+    let col_of = |input: &Input, table: TableKind, sheet: &str, key: &str| {
+        input
+            .layout_on(table, sheet)
+            .and_then(|l| l.column(key))
+            .map(|c| c.col)
+            .unwrap_or(0)
+    };
+    for f in &input.fittings {
+        if !pipe_lines.contains(f.line.as_str()) {
+            diags.push(Diagnostic {
+                severity: Severity::Error,
+                file: input.file_of(&f.origin.sheet).to_string(),
+                cell: Some(CellRef::new(
+                    &f.origin.sheet,
+                    f.origin.row,
+                    col_of(input, TableKind::Fittings, &f.origin.sheet, "line"),
+                )),
+                message: format!(
+                    "fitting on line '{}', which has no pipe run in Pipes",
+                    f.line
+                ),
+                hint: Some("add the line's runs to Pipes or correct the line id".into()),
+            });
+        }
+    }
+    let pipe_flow: HashSet<&str> = input
+        .pipes
+        .iter()
+        .filter(|p| p.flow_m3_s.is_some())
+        .map(|p| p.line.as_str())
+        .collect();
+    let listed: HashSet<&str> = input.lines.iter().map(|l| l.line.as_str()).collect();
+    for l in &input.lines {
+        if l.flow_m3_s.is_none()
+            && !pipe_flow.contains(l.line.as_str())
+            && pipe_lines.contains(l.line.as_str())
+        {
+            diags.push(Diagnostic {
+                severity: Severity::Error,
+                file: input.file_of(&l.origin.sheet).to_string(),
+                cell: Some(CellRef::new(
+                    &l.origin.sheet,
+                    l.origin.row,
+                    col_of(input, TableKind::Lines, &l.origin.sheet, "flow"),
+                )),
+                message: format!("line '{}' has no flow", l.line),
+                hint: Some("enter the line's design flow (a blank is not read as zero)".into()),
+            });
+        }
+    }
+    let mut reported = HashSet::new();
+    for p in &input.pipes {
+        if !listed.contains(p.line.as_str())
+            && p.flow_m3_s.is_none()
+            && reported.insert(p.line.clone())
+        {
+            diags.push(Diagnostic {
+                severity: Severity::Error,
+                file: input.file_of(&p.origin.sheet).to_string(),
+                cell: Some(CellRef::new(
+                    &p.origin.sheet,
+                    p.origin.row,
+                    col_of(input, TableKind::Pipes, &p.origin.sheet, "line"),
+                )),
+                message: format!(
+                    "line '{}' has no flow: it is not in Lines and its runs give none",
+                    p.line
+                ),
+                hint: Some(
+                    "list the line in Lines with its flow, or add a Flow column to Pipes".into(),
+                ),
+            });
+        }
+    }
+    // A Pipes table with a header and nothing under it would give an empty audit: say so instead.
+    if input.pipes.is_empty()
+        && input.error_count() == 0
+        && diags.is_empty()
+        && let Some(l) = input.layout(TableKind::Pipes)
+    {
+        diags.push(Diagnostic {
+            severity: Severity::Error,
+            file: input.file_of(&l.sheet).to_string(),
+            cell: Some(CellRef::new(&l.sheet, l.header_row, 0)),
+            message: format!(
+                "sheet '{}' has a header row but no pipe runs under it",
+                l.sheet
+            ),
+            hint: Some("enter at least one run (line, size, length) below the header".into()),
+        });
+    }
+    input.diagnostics.extend(diags);
+}
