@@ -408,6 +408,19 @@ fn copy_sheet(
     Ok(())
 }
 
+/// Copy an input sheet cell for cell (values, formulas with their cached results, merged
+/// ranges) without marks or computed columns: the comparison workbook's copy of the new input.
+///
+/// # Errors
+/// What the workbook writer reports.
+pub(crate) fn copy_plain(
+    ws: &mut Worksheet,
+    sheet: &SheetGrid,
+    st: &Styles,
+) -> Result<(), XlsxError> {
+    copy_sheet(ws, sheet, None, &mut [], st)
+}
+
 /// Cell notes written per sheet at most; beyond this the cells are still filled by severity and
 /// every finding is listed in Findings (a note per cell makes huge registers slow to open).
 pub const MAX_NOTES_PER_SHEET: usize = 10_000;
