@@ -527,7 +527,12 @@ fn compare_side(
     let sources = [ingest::InputSource::Path(path.to_path_buf())];
     match read_and_audit(&sources, options, rules) {
         Ok(a) => {
-            for d in a.audit.notes.iter().filter(|d| d.severity != Severity::Error) {
+            for d in a
+                .audit
+                .notes
+                .iter()
+                .filter(|d| d.severity != Severity::Error)
+            {
                 eprintln!("{label}: {d}");
             }
             Some(a)
@@ -557,7 +562,12 @@ fn compare(args: &CompareArgs) -> u8 {
             return 2;
         }
     };
-    let map = match args.map.as_deref().map(ingest::HeaderMap::from_file).transpose() {
+    let map = match args
+        .map
+        .as_deref()
+        .map(ingest::HeaderMap::from_file)
+        .transpose()
+    {
         Ok(m) => m,
         Err(e) => {
             eprintln!("error: {e}");

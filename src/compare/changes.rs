@@ -2,6 +2,7 @@
 //! [`Change`] per field.
 
 use serde::Serialize;
+use std::collections::HashMap;
 
 use super::fields::{self as fd, Field, Value, num, size_label, text};
 use super::matching::Matching;
@@ -99,7 +100,6 @@ pub struct Change {
     pub shown: Option<Field>,
 }
 
-
 /// Where an item sits: its table, sheet and row.
 #[derive(Clone, Copy)]
 struct At<'a> {
@@ -150,7 +150,7 @@ impl Item<'_> {
     /// One change per field whose old and new values differ.
     fn fields(&self, out: &mut Vec<Change>, pairs: Vec<(Field, Option<Value>, Option<Value>)>) {
         for (field, old, new) in pairs {
-            if old == new {
+            if fd::same(&old, &new) {
                 continue;
             }
             out.push(Change {
@@ -182,12 +182,13 @@ fn first_col(a: &At<'_>) -> u32 {
 pub fn input_changes(old: &Audited, new: &Audited, m: &Matching) -> Vec<Change> {
     let mut out = Vec::new();
     let hints = rename_hints(old, new, m);
+    let bores = (bores(old), bores(new));
     for &(o, n) in &m.lines {
         let lo = o.map(|i| &old.audit.lines[i]);
         let ln = n.map(|i| &new.audit.lines[i]);
         line_changes(&mut out, old, new, lo, ln, &hints);
         if let (Some(lo), Some(_)) = (lo, ln) {
-            run_changes(&mut out, old, new, m, &lo.line);
+            run_changes(&mut out, (old, new), m, &lo.line, &bores);
         }
     }
     fitting_changes(&mut out, old, new, m);
@@ -196,7 +197,15 @@ pub fn input_changes(old: &Audited, new: &Audited, m: &Matching) -> Vec<Change> 
             let id = &a.audit.systems[i].system;
             a.input.systems.iter().find(|s| &s.system == id)
         }
-        system_changes(&mut out, old, new, o.and_then(|i| row(old, i)), n.and_then(|i| row(new, i)), o, n);
+        system_changes(
+            &mut out,
+            old,
+            new,
+            o.and_then(|i| row(old, i)),
+            n.and_then(|i| row(new, i)),
+            o,
+            n,
+        );
     }
     out
 }
@@ -213,7 +222,13 @@ fn line_at<'a>(input: &'a Input, l: &'a LineResult) -> Option<At<'a>> {
         Some(s) if l.row.is_some() => (TableKind::Lines, s.as_str()),
         _ => (
             TableKind::Pipes,
-            input.pipes.iter().find(|p| p.line == l.line)?.origin.sheet.as_str(),
+            input
+                .pipes
+                .iter()
+                .find(|p| p.line == l.line)?
+                .origin
+                .sheet
+                .as_str(),
         ),
     };
     Some(At {
@@ -280,10 +295,16 @@ fn line_changes(
         out.push(item.whole(note));
         return;
     }
-    let (Some(lo), Some(ln)) = (lo, ln) else { return };
+    let (Some(lo), Some(ln)) = (lo, ln) else {
+        return;
+    };
     let pairs = LINE_FIELDS
         .into_iter()
-        .zip(line_fields(&old.input, lo).into_iter().zip(line_fields(&new.input, ln)))
+        .zip(
+            line_fields(&old.input, lo)
+                .into_iter()
+                .zip(line_fields(&new.input, ln)),
+        )
         .map(|(f, (a, b))| (f, a, b))
         .collect();
     item.fields(out, pairs);
@@ -307,7 +328,6 @@ fn run_fields(p: &PipeRow) -> Vec<(Field, Option<Value>)> {
         (fd::BORE, num(p.inner_diameter_m)),
         (fd::ROUGHNESS, num(p.roughness_m)),
         (fd::C_FACTOR, num(p.c_factor)),
-        (fd::RUN_FLOW, num(p.flow_m3_s)),
     ]
 }
 
@@ -318,7 +338,34 @@ fn run_name(p: &PipeRow, position: usize) -> String {
     }
 }
 
-fn run_changes(out: &mut Vec<Change>, old: &Audited, new: &Audited, m: &Matching, line: &str) {
+/// The bore each run was audited with, by its (sheet, row).
+type Bores = HashMap<(String, u32), f64>;
+
+fn bores(a: &Audited) -> Bores {
+    a.audit
+        .runs
+        .iter()
+        .map(|r| ((r.cell.sheet.clone(), r.row), r.inner_diameter_m))
+        .collect()
+}
+
+/// The same bore on both sides: a size written another way (`Ø219.1×8.2` for `ID 202.7`) is no
+/// change.
+fn same_bore(a: &PipeRow, b: &PipeRow, bores: &(Bores, Bores)) -> bool {
+    let bore = |m: &Bores, p: &PipeRow| m.get(&(p.origin.sheet.clone(), p.origin.row)).copied();
+    match (bore(&bores.0, a), bore(&bores.1, b)) {
+        (Some(x), Some(y)) => fd::same_number(x, y),
+        _ => false,
+    }
+}
+
+fn run_changes(
+    out: &mut Vec<Change>,
+    (old, new): (&Audited, &Audited),
+    m: &Matching,
+    line: &str,
+    bores: &(Bores, Bores),
+) {
     let by_position = m.runs_by_position.iter().any(|l| l == line);
     let note = if by_position {
         "runs matched by position (no distinct Seq)".to_string()
@@ -349,9 +396,11 @@ fn run_changes(out: &mut Vec<Change>, old: &Audited, new: &Audited, m: &Matching
         };
         match (po, pn) {
             (Some(a), Some(b)) => {
+                let keep_size = !same_bore(a, b, bores);
                 let pairs = run_fields(a)
                     .into_iter()
                     .zip(run_fields(b))
+                    .filter(|((f, _), _)| keep_size || *f != fd::SIZE)
                     .map(|((f, x), (_, y))| (f, x, y))
                     .collect();
                 item.fields(out, pairs);
@@ -382,7 +431,10 @@ fn fitting_fields(f: &FittingRow) -> Vec<(Field, Option<Value>)> {
         (fd::LINE, text(f.line.clone())),
         (fd::KIND, text(f.kind.id)),
         (fd::SIZE, f.size.as_ref().map(size_label).and_then(text)),
-        (fd::SIZE_OUT, f.size_out.as_ref().map(size_label).and_then(text)),
+        (
+            fd::SIZE_OUT,
+            f.size_out.as_ref().map(size_label).and_then(text),
+        ),
         (fd::QTY, num(Some(f.qty))),
         (fd::OPENING, num(f.opening)),
         (fd::K, num(f.k)),
@@ -403,9 +455,8 @@ fn fitting_name(f: &FittingRow) -> String {
 /// Fittings added, removed or changed, on lines present on both sides (a fitting on an added or
 /// removed line is part of that line's change).
 fn fitting_changes(out: &mut Vec<Change>, old: &Audited, new: &Audited, m: &Matching) {
-    let on_both = |line: &str| {
-        old.audit.line_of(line).is_some() && new.audit.line_of(line).is_some()
-    };
+    let on_both =
+        |line: &str| old.audit.line_of(line).is_some() && new.audit.line_of(line).is_some();
     for &(o, n, key) in &m.fittings {
         let fo = o.map(|i| &old.input.fittings[i]);
         let fn_ = n.map(|i| &new.input.fittings[i]);

@@ -45,7 +45,11 @@ fn signed(x: Option<f64>, factor: f64, places: usize) -> String {
 }
 
 fn arrow(p: &Pair, factor: f64, places: usize) -> String {
-    format!("{} → {}", fig(p.old, factor, places), fig(p.new, factor, places))
+    format!(
+        "{} → {}",
+        fig(p.old, factor, places),
+        fig(p.new, factor, places)
+    )
 }
 
 fn verdicts(v: &Verdicts) -> String {
@@ -130,6 +134,51 @@ pub fn systems_table(c: &Comparison, units: UnitSystem) -> TextTable {
     }
 }
 
+/// Changes listed on the console at most (warnings and errors only).
+pub const CONSOLE_CHANGES: usize = 10;
+
+/// The changes at warning or error: verdicts that got worse, findings that appeared.
+pub fn worse_table(c: &Comparison, units: UnitSystem) -> TextTable {
+    let show = |ch: &super::Change, v: &Option<super::Value>| match (v, ch.shown) {
+        (None, _) => "—".to_string(),
+        (Some(v), Some(f)) => f.show(v, units),
+        (Some(v), None) => fields::LINE.show(v, units),
+    };
+    TextTable {
+        header: vec![
+            "Severity".into(),
+            "Change".into(),
+            "Item".into(),
+            "Cell".into(),
+            "Old → new".into(),
+        ],
+        rows: c
+            .changes
+            .iter()
+            .filter(|ch| ch.severity >= Severity::Warning)
+            .take(CONSOLE_CHANGES)
+            .map(|ch| {
+                let cell = ch.new_cell.as_ref().or(ch.old_cell.as_ref());
+                let mut item = ch.item.clone();
+                if let Some(l) = &ch.line {
+                    item = format!("{l}: {item}");
+                }
+                let values = match ch.kind {
+                    super::ChangeKind::FindingAppeared => "appeared".to_string(),
+                    _ => format!("{} → {}", show(ch, &ch.old), show(ch, &ch.new)),
+                };
+                vec![
+                    ch.severity.label().to_string(),
+                    ch.kind.label().to_string(),
+                    item,
+                    cell.map_or(String::new(), |c| c.to_string()),
+                    values,
+                ]
+            })
+            .collect(),
+    }
+}
+
 /// The whole console summary.
 pub fn summary(c: &Comparison, units: UnitSystem) -> String {
     let mut out = format!("Compared {} (old) with {} (new)\n", c.old.file, c.new.file);
@@ -140,7 +189,11 @@ pub fn summary(c: &Comparison, units: UnitSystem) -> String {
     let lines = lines_table(c, units);
     if !lines.rows.is_empty() {
         out.push_str(&render(&lines));
-        let moved = c.lines.iter().filter(|l| l.status != Status::Unchanged).count();
+        let moved = c
+            .lines
+            .iter()
+            .filter(|l| l.status != Status::Unchanged)
+            .count();
         if moved > lines.rows.len() {
             out.push_str(&format!(
                 "The {} of {moved} changed lines with the largest head change; all are in the Line effects sheet.\n",
@@ -150,6 +203,10 @@ pub fn summary(c: &Comparison, units: UnitSystem) -> String {
     }
     if !c.systems.is_empty() {
         out.push_str(&render(&systems_table(c, units)));
+    }
+    let worse = worse_table(c, units);
+    if !worse.rows.is_empty() {
+        out.push_str(&render(&worse));
     }
     let cost = &c.energy.annual_cost;
     if cost.moved() {

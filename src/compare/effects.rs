@@ -30,8 +30,8 @@ pub struct Pair {
 impl Pair {
     /// The pair of two optional figures.
     pub fn of(old: Option<f64>, new: Option<f64>) -> Pair {
-        let change = (old.is_some() || new.is_some())
-            .then(|| new.unwrap_or(0.0) - old.unwrap_or(0.0));
+        let change =
+            (old.is_some() || new.is_some()).then(|| new.unwrap_or(0.0) - old.unwrap_or(0.0));
         let change_ratio = match (old, change) {
             (Some(o), Some(c)) if o != 0.0 => Some(c / o),
             _ => None,
@@ -44,9 +44,13 @@ impl Pair {
         }
     }
 
-    /// True when the figure moved, appeared or disappeared.
+    /// True when the figure moved (beyond [`super::fields::SAME_VALUE_REL`]), appeared or
+    /// disappeared.
     pub fn moved(&self) -> bool {
-        self.old != self.new
+        match (self.old, self.new) {
+            (Some(a), Some(b)) => !super::fields::same_number(a, b),
+            (a, b) => a != b,
+        }
     }
 }
 
@@ -193,9 +197,14 @@ pub struct SystemEffect {
     pub cell: Option<CellRef>,
 }
 
-type FindingKey = (&'static str, Option<(String, u32)>, Option<String>, Option<String>);
+type FindingKey = (
+    &'static str,
+    Option<(String, u32)>,
+    Option<String>,
+    Option<String>,
+);
 
-fn finding_key(f: &Finding, rows: Option<&HashMap<(String, u32), (String, u32)>>) -> FindingKey {
+fn finding_key(f: &Finding, rows: Option<&super::matching::RowMap>) -> FindingKey {
     let at = f.cell.as_ref().map(|c| {
         let here = (c.sheet.clone(), c.row);
         match rows {
@@ -215,7 +224,9 @@ fn finding_key(f: &Finding, rows: Option<&HashMap<(String, u32), (String, u32)>>
 pub fn finding_changes(old: &Audited, new: &Audited, m: &Matching) -> Vec<Change> {
     let mut pool: HashMap<FindingKey, Vec<usize>> = HashMap::new();
     for (i, f) in old.audit.findings.iter().enumerate().rev() {
-        pool.entry(finding_key(f, Some(&m.rows))).or_default().push(i);
+        pool.entry(finding_key(f, Some(&m.rows)))
+            .or_default()
+            .push(i);
     }
     let mut out = Vec::new();
     for f in &new.audit.findings {
@@ -229,7 +240,10 @@ pub fn finding_changes(old: &Audited, new: &Audited, m: &Matching) -> Vec<Change
     }
     let mut gone: Vec<usize> = pool.into_values().flatten().collect();
     gone.sort_unstable();
-    out.extend(gone.into_iter().map(|i| finding_change(&old.audit.findings[i], false)));
+    out.extend(
+        gone.into_iter()
+            .map(|i| finding_change(&old.audit.findings[i], false)),
+    );
     out
 }
 
@@ -276,9 +290,16 @@ pub fn systems(old: &Audited, new: &Audited, m: &Matching) -> Vec<SystemEffect> 
             let so = o.map(|i| &old.audit.systems[i]);
             let sn = n.map(|i| &new.audit.systems[i]);
             let id = sn.or(so)?.system.clone();
-            let pair = |f: fn(&SystemResult) -> Option<f64>| Pair::of(so.and_then(f), sn.and_then(f));
-            let duty = Verdicts { old: so.map(Verdict::duty), new: sn.map(Verdict::duty) };
-            let npsh = Verdicts { old: so.map(Verdict::npsh), new: sn.map(Verdict::npsh) };
+            let pair =
+                |f: fn(&SystemResult) -> Option<f64>| Pair::of(so.and_then(f), sn.and_then(f));
+            let duty = Verdicts {
+                old: so.map(Verdict::duty),
+                new: sn.map(Verdict::duty),
+            };
+            let npsh = Verdicts {
+                old: so.map(Verdict::npsh),
+                new: sn.map(Verdict::npsh),
+            };
             let required_head_m = pair(|s| Some(s.required_head_m));
             let pump_head_m = pair(|s| s.pump_head_m);
             let margin_m = pair(|s| s.margin_m);
@@ -447,7 +468,11 @@ pub fn lines(old: &Audited, new: &Audited, m: &Matching, changes: &[Change]) -> 
             })
         })
         .collect();
-    let size = |e: &LineEffect| e.total_head_m.change.unwrap_or(0.0).abs();
+    // Changes within rounding (the same value reached by another unit path) count as none.
+    let size = |e: &LineEffect| match e.total_head_m.moved() {
+        true => e.total_head_m.change.unwrap_or(0.0).abs(),
+        false => 0.0,
+    };
     let sum: f64 = out.iter().map(size).sum();
     for e in &mut out {
         e.share_of_changes = (sum > 0.0).then(|| size(e) / sum);

@@ -15,6 +15,24 @@ pub enum Value {
     Text(String),
 }
 
+/// Two numbers closer than this, relative to the larger, are the same value: a length written in
+/// feet on one side and in metres on the other converts to doubles a few units in the last place
+/// apart, and no schedule is written to ten significant figures.
+pub const SAME_VALUE_REL: f64 = 1e-9;
+
+/// True when two numbers are the same value within [`SAME_VALUE_REL`].
+pub fn same_number(a: f64, b: f64) -> bool {
+    a == b || (a - b).abs() <= SAME_VALUE_REL * a.abs().max(b.abs())
+}
+
+/// True when two optional values are the same (numbers within [`SAME_VALUE_REL`]).
+pub fn same(a: &Option<Value>, b: &Option<Value>) -> bool {
+    match (a, b) {
+        (Some(Value::Number(x)), Some(Value::Number(y))) => same_number(*x, *y),
+        _ => a == b,
+    }
+}
+
 /// One reported field: its JSON key (SI unit in the name), label and display unit.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Field {
@@ -63,7 +81,13 @@ pub const ELEVATION: Field = f(
     "elevation_change",
 );
 /// Line running hours.
-pub const HOURS: Field = f("hours_per_year", "Hours per year", "h", 1.0, "hours_per_year");
+pub const HOURS: Field = f(
+    "hours_per_year",
+    "Hours per year",
+    "h",
+    1.0,
+    "hours_per_year",
+);
 /// Line or system efficiency (stored as a fraction).
 pub const EFFICIENCY: Field = f("efficiency", "Efficiency", "%", 100.0, "efficiency");
 /// Line's system.
@@ -90,8 +114,6 @@ pub const BORE: Field = f(
 pub const ROUGHNESS: Field = f("roughness_m", "Roughness", "mm", 1000.0, "roughness");
 /// Run Hazen–Williams C.
 pub const C_FACTOR: Field = f("c_factor", "C factor", "", 1.0, "c_factor");
-/// Run flow (when Lines has none).
-pub const RUN_FLOW: Field = f("flow_m3_s", "Run flow", "m3/h", 3600.0, "flow");
 /// Fitting line (moved to another line).
 pub const LINE: Field = f("line", "Line", "", 1.0, "line");
 /// Fitting kind.
@@ -139,7 +161,13 @@ pub const SUCTION_LEVEL: Field = f(
     "suction_level",
 );
 /// Duty verdict of a system.
-pub const DUTY: Field = f("duty", "Pump head against required head", "", 1.0, "pump_head");
+pub const DUTY: Field = f(
+    "duty",
+    "Pump head against required head",
+    "",
+    1.0,
+    "pump_head",
+);
 /// NPSH verdict of a system.
 pub const NPSH: Field = f("npsh", "NPSH margin", "", 1.0, "npsh_required");
 
@@ -217,13 +245,17 @@ pub fn text(s: impl Into<String>) -> Option<Value> {
     (!s.is_empty()).then_some(Value::Text(s))
 }
 
-/// A size in one notation, whatever way it was written: `DN100`, `NPS 1.5`, `OD 110 mm`,
-/// `Ø114.3×6.02 mm`, `ID 102.3 mm`.
+/// A size in one notation, whatever way it was written, so `NPS 6`, `6"` and `DN150` are one
+/// size: the nominal DN (NPS converted to its DN), else `OD 110 mm`, `Ø114.3×6.02 mm`,
+/// `ID 102.3 mm`.
 pub fn size_label(size: &SizeSpec) -> String {
     let mm = |m: f64| crate::ingest::rows::format_number((m * 1e4).round() / 10.0);
     match *size {
         SizeSpec::Dn(dn) => format!("DN{dn}"),
-        SizeSpec::Nps(n) => format!("NPS {n}"),
+        SizeSpec::Nps(n) => match crate::physics::pipe::nps_to_dn(n) {
+            Some(dn) => format!("DN{dn}"),
+            None => format!("NPS {n}"),
+        },
         SizeSpec::OuterDiameter { od_m } => format!("OD {} mm", mm(od_m)),
         SizeSpec::OdWall { od_m, wall_m } => format!("Ø{}×{} mm", mm(od_m), mm(wall_m)),
         SizeSpec::InnerDiameter { id_m } => format!("ID {} mm", mm(id_m)),

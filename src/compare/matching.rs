@@ -33,6 +33,9 @@ impl FittingKey {
     }
 }
 
+/// Old (sheet, row) → new (sheet, row).
+pub type RowMap = HashMap<(String, u32), (String, u32)>;
+
 /// A pair of indices (old, new); one side is `None` when the item is only on the other.
 pub type Pair = (Option<usize>, Option<usize>);
 
@@ -50,7 +53,7 @@ pub struct Matching {
     /// Systems, indices into `Audit::systems`.
     pub systems: Vec<Pair>,
     /// Old (sheet, row) → new (sheet, row) of every matched item, to follow findings across.
-    pub rows: HashMap<(String, u32), (String, u32)>,
+    pub rows: RowMap,
 }
 
 /// How items were matched, for the report.
@@ -91,9 +94,8 @@ pub fn match_sides(old: &Audited, new: &Audited) -> Matching {
     };
     match_runs(&old.input, &new.input, &mut m);
     match_fittings(&old.input, &new.input, &mut m);
-    let systems = |a: &Audited| -> Vec<String> {
-        a.audit.systems.iter().map(|s| s.system.clone()).collect()
-    };
+    let systems =
+        |a: &Audited| -> Vec<String> { a.audit.systems.iter().map(|s| s.system.clone()).collect() };
     m.systems = pair_by_key(&systems(old), &systems(new));
     map_rows(old, new, &mut m);
     m
@@ -115,11 +117,15 @@ fn pair_by_key<K: Eq + std::hash::Hash + Clone>(old: &[K], new: &[K]) -> Vec<Pai
         }
         out.push((i, Some(j)));
     }
-    out.extend((0..old.len()).filter(|&i| !used[i]).map(|i| (Some(i), None)));
+    out.extend(
+        (0..old.len())
+            .filter(|&i| !used[i])
+            .map(|i| (Some(i), None)),
+    );
     out
 }
 
-fn by_line<'a, T>(rows: &'a [T], line: impl Fn(&T) -> &str) -> HashMap<&'a str, Vec<usize>> {
+fn by_line<T>(rows: &[T], line: impl Fn(&T) -> &str) -> HashMap<&str, Vec<usize>> {
     let mut out: HashMap<&str, Vec<usize>> = HashMap::new();
     for (i, r) in rows.iter().enumerate() {
         out.entry(line(r)).or_default().push(i);
@@ -129,7 +135,10 @@ fn by_line<'a, T>(rows: &'a [T], line: impl Fn(&T) -> &str) -> HashMap<&'a str, 
 
 /// Seq numbers of the runs when all are given and distinct, as comparable keys.
 fn seqs(pipes: &[PipeRow], idx: &[usize]) -> Option<Vec<u64>> {
-    let keys: Option<Vec<u64>> = idx.iter().map(|&i| pipes[i].seq.map(f64::to_bits)).collect();
+    let keys: Option<Vec<u64>> = idx
+        .iter()
+        .map(|&i| pipes[i].seq.map(f64::to_bits))
+        .collect();
     let keys = keys?;
     let distinct: std::collections::HashSet<&u64> = keys.iter().collect();
     (distinct.len() == keys.len()).then_some(keys)
@@ -160,7 +169,12 @@ fn match_runs(old: &Input, new: &Input, m: &mut Matching) {
         m.runs.extend(
             pairs
                 .into_iter()
-                .map(|(a, b)| (a.and_then(|a| o.get(a).copied()), b.and_then(|b| n.get(b).copied())))
+                .map(|(a, b)| {
+                    (
+                        a.and_then(|a| o.get(a).copied()),
+                        b.and_then(|b| n.get(b).copied()),
+                    )
+                })
                 .filter(|p| p.0.is_some() || p.1.is_some()),
         );
     }
@@ -183,7 +197,11 @@ fn unique_tags(fittings: &[FittingRow]) -> HashMap<&str, usize> {
 
 /// The line, kind and size of a fitting, for matching where tags fail.
 fn line_kind_size(f: &FittingRow) -> (String, &'static str, String) {
-    let size = f.size.as_ref().map(super::fields::size_label).unwrap_or_default();
+    let size = f
+        .size
+        .as_ref()
+        .map(super::fields::size_label)
+        .unwrap_or_default();
     (f.line.clone(), f.kind.id, size)
 }
 
@@ -200,7 +218,12 @@ fn match_fittings(old: &Input, new: &Input, m: &mut Matching) {
     // The rest by line, kind and size, the n-th with the n-th.
     let mut pool: HashMap<(String, &'static str, String), std::collections::VecDeque<usize>> =
         HashMap::new();
-    for (i, f) in old.fittings.iter().enumerate().filter(|(i, _)| !old_used[*i]) {
+    for (i, f) in old
+        .fittings
+        .iter()
+        .enumerate()
+        .filter(|(i, _)| !old_used[*i])
+    {
         pool.entry(line_kind_size(f)).or_default().push_back(i);
     }
     for (j, f) in new.fittings.iter().enumerate() {
@@ -229,14 +252,18 @@ fn map_rows(old: &Audited, new: &Audited, m: &mut Matching) {
     for &(o, n) in &m.lines {
         if let (Some(o), Some(n)) = (o, n) {
             let (lo, ln) = (&old.audit.lines[o], &new.audit.lines[n]);
-            if let (Some(so), Some(ro), Some(sn), Some(rn)) = (&lo.sheet, lo.row, &ln.sheet, ln.row) {
+            if let (Some(so), Some(ro), Some(sn), Some(rn)) = (&lo.sheet, lo.row, &ln.sheet, ln.row)
+            {
                 rows.insert((so.clone(), ro), (sn.clone(), rn));
             }
         }
     }
     for &(o, n) in &m.runs {
         if let (Some(o), Some(n)) = (o, n) {
-            rows.insert(key(&old.input.pipes[o].origin), key(&new.input.pipes[n].origin));
+            rows.insert(
+                key(&old.input.pipes[o].origin),
+                key(&new.input.pipes[n].origin),
+            );
         }
     }
     for &(o, n, _) in &m.fittings {
@@ -251,7 +278,11 @@ fn map_rows(old: &Audited, new: &Audited, m: &mut Matching) {
         if let (Some(o), Some(n)) = (o, n) {
             let row = |a: &Audited, i: usize| {
                 let id = &a.audit.systems[i].system;
-                a.input.systems.iter().find(|s| &s.system == id).map(|s| key(&s.origin))
+                a.input
+                    .systems
+                    .iter()
+                    .find(|s| &s.system == id)
+                    .map(|s| key(&s.origin))
             };
             if let (Some(ro), Some(rn)) = (row(old, o), row(new, n)) {
                 rows.insert(ro, rn);

@@ -108,7 +108,10 @@ impl Comparison {
     /// system figure moved.
     pub fn unchanged(&self) -> bool {
         self.changes.is_empty()
-            && self.lines.iter().all(|l| l.status == effects::Status::Unchanged)
+            && self
+                .lines
+                .iter()
+                .all(|l| l.status == effects::Status::Unchanged)
             && self
                 .systems
                 .iter()
@@ -141,9 +144,12 @@ impl Comparison {
 pub fn compare(old: &Audited, new: &Audited) -> Comparison {
     let m = matching::match_sides(old, new);
     let mut changes = changes::input_changes(old, new, &m);
-    changes.extend(effects::finding_changes(old, new, &m));
     let systems = effects::systems(old, new, &m);
     changes.extend(effects::verdict_changes(&systems, old, new));
+    changes.extend(effects::finding_changes(old, new, &m));
+    // Worst first; within a severity in the order found: input changes line by line, then
+    // system verdicts, then findings.
+    changes.sort_by_key(|c| std::cmp::Reverse(c.severity));
     let lines = effects::lines(old, new, &m, &changes);
     Comparison {
         lossledger: env!("CARGO_PKG_VERSION"),

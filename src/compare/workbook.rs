@@ -26,6 +26,7 @@ pub struct BasisNotes {
 
 /// One cell of a report row.
 enum Cell<'a> {
+    Severity(crate::error::Severity),
     Num(Option<f64>),
     Pct(Option<f64>),
     Text(&'a str),
@@ -77,6 +78,9 @@ fn write_table<T>(
                     ws.write_number_with_format(r, c16, shown(x), &st.pct)?;
                 }
                 Cell::Num(_) | Cell::Pct(_) => {}
+                Cell::Severity(sev) => {
+                    ws.write_string_with_format(r, c16, sev.label(), st.severity(sev))?;
+                }
                 Cell::Text(t) => {
                     ws.write_string(r, c16, truncate(t, MAX_CELL_CHARS))?;
                 }
@@ -120,23 +124,36 @@ struct Shown<'a> {
 
 fn change_cols<'a>() -> Vec<Col<Shown<'a>>> {
     vec![
-        col("Severity", 10.0, |s| Cell::Text(s.change.severity.label())),
+        col("Severity", 10.0, |s| Cell::Severity(s.change.severity)),
         col("Change", 18.0, |s| Cell::Text(s.change.kind.label())),
         col("Line", 12.0, |s| opt_text(&s.change.line)),
         col("Item", 22.0, |s| Cell::Text(&s.change.item)),
         col("What", 22.0, |s| {
             Cell::Text(s.change.shown.map_or("", |f| f.label))
         }),
-        col("Old", 16.0, |s| shown_value(s.change, &s.change.old, s.units)),
-        col("New", 16.0, |s| shown_value(s.change, &s.change.new, s.units)),
+        col("Old", 16.0, |s| {
+            shown_value(s.change, &s.change.old, s.units)
+        }),
+        col("New", 16.0, |s| {
+            shown_value(s.change, &s.change.new, s.units)
+        }),
         col("Unit", 9.0, |s| {
-            Cell::Owned(s.change.shown.map_or(String::new(), |f| f.unit_in(s.units).0))
+            Cell::Owned(
+                s.change
+                    .shown
+                    .map_or(String::new(), |f| f.unit_in(s.units).0),
+            )
         }),
         col("Cell (new input)", 18.0, |s| {
             Cell::Link(s.change.new_cell.as_ref(), String::new())
         }),
         col("Cell (old input)", 18.0, |s| {
-            Cell::Owned(s.change.old_cell.as_ref().map_or(String::new(), |c| c.to_string()))
+            Cell::Owned(
+                s.change
+                    .old_cell
+                    .as_ref()
+                    .map_or(String::new(), |c| c.to_string()),
+            )
         }),
         col("Note", 60.0, |s| Cell::Text(&s.change.note)),
     ]
@@ -153,13 +170,19 @@ fn change(p: &Pair) -> Cell<'static> {
 }
 
 const LINE_COLS: &[Col<LineEffect>] = &[
-    col("Line", 14.0, |l| Cell::Link(l.cell.as_ref(), l.line.clone())),
+    col("Line", 14.0, |l| {
+        Cell::Link(l.cell.as_ref(), l.line.clone())
+    }),
     col("Status", 11.0, |l| Cell::Text(l.status.label())),
     col("Total head old [m]", 13.0, |l| old(&l.total_head_m)),
     col("Total head new [m]", 13.0, |l| new(&l.total_head_m)),
     col("Total head change [m]", 13.0, |l| change(&l.total_head_m)),
-    col("Change of old total", 12.0, |l| Cell::Pct(l.total_head_m.change_ratio)),
-    col("Share of all changes", 12.0, |l| Cell::Pct(l.share_of_changes)),
+    col("Change of old total", 12.0, |l| {
+        Cell::Pct(l.total_head_m.change_ratio)
+    }),
+    col("Share of all changes", 12.0, |l| {
+        Cell::Pct(l.share_of_changes)
+    }),
     col("Friction old [m]", 12.0, |l| old(&l.friction_head_m)),
     col("Friction new [m]", 12.0, |l| new(&l.friction_head_m)),
     col("Friction change [m]", 12.0, |l| change(&l.friction_head_m)),
@@ -171,9 +194,15 @@ const LINE_COLS: &[Col<LineEffect>] = &[
     col("Annual loss cost old", 12.0, |l| old(&l.annual_cost)),
     col("Annual loss cost new", 12.0, |l| new(&l.annual_cost)),
     col("Annual loss cost change", 12.0, |l| change(&l.annual_cost)),
-    col("Input changes", 10.0, |l| Cell::Num(Some(l.input_changes as f64))),
-    col("Findings appeared", 10.0, |l| Cell::Num(Some(l.findings_appeared as f64))),
-    col("Findings gone", 10.0, |l| Cell::Num(Some(l.findings_disappeared as f64))),
+    col("Input changes", 10.0, |l| {
+        Cell::Num(Some(l.input_changes as f64))
+    }),
+    col("Findings appeared", 10.0, |l| {
+        Cell::Num(Some(l.findings_appeared as f64))
+    }),
+    col("Findings gone", 10.0, |l| {
+        Cell::Num(Some(l.findings_disappeared as f64))
+    }),
 ];
 
 fn verdict(v: Option<Verdict>) -> Cell<'static> {
@@ -181,11 +210,15 @@ fn verdict(v: Option<Verdict>) -> Cell<'static> {
 }
 
 const SYSTEM_COLS: &[Col<SystemEffect>] = &[
-    col("System", 14.0, |s| Cell::Link(s.cell.as_ref(), s.system.clone())),
+    col("System", 14.0, |s| {
+        Cell::Link(s.cell.as_ref(), s.system.clone())
+    }),
     col("Status", 11.0, |s| Cell::Text(s.status.label())),
     col("Required head old [m]", 13.0, |s| old(&s.required_head_m)),
     col("Required head new [m]", 13.0, |s| new(&s.required_head_m)),
-    col("Required head change [m]", 13.0, |s| change(&s.required_head_m)),
+    col("Required head change [m]", 13.0, |s| {
+        change(&s.required_head_m)
+    }),
     col("Pump head old [m]", 12.0, |s| old(&s.pump_head_m)),
     col("Pump head new [m]", 12.0, |s| new(&s.pump_head_m)),
     col("Margin old [m]", 12.0, |s| old(&s.margin_m)),
@@ -198,7 +231,9 @@ const SYSTEM_COLS: &[Col<SystemEffect>] = &[
     col("NPSH required new [m]", 12.0, |s| new(&s.npsh_required_m)),
     col("NPSH old", 11.0, |s| verdict(s.npsh.old)),
     col("NPSH new", 11.0, |s| verdict(s.npsh.new)),
-    col("Worse", 8.0, |s| Cell::Text(if s.worse { "yes" } else { "" })),
+    col("Worse", 8.0, |s| {
+        Cell::Text(if s.worse { "yes" } else { "" })
+    }),
 ];
 
 fn unique_name(wanted: &str, taken: &HashSet<String>) -> String {
@@ -256,7 +291,12 @@ pub fn build(c: &Comparison, new: &Input, notes: &BasisNotes) -> Result<Workbook
     }
     let mut lines = named("Line effects")?;
     write_table(&mut lines, LINE_COLS, &c.lines, &st, true)?;
-    let mut systems = named("Systems")?;
+    // The input's own Systems sheet keeps its name (the links point into it).
+    let mut systems = named(if taken.contains("systems") {
+        "System effects"
+    } else {
+        "Systems"
+    })?;
     write_table(&mut systems, SYSTEM_COLS, &c.systems, &st, true)?;
     if c.systems.is_empty() {
         systems.write_string(1, 0, "No systems on either side")?;
@@ -333,7 +373,11 @@ fn write_basis(
         rows.push((what.to_string(), how.to_string(), false));
     }
     let m = &c.matching;
-    rows.push(("Lines on both sides".into(), m.lines_matched.to_string(), false));
+    rows.push((
+        "Lines on both sides".into(),
+        m.lines_matched.to_string(),
+        false,
+    ));
     rows.push((
         "Fitting pairs matched by tag".into(),
         m.fittings_by_tag.to_string(),
@@ -361,7 +405,11 @@ fn write_basis(
         if let Some(name) = l.strip_prefix('[') {
             section = name.trim_end_matches(']').to_string();
         } else if let Some((k, v)) = l.split_once('=') {
-            rows.push((format!("{section}.{}", k.trim()), v.trim().to_string(), false));
+            rows.push((
+                format!("{section}.{}", k.trim()),
+                v.trim().to_string(),
+                false,
+            ));
         }
     }
     rows.push((String::new(), String::new(), false));
