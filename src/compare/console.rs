@@ -230,5 +230,9 @@ pub fn summary(c: &Comparison, units: UnitSystem) -> String {
         c.count(Severity::Warning),
         c.count(Severity::Info)
     ));
+    out.push_str(CAUTION_LINE);
     out
 }
+
+/// The caution under every comparison summary (the full text is in the Basis sheet and JSON).
+pub const CAUTION_LINE: &str = "Screening estimate: confirm pump, NPSH and pressure decisions against site measurement, manufacturer data, local codes and licensed engineering practice.\n";
