@@ -181,12 +181,17 @@ fn first_col(a: &At<'_>) -> u32 {
 /// then systems.
 pub fn input_changes(old: &Audited, new: &Audited, m: &Matching) -> Vec<Change> {
     let mut out = Vec::new();
-    let hints = rename_hints(old, new, m);
+    let ctx = LineCtx {
+        old,
+        new,
+        rows: (line_rows(&old.input), line_rows(&new.input)),
+        hints: rename_hints(old, new, m),
+    };
     let bores = (bores(old), bores(new));
     for &(o, n) in &m.lines {
         let lo = o.map(|i| &old.audit.lines[i]);
         let ln = n.map(|i| &new.audit.lines[i]);
-        line_changes(&mut out, old, new, lo, ln, &hints);
+        line_changes(&mut out, &ctx, lo, ln);
         if let (Some(lo), Some(_)) = (lo, ln) {
             run_changes(&mut out, (old, new), m, &lo.line, &bores);
         }
@@ -210,37 +215,32 @@ pub fn input_changes(old: &Audited, new: &Audited, m: &Matching) -> Vec<Change> 
     out
 }
 
-fn line_at<'a>(input: &'a Input, l: &'a LineResult) -> Option<At<'a>> {
-    let row = l.row.or_else(|| {
-        input
-            .pipes
-            .iter()
-            .find(|p| p.line == l.line)
-            .map(|p| p.origin.row)
-    })?;
-    let (table, sheet) = match &l.sheet {
-        Some(s) if l.row.is_some() => (TableKind::Lines, s.as_str()),
-        _ => (
-            TableKind::Pipes,
-            input
-                .pipes
-                .iter()
-                .find(|p| p.line == l.line)?
-                .origin
-                .sheet
-                .as_str(),
-        ),
+/// Where a line is written: its Lines row, else its first run's row.
+fn line_at<'a>(a: &'a Audited, l: &'a LineResult) -> Option<At<'a>> {
+    let (table, sheet, row) = match (&l.sheet, l.row) {
+        (Some(s), Some(r)) => (TableKind::Lines, s.as_str(), r),
+        _ => {
+            let run = &a.audit.runs[*l.runs.first()?];
+            (TableKind::Pipes, run.cell.sheet.as_str(), run.row)
+        }
     };
     Some(At {
-        input,
+        input: &a.input,
         table,
         sheet,
         row,
     })
 }
 
-fn line_fields(input: &Input, l: &LineResult) -> Vec<Option<Value>> {
-    let row = input.lines.iter().find(|r| r.line == l.line);
+/// Lines rows by line id.
+type LineRows<'a> = HashMap<&'a str, &'a crate::ingest::LineRow>;
+
+fn line_rows(input: &Input) -> LineRows<'_> {
+    input.lines.iter().map(|r| (r.line.as_str(), r)).collect()
+}
+
+fn line_fields(rows: &LineRows<'_>, l: &LineResult) -> Vec<Option<Value>> {
+    let row = rows.get(l.line.as_str());
     vec![
         num(Some(l.flow_m3_s)),
         text(l.service.id()),
@@ -264,14 +264,21 @@ const LINE_FIELDS: [Field; 8] = [
     fd::SYSTEM,
 ];
 
+/// What the line changes need from both sides.
+struct LineCtx<'a> {
+    old: &'a Audited,
+    new: &'a Audited,
+    rows: (LineRows<'a>, LineRows<'a>),
+    hints: HashMap<String, String>,
+}
+
 fn line_changes(
     out: &mut Vec<Change>,
-    old: &Audited,
-    new: &Audited,
+    ctx: &LineCtx<'_>,
     lo: Option<&LineResult>,
     ln: Option<&LineResult>,
-    hints: &std::collections::HashMap<String, String>,
 ) {
+    let (old, new, hints) = (ctx.old, ctx.new, &ctx.hints);
     let (kind, l) = match (lo, ln) {
         (Some(_), Some(l)) => (ChangeKind::LineChanged, l),
         (None, Some(l)) => (ChangeKind::LineAdded, l),
@@ -282,8 +289,8 @@ fn line_changes(
         kind,
         line: Some(l.line.clone()),
         item: "line".into(),
-        old: lo.and_then(|l| line_at(&old.input, l)),
-        new: ln.and_then(|l| line_at(&new.input, l)),
+        old: lo.and_then(|l| line_at(old, l)),
+        new: ln.and_then(|l| line_at(new, l)),
         note: String::new(),
     };
     if kind != ChangeKind::LineChanged {
@@ -301,9 +308,9 @@ fn line_changes(
     let pairs = LINE_FIELDS
         .into_iter()
         .zip(
-            line_fields(&old.input, lo)
+            line_fields(&ctx.rows.0, lo)
                 .into_iter()
-                .zip(line_fields(&new.input, ln)),
+                .zip(line_fields(&ctx.rows.1, ln)),
         )
         .map(|(f, (a, b))| (f, a, b))
         .collect();
@@ -372,14 +379,11 @@ fn run_changes(
     } else {
         "runs matched by Seq".to_string()
     };
-    let mut position = 0;
-    for &(o, n) in &m.runs {
+    let range = m.runs_of_line.get(line).cloned().unwrap_or_default();
+    for (k, &(o, n)) in m.runs[range].iter().enumerate() {
         let po = o.map(|i| &old.input.pipes[i]);
         let pn = n.map(|i| &new.input.pipes[i]);
-        if po.or(pn).is_none_or(|p| p.line != line) {
-            continue;
-        }
-        position += 1;
+        let position = k + 1;
         let kind = match (po, pn) {
             (Some(_), Some(_)) => ChangeKind::RunChanged,
             (None, Some(_)) => ChangeKind::RunAdded,
@@ -565,60 +569,78 @@ fn system_changes(
     }
 }
 
-/// A line's runs and fittings as comparable text, to spot a renamed line.
-fn signature(input: &Input, line: &str) -> Option<String> {
-    let mut runs: Vec<String> = input
+/// The runs and fittings of the given lines as comparable text, to spot a renamed line (one
+/// pass over the input); lines without runs have none.
+fn signatures(input: &Input, lines: &std::collections::HashSet<&str>) -> HashMap<String, String> {
+    let mut parts: HashMap<&str, (Vec<String>, Vec<String>)> = HashMap::new();
+    for p in input
         .pipes
         .iter()
-        .filter(|p| p.line == line)
-        .map(|p| format!("{:?}", run_fields(p)))
-        .collect();
-    if runs.is_empty() {
-        return None;
+        .filter(|p| lines.contains(p.line.as_str()))
+    {
+        let e = parts.entry(p.line.as_str()).or_default();
+        e.0.push(format!("{:?}", run_fields(p)));
     }
-    let mut fittings: Vec<String> = input
+    for f in input
         .fittings
         .iter()
-        .filter(|f| f.line == line)
-        .map(|f| format!("{:?}", &fitting_fields(f)[1..]))
-        .collect();
-    runs.sort();
-    fittings.sort();
-    Some(format!("{runs:?}|{fittings:?}"))
+        .filter(|f| lines.contains(f.line.as_str()))
+    {
+        if let Some(e) = parts.get_mut(f.line.as_str()) {
+            e.1.push(format!("{:?}", &fitting_fields(f)[1..]));
+        }
+    }
+    parts
+        .into_iter()
+        .map(|(line, (mut runs, mut fittings))| {
+            runs.sort();
+            fittings.sort();
+            (line.to_string(), format!("{runs:?}|{fittings:?}"))
+        })
+        .collect()
 }
 
 /// Hints for removed and added lines whose runs and fittings match: line id → hint.
-fn rename_hints(
-    old: &Audited,
-    new: &Audited,
-    m: &Matching,
-) -> std::collections::HashMap<String, String> {
-    let mut out = std::collections::HashMap::new();
-    let removed: Vec<(String, String)> = m
-        .lines
-        .iter()
-        .filter_map(|&(o, n)| o.filter(|_| n.is_none()))
-        .filter_map(|i| {
-            let id = &old.audit.lines[i].line;
-            signature(&old.input, id).map(|s| (id.clone(), s))
-        })
+fn rename_hints(old: &Audited, new: &Audited, m: &Matching) -> HashMap<String, String> {
+    let only = |a: &Audited, pick: fn(&(Option<usize>, Option<usize>)) -> Option<usize>| {
+        let ids: std::collections::HashSet<String> = m
+            .lines
+            .iter()
+            .filter(|p| p.0.is_none() || p.1.is_none())
+            .filter_map(pick)
+            .map(|i| a.audit.lines[i].line.clone())
+            .collect();
+        ids
+    };
+    let removed_ids = only(old, |p| p.0.filter(|_| p.1.is_none()));
+    let added_ids = only(new, |p| p.1.filter(|_| p.0.is_none()));
+    let mut out = HashMap::new();
+    if removed_ids.is_empty() || added_ids.is_empty() {
+        return out;
+    }
+    fn as_str(ids: &std::collections::HashSet<String>) -> std::collections::HashSet<&str> {
+        ids.iter().map(String::as_str).collect()
+    }
+    let removed: HashMap<String, String> = signatures(&old.input, &as_str(&removed_ids))
+        .into_iter()
+        .map(|(id, sig)| (sig, id))
         .collect();
+    let added = signatures(&new.input, &as_str(&added_ids));
+    // In the new side's order, so the hints do not depend on hashing.
     for &(o, n) in &m.lines {
         let (None, Some(j)) = (o, n) else { continue };
         let id = &new.audit.lines[j].line;
-        let Some(sig) = signature(&new.input, id) else {
+        let Some(was) = added.get(id).and_then(|sig| removed.get(sig)) else {
             continue;
         };
-        if let Some((was, _)) = removed.iter().find(|(_, s)| *s == sig) {
-            out.insert(
-                id.clone(),
-                format!("runs and fittings match removed line {was}: renamed?"),
-            );
-            out.insert(
-                was.clone(),
-                format!("runs and fittings match added line {id}: renamed?"),
-            );
-        }
+        out.insert(
+            id.clone(),
+            format!("runs and fittings match removed line {was}: renamed?"),
+        );
+        out.insert(
+            was.clone(),
+            format!("runs and fittings match added line {id}: renamed?"),
+        );
     }
     out
 }

@@ -408,8 +408,28 @@ fn line_cell(a: &Audited, i: usize) -> Option<CellRef> {
     }
 }
 
+/// Per line: input changes (the line, its runs and fittings), findings appeared, disappeared.
+fn per_line(changes: &[Change]) -> HashMap<&str, [usize; 3]> {
+    use ChangeKind::*;
+    let mut out: HashMap<&str, [usize; 3]> = HashMap::new();
+    for c in changes {
+        let slot = match c.kind {
+            LineChanged | RunAdded | RunRemoved | RunChanged | FittingAdded | FittingRemoved
+            | FittingChanged => 0,
+            FindingAppeared => 1,
+            FindingDisappeared => 2,
+            _ => continue,
+        };
+        if let Some(line) = c.line.as_deref() {
+            out.entry(line).or_default()[slot] += 1;
+        }
+    }
+    out
+}
+
 /// Every line of either side, largest total-head change first (ties in the new side's order).
 pub fn lines(old: &Audited, new: &Audited, m: &Matching, changes: &[Change]) -> Vec<LineEffect> {
+    let counts = per_line(changes);
     let mut out: Vec<LineEffect> = m
         .lines
         .iter()
@@ -420,24 +440,8 @@ pub fn lines(old: &Audited, new: &Audited, m: &Matching, changes: &[Change]) -> 
             let pair = |f: fn(&crate::audit::LineResult) -> Option<f64>| {
                 Pair::of(lo.and_then(f), ln.and_then(f))
             };
-            let count = |k: &[ChangeKind]| {
-                changes
-                    .iter()
-                    .filter(|c| c.line.as_deref() == Some(&id) && k.contains(&c.kind))
-                    .count()
-            };
-            use ChangeKind::*;
-            let input_changes = count(&[
-                LineChanged,
-                RunAdded,
-                RunRemoved,
-                RunChanged,
-                FittingAdded,
-                FittingRemoved,
-                FittingChanged,
-            ]);
-            let findings_appeared = count(&[FindingAppeared]);
-            let findings_disappeared = count(&[FindingDisappeared]);
+            let [input_changes, findings_appeared, findings_disappeared] =
+                counts.get(id.as_str()).copied().unwrap_or_default();
             let e = LineEffect {
                 friction_head_m: pair(|l| Some(l.friction_head_m)),
                 fittings_head_m: pair(|l| Some(l.fittings_head_m)),

@@ -46,6 +46,8 @@ pub struct Matching {
     pub lines: Vec<Pair>,
     /// Pipe runs of lines on both sides, indices into `Input::pipes`.
     pub runs: Vec<Pair>,
+    /// Where each line's pairs sit in `runs`.
+    pub runs_of_line: HashMap<String, std::ops::Range<usize>>,
     /// Lines on both sides whose runs were matched by position.
     pub runs_by_position: Vec<String>,
     /// Fittings, indices into `Input::fittings`, with how they were matched (`None`: unmatched).
@@ -166,6 +168,7 @@ fn match_runs(old: &Input, new: &Input, m: &mut Matching) {
             }
         };
         // Positions to row indices (a position past either end is an added or removed run).
+        let start = m.runs.len();
         m.runs.extend(
             pairs
                 .into_iter()
@@ -177,6 +180,7 @@ fn match_runs(old: &Input, new: &Input, m: &mut Matching) {
                 })
                 .filter(|p| p.0.is_some() || p.1.is_some()),
         );
+        m.runs_of_line.insert(line.to_string(), start..m.runs.len());
     }
 }
 
