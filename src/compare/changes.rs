@@ -602,7 +602,7 @@ fn signatures(input: &Input, lines: &std::collections::HashSet<&str>) -> HashMap
 
 /// Hints for removed and added lines whose runs and fittings match: line id → hint.
 fn rename_hints(old: &Audited, new: &Audited, m: &Matching) -> HashMap<String, String> {
-    let only = |a: &Audited, pick: fn(&(Option<usize>, Option<usize>)) -> Option<usize>| {
+    let only = |a: &Audited, pick: fn(&super::matching::Pair) -> Option<usize>| {
         let ids: std::collections::HashSet<String> = m
             .lines
             .iter()
