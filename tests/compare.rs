@@ -807,3 +807,63 @@ fn worse_changes_come_first() {
     assert_eq!(sev, sorted);
     assert_eq!(c.changes[0].kind, ChangeKind::VerdictChanged);
 }
+
+// NPSH margin rule (lossledger rules, common practice): NPSHa must reach
+// max(1.1 × NPSHr, NPSHr + 0.6 m). At 20 °C with 2 m of submergence NPSHa is about 12 m
+// (standard atmosphere 101.325 kPa, vapour pressure 2.34 kPa: IAPWS-IF97), so an NPSHr of 3 m
+// holds and one of 12 m fails.
+#[test]
+fn an_npsh_required_raise_flips_the_npsh_verdict_as_an_error() {
+    let headers: &[&str] = &[
+        "System",
+        "Lines",
+        "Static head [m]",
+        "Pump head [m]",
+        "NPSH required [m]",
+        "Suction level [m]",
+    ];
+    let rev = |name: &str, npshr: f64| {
+        let r = rev_a();
+        let systems = vec![vec![
+            C::S("Booster"),
+            C::S("S1, D1"),
+            C::N(12.0),
+            C::N(30.0),
+            C::N(npshr),
+            C::N(2.0),
+        ]];
+        side(&book(
+            name,
+            &[
+                ("Lines", LINES_H, r.lines),
+                ("Pipes", PIPES_H, r.pipes),
+                ("Fittings", FITTINGS_H, r.fittings),
+                ("Systems", headers, systems),
+            ],
+        ))
+    };
+    let (old, new) = (rev("npsh-a", 3.0), rev("npsh-b", 12.0));
+    let c = compare::compare(&old, &new);
+    let s = &c.systems[0];
+    assert_eq!(
+        (s.npsh.old, s.npsh.new),
+        (Some(Verdict::Holds), Some(Verdict::Fails))
+    );
+    assert_eq!(
+        (s.duty.old, s.duty.new),
+        (Some(Verdict::Holds), Some(Verdict::Holds))
+    );
+    let a = s.npsh_available_m.new.unwrap();
+    assert!((11.0..13.0).contains(&a), "NPSHa {a}");
+    assert_eq!(s.npsh_available_m.old, s.npsh_available_m.new);
+    let flip = of_kind(&c, ChangeKind::VerdictChanged);
+    assert_eq!(flip.len(), 1, "{:?}", c.changes);
+    assert_eq!(
+        (flip[0].field, flip[0].severity),
+        (Some("npsh"), Severity::Error)
+    );
+    assert_eq!(flip[0].new_cell.as_ref().unwrap().to_string(), "Systems!E2");
+    let input = of_kind(&c, ChangeKind::SystemChanged);
+    assert_eq!(input.len(), 1);
+    assert_eq!((num(&input[0].old), num(&input[0].new)), (3.0, 12.0));
+}

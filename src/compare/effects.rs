@@ -498,3 +498,37 @@ pub fn energy_totals(old: &Audited, new: &Audited) -> super::EnergyTotals {
         ),
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::{Pair, Verdict, Verdicts, worse};
+    use crate::error::Severity;
+
+    #[test]
+    fn an_added_figure_changes_by_its_whole_value() {
+        let p = Pair::of(None, Some(2.5));
+        assert_eq!((p.change, p.change_ratio), (Some(2.5), None));
+        let q = Pair::of(Some(2.0), Some(2.5));
+        assert_eq!((q.change, q.change_ratio), (Some(0.5), Some(0.25)));
+        assert_eq!(Pair::of(None, None).change, None);
+    }
+
+    #[test]
+    fn only_verdicts_that_get_worse_have_a_severity() {
+        use Verdict::*;
+        let v = |old, new| Verdicts { old, new };
+        assert_eq!(worse(v(Some(Holds), Some(Fails))), Some(Severity::Error));
+        assert_eq!(
+            worse(v(Some(NotChecked), Some(Fails))),
+            Some(Severity::Error)
+        );
+        assert_eq!(worse(v(None, Some(Fails))), Some(Severity::Error));
+        assert_eq!(
+            worse(v(Some(Holds), Some(NotChecked))),
+            Some(Severity::Warning)
+        );
+        assert_eq!(worse(v(Some(Fails), Some(Holds))), None);
+        assert_eq!(worse(v(Some(Fails), Some(Fails))), None);
+        assert_eq!(worse(v(Some(Holds), None)), None);
+    }
+}

@@ -295,3 +295,23 @@ fn map_rows(old: &Audited, new: &Audited, m: &mut Matching) {
     }
     m.rows = rows;
 }
+
+#[cfg(test)]
+mod tests {
+    use super::pair_by_key;
+
+    #[test]
+    fn pairs_follow_the_new_order_then_the_old_only_items() {
+        let old = ["a", "b", "c"];
+        let new = ["c", "d", "a"];
+        assert_eq!(
+            pair_by_key(&old, &new),
+            vec![
+                (Some(2), Some(0)),
+                (None, Some(1)),
+                (Some(0), Some(2)),
+                (Some(1), None)
+            ]
+        );
+    }
+}
