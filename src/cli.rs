@@ -611,7 +611,13 @@ fn compare(args: &CompareArgs) -> u8 {
         }
     } else {
         print!("{summary}");
-        println!("Wrote {}", out.display());
+        print!(
+            "{}",
+            report::console::fitted_text(
+                &format!("Wrote {}", out.display()),
+                report::text_table::console_width(),
+            )
+        );
     }
     let threshold = match args.fail_on {
         None => return 0,

@@ -20,14 +20,16 @@ const G: f64 = 9.80665;
 const FORMULA_TOL: f64 = 1e-9;
 
 const LINES_H: &[&str] = &["Line", "Service", "Flow [m3/h]", "Temperature [°C]"];
+// Size last, so the other columns keep their letters; the bore given overrides the size's bore.
 const PIPES_H: &[&str] = &[
     "Line",
     "Seq",
     "Inner diameter [mm]",
     "Length [m]",
     "C factor",
+    "Size",
 ];
-const FITTINGS_H: &[&str] = &["Tag", "Line", "Item", "K"];
+const FITTINGS_H: &[&str] = &["Tag", "Line", "Item", "K", "Size"];
 const SYSTEMS_H: &[&str] = &["System", "Lines", "Static head [m]", "Pump head [m]"];
 
 /// One invented revision: rows of each sheet (headers above).
@@ -49,19 +51,25 @@ fn rev_a() -> Rev {
             vec![S("G1"), S("general"), N(30.0), N(20.0)],
         ],
         pipes: vec![
-            vec![S("S1"), N(1.0), N(200.0), N(10.0), N(120.0)],
-            vec![S("D1"), N(1.0), N(150.0), N(200.0), N(120.0)],
-            vec![S("D1"), N(2.0), N(150.0), N(50.0), N(120.0)],
-            vec![S("G1"), N(1.0), N(80.0), N(40.0), N(120.0)],
+            vec![S("S1"), N(1.0), N(200.0), N(10.0), N(120.0), S("DN200")],
+            vec![S("D1"), N(1.0), N(150.0), N(200.0), N(120.0), S("DN150")],
+            vec![S("D1"), N(2.0), N(150.0), N(50.0), N(120.0), S("DN150")],
+            vec![S("G1"), N(1.0), N(80.0), N(40.0), N(120.0), S("DN80")],
         ],
         fittings: vec![
-            vec![S("S1-V"), S("S1"), S("gate valve"), N(0.5)],
-            vec![S("D1-V"), S("D1"), S("gate valve"), N(0.2)],
-            vec![S("D1-E"), S("D1"), S("90 elbow"), N(0.9)],
-            vec![S("G1-E"), S("G1"), S("90 elbow"), N(0.9)],
+            vec![S("S1-V"), S("S1"), S("gate valve"), N(0.5), S("DN200")],
+            vec![S("D1-V"), S("D1"), S("gate valve"), N(0.2), S("DN150")],
+            vec![S("D1-E"), S("D1"), S("90 elbow"), N(0.9), S("DN150")],
+            vec![S("G1-E"), S("G1"), S("90 elbow"), N(0.9), S("DN80")],
         ],
         systems: vec![vec![S("Booster"), S("S1, D1"), N(12.0), N(30.0)]],
     }
+}
+
+/// Give a run another bore and its nominal size.
+fn resize(run: &mut [C], bore_mm: f64, size: &'static str) {
+    run[2] = C::N(bore_mm);
+    run[5] = C::S(size);
 }
 
 fn write(name: &str, r: Rev) -> PathBuf {
@@ -72,9 +80,13 @@ fn write(name: &str, r: Rev) -> PathBuf {
             ("Pipes", PIPES_H, r.pipes),
             ("Fittings", FITTINGS_H, r.fittings),
             ("Systems", SYSTEMS_H, r.systems),
+            ("Notes", &[INVENTED], vec![]),
         ],
     )
 }
+
+/// The mark that labels these revisions' outputs as invented (`report::invented`).
+const INVENTED: &str = "INVENTED DATA: a booster set made up for the compare tests";
 
 fn side(path: &Path) -> Audited {
     let sources = [InputSource::Path(path.to_path_buf())];
@@ -126,13 +138,21 @@ fn os<P: AsRef<std::ffi::OsStr> + ?Sized>(p: &P) -> &std::ffi::OsStr {
 // texts, from memory), so at the same flow a run's head scales as (D_old/D_new)^4.8704.
 #[test]
 fn a_size_change_on_one_run_changes_head_by_the_two_audits_difference() {
-    let (old, new, c) = pair("size", |b| b.pipes[2][2] = C::N(125.0));
+    let (old, new, c) = pair("size", |b| resize(&mut b.pipes[2], 125.0, "DN125"));
     let runs = of_kind(&c, ChangeKind::RunChanged);
-    assert_eq!(runs.len(), 1, "{:?}", c.changes);
-    let r = runs[0];
+    let fields: Vec<_> = runs.iter().map(|r| r.field).collect();
+    assert_eq!(
+        fields,
+        [Some("size"), Some("inner_diameter_m")],
+        "{:?}",
+        c.changes
+    );
+    assert_eq!(runs[0].old, Some(Value::Text("DN150".into())));
+    assert_eq!(runs[0].new, Some(Value::Text("DN125".into())));
+    assert_eq!(runs[0].new_cell.as_ref().unwrap().to_string(), "Pipes!F4");
+    let r = runs[1];
     assert_eq!(r.line.as_deref(), Some("D1"));
     assert_eq!(r.item, "run 2");
-    assert_eq!(r.field, Some("inner_diameter_m"));
     assert_eq!((num(&r.old), num(&r.new)), (0.150, 0.125));
     assert_eq!(r.new_cell.as_ref().unwrap().to_string(), "Pipes!C4");
     let e = effect(&c, "D1");
@@ -181,6 +201,7 @@ fn a_fitting_added_and_one_removed_are_listed_and_priced_by_velocity_head() {
             C::S("D1"),
             C::S("swing check valve"),
             C::N(2.0),
+            C::S("DN150"),
         ]);
     });
     let removed = of_kind(&c, ChangeKind::FittingRemoved);
@@ -239,7 +260,14 @@ fn a_flow_change_is_a_line_change_and_scales_friction_by_the_flow_exponent() {
 fn a_line_removed_and_another_added() {
     let (old, new, c) = pair("addremove", |b| {
         b.lines[2] = vec![C::S("G2"), C::S("general"), C::N(20.0), C::N(20.0)];
-        b.pipes[3] = vec![C::S("G2"), C::N(1.0), C::N(65.0), C::N(12.0), C::N(130.0)];
+        b.pipes[3] = vec![
+            C::S("G2"),
+            C::N(1.0),
+            C::N(65.0),
+            C::N(12.0),
+            C::N(130.0),
+            C::S("DN65"),
+        ];
         b.fittings.pop();
     });
     let removed = of_kind(&c, ChangeKind::LineRemoved);
@@ -384,6 +412,7 @@ fn binary_same_input_twice_prints_no_changes_and_exits_0() {
         String::from_utf8_lossy(&out.stderr)
     );
     assert!(stdout.contains("No changes"), "{stdout}");
+    assert!(stdout.contains("INVENTED DATA"), "{stdout}");
     assert!(dir_of(&a).join("bin-same.compare.xlsx").exists());
 }
 
@@ -395,7 +424,7 @@ fn json_of(p: &Path) -> serde_json::Value {
 fn json_numbers_equal_the_difference_of_the_two_audit_jsons_exactly() {
     let a = write("json-a", rev_a());
     let mut rb = rev_a();
-    rb.pipes[2][2] = C::N(125.0);
+    resize(&mut rb.pipes[2], 125.0, "DN125");
     rb.lines[2][2] = C::N(45.0);
     rb.systems[0][3] = C::N(24.0);
     let b = write("json-b", rb);
@@ -469,6 +498,8 @@ fn json_numbers_equal_the_difference_of_the_two_audit_jsons_exactly() {
     );
     assert_eq!(jc["new"]["sha256"], jb["input"]["sha256"]);
     assert_eq!(jc["old"]["sha256"], ja["input"]["sha256"]);
+    let note = jc["invented_data_note"].as_str().unwrap();
+    assert!(note.starts_with("old side: INVENTED DATA"), "{note}");
 }
 
 #[test]
@@ -476,7 +507,7 @@ fn flag_output_writes_the_workbook_where_asked_with_its_sheets_and_links() {
     use calamine::{Data, Reader, Xlsx, open_workbook};
     let a = write("out-a", rev_a());
     let mut rb = rev_a();
-    rb.pipes[2][2] = C::N(125.0);
+    resize(&mut rb.pipes[2], 125.0, "DN125");
     let b = write("out-b", rb);
     let target = dir_of(&b).join("elsewhere.xlsx");
     let out = run(&[os(&a), os(&b), os("-o"), os(&target)]);
@@ -499,12 +530,17 @@ fn flag_output_writes_the_workbook_where_asked_with_its_sheets_and_links() {
         "Pipes",
         "Fittings",
         "Systems",
+        "Notes",
     ];
     assert_eq!(names, expected.map(String::from).to_vec());
     let changes = wb.worksheet_range("Changes").unwrap();
     let row = (1..changes.height() as u32)
-        .find(|&r| changes.get_value((r, 1)) == Some(&Data::String("run changed".into())))
-        .expect("a run-changed row");
+        .find(|&r| changes.get_value((r, 4)) == Some(&Data::String("Inner diameter".into())))
+        .expect("a row for the changed bore");
+    assert_eq!(
+        changes.get_value((row, 1)),
+        Some(&Data::String("run changed".into()))
+    );
     assert_eq!(
         changes.get_value((row, 8)),
         Some(&Data::String("Pipes!C4".into()))
@@ -563,7 +599,7 @@ fn flag_fail_on_warning_exits_1_on_a_new_warning_finding() {
     // 100 mm bore at 144 m3/h runs at about 5.1 m/s, a velocity-high warning.
     let a = write("failwarn-a", rev_a());
     let mut rb = rev_a();
-    rb.pipes[2][2] = C::N(100.0);
+    resize(&mut rb.pipes[2], 100.0, "DN100");
     let b = write("failwarn-b", rb);
     assert_eq!(
         run(&[os(&a), os(&b), os("--fail-on"), os("warning")])
@@ -683,7 +719,7 @@ fn flag_units_us_reports_heads_in_feet() {
     use calamine::{Data, Reader, Xlsx, open_workbook};
     let a = write("units-a", rev_a());
     let mut rb = rev_a();
-    rb.pipes[2][2] = C::N(125.0);
+    resize(&mut rb.pipes[2], 125.0, "DN125");
     let b = write("units-b", rb);
     let o = dir_of(&b).join("us.xlsx");
     let out = run(&[os(&a), os(&b), os("--units"), os("us"), os("-o"), os(&o)]);

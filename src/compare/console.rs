@@ -1,36 +1,15 @@
-//! Console summary of a comparison: counts, the lines with the largest head change, the systems.
-//!
-//! Each table is built as plain header and rows of text and rendered by [`render`] in one place,
-//! so the comparison can take up a shared table layout without touching the rows.
-
-use comfy_table::{Table, presets::UTF8_FULL_CONDENSED};
+//! Console summary of a comparison: counts, the lines with the largest head change, the systems,
+//! the changes that make things worse. Tables use the console's layout
+//! ([`crate::report::text_table`]), fitted to the terminal's width.
 
 use super::effects::{Pair, Status, Verdicts};
 use super::{Comparison, fields};
 use crate::error::Severity;
-use crate::report::console::UnitSystem;
+use crate::report::console::{UnitSystem, fitted_text};
+use crate::report::text_table::{Align, TextTable, console_width};
 
 /// Lines listed on the console at most (the largest total-head changes).
 pub const CONSOLE_LINES: usize = 10;
-
-/// A table as header and rows of text.
-pub struct TextTable {
-    /// Column headers.
-    pub header: Vec<String>,
-    /// Rows, each as long as the header.
-    pub rows: Vec<Vec<String>>,
-}
-
-/// Render a table for the terminal.
-pub fn render(t: &TextTable) -> String {
-    let mut out = Table::new();
-    out.load_style(UTF8_FULL_CONDENSED);
-    out.set_header(t.header.clone());
-    for r in &t.rows {
-        out.add_row(r.clone());
-    }
-    format!("{out}\n")
-}
 
 fn head_unit(units: UnitSystem) -> (String, f64) {
     fields::LENGTH.unit_in(units)
@@ -61,8 +40,19 @@ fn verdicts(v: &Verdicts) -> String {
     }
 }
 
+/// A table from headers with their alignment and rows of text.
+fn table(columns: &[(String, Align)], rows: Vec<Vec<String>>) -> TextTable {
+    let cols: Vec<(&str, Align)> = columns.iter().map(|(h, a)| (h.as_str(), *a)).collect();
+    let mut t = TextTable::new(&cols);
+    for r in rows {
+        t.row(r);
+    }
+    t
+}
+
 /// The lines with the largest total-head change (changed, added and removed lines only).
 pub fn lines_table(c: &Comparison, units: UnitSystem) -> TextTable {
+    use Align::{Left, Right};
     let (m, fm) = head_unit(units);
     let (v, fv) = fields::Field {
         unit: "m/s",
@@ -90,48 +80,50 @@ pub fn lines_table(c: &Comparison, units: UnitSystem) -> TextTable {
             ]
         })
         .collect();
-    TextTable {
-        header: vec![
-            "Line".into(),
-            "Status".into(),
-            format!("Total head [{m}]"),
-            format!("Change [{m}]"),
-            "Change".into(),
-            "Share".into(),
-            format!("Max v [{v}]"),
-            "Input changes".into(),
+    table(
+        &[
+            ("Line".into(), Left),
+            ("Status".into(), Left),
+            (format!("Total head [{m}]"), Right),
+            (format!("Change [{m}]"), Right),
+            ("Change".into(), Right),
+            ("Share".into(), Right),
+            (format!("Max v [{v}]"), Right),
+            ("Input changes".into(), Right),
         ],
         rows,
-    }
+    )
 }
 
 /// Every system: required head and margin old → new, the verdicts.
 pub fn systems_table(c: &Comparison, units: UnitSystem) -> TextTable {
+    use Align::{Left, Right};
     let (m, fm) = head_unit(units);
-    TextTable {
-        header: vec![
-            "System".into(),
-            format!("Required head [{m}]"),
-            format!("Pump head [{m}]"),
-            format!("Margin [{m}]"),
-            "Duty".into(),
-            "NPSH".into(),
+    let rows = c
+        .systems
+        .iter()
+        .map(|s| {
+            vec![
+                s.system.clone(),
+                arrow(&s.required_head_m, fm, 3),
+                arrow(&s.pump_head_m, fm, 3),
+                arrow(&s.margin_m, fm, 3),
+                verdicts(&s.duty),
+                verdicts(&s.npsh),
+            ]
+        })
+        .collect();
+    table(
+        &[
+            ("System".into(), Left),
+            (format!("Required head [{m}]"), Right),
+            (format!("Pump head [{m}]"), Right),
+            (format!("Margin [{m}]"), Right),
+            ("Duty".into(), Left),
+            ("NPSH".into(), Left),
         ],
-        rows: c
-            .systems
-            .iter()
-            .map(|s| {
-                vec![
-                    s.system.clone(),
-                    arrow(&s.required_head_m, fm, 3),
-                    arrow(&s.pump_head_m, fm, 3),
-                    arrow(&s.margin_m, fm, 3),
-                    verdicts(&s.duty),
-                    verdicts(&s.npsh),
-                ]
-            })
-            .collect(),
-    }
+        rows,
+    )
 }
 
 /// Changes listed on the console at most (warnings and errors only).
@@ -139,100 +131,119 @@ pub const CONSOLE_CHANGES: usize = 10;
 
 /// The changes at warning or error: verdicts that got worse, findings that appeared.
 pub fn worse_table(c: &Comparison, units: UnitSystem) -> TextTable {
+    use Align::Left;
     let show = |ch: &super::Change, v: &Option<super::Value>| match (v, ch.shown) {
         (None, _) => "—".to_string(),
         (Some(v), Some(f)) => f.show(v, units),
         (Some(v), None) => fields::LINE.show(v, units),
     };
-    TextTable {
-        header: vec![
-            "Severity".into(),
-            "Change".into(),
-            "Item".into(),
-            "Cell".into(),
-            "Old → new".into(),
+    let rows = c
+        .changes
+        .iter()
+        .filter(|ch| ch.severity >= Severity::Warning)
+        .take(CONSOLE_CHANGES)
+        .map(|ch| {
+            let cell = ch.new_cell.as_ref().or(ch.old_cell.as_ref());
+            let item = match &ch.line {
+                Some(l) => format!("{l}: {}", ch.item),
+                None => ch.item.clone(),
+            };
+            let values = match ch.kind {
+                super::ChangeKind::FindingAppeared => "appeared".to_string(),
+                _ => format!("{} → {}", show(ch, &ch.old), show(ch, &ch.new)),
+            };
+            vec![
+                ch.severity.label().to_string(),
+                ch.kind.label().to_string(),
+                item,
+                cell.map_or(String::new(), |c| c.to_string()),
+                values,
+            ]
+        })
+        .collect();
+    table(
+        &[
+            ("Severity".into(), Left),
+            ("Change".into(), Left),
+            ("Item".into(), Left),
+            ("Cell".into(), Left),
+            ("Old → new".into(), Left),
         ],
-        rows: c
-            .changes
-            .iter()
-            .filter(|ch| ch.severity >= Severity::Warning)
-            .take(CONSOLE_CHANGES)
-            .map(|ch| {
-                let cell = ch.new_cell.as_ref().or(ch.old_cell.as_ref());
-                let mut item = ch.item.clone();
-                if let Some(l) = &ch.line {
-                    item = format!("{l}: {item}");
-                }
-                let values = match ch.kind {
-                    super::ChangeKind::FindingAppeared => "appeared".to_string(),
-                    _ => format!("{} → {}", show(ch, &ch.old), show(ch, &ch.new)),
-                };
-                vec![
-                    ch.severity.label().to_string(),
-                    ch.kind.label().to_string(),
-                    item,
-                    cell.map_or(String::new(), |c| c.to_string()),
-                    values,
-                ]
-            })
-            .collect(),
-    }
+        rows,
+    )
+    .keyed_by(2)
 }
 
-/// The whole console summary.
+/// The whole console summary, fitted to the terminal's width.
 pub fn summary(c: &Comparison, units: UnitSystem) -> String {
-    let mut out = format!("Compared {} (old) with {} (new)\n", c.old.file, c.new.file);
+    summary_fitted(c, units, console_width())
+}
+
+/// The console summary with no line wider than `width` (`None`: tables at their natural width).
+pub fn summary_fitted(c: &Comparison, units: UnitSystem, width: Option<usize>) -> String {
+    let text = |t: &str| fitted_text(t, width);
+    let mut out = text(&format!(
+        "Compared {} (old) with {} (new)",
+        c.old.file, c.new.file
+    ));
+    if let Some(note) = &c.invented_data_note {
+        out.push_str(&text(note));
+    }
     if c.unchanged() {
-        out.push_str("No changes: the same lines, runs, fittings, findings and system results.\n");
+        out.push_str(&text(
+            "No changes: the same lines, runs, fittings, findings and system results.",
+        ));
         return out;
     }
     let lines = lines_table(c, units);
-    if !lines.rows.is_empty() {
-        out.push_str(&render(&lines));
+    if !lines.is_empty() {
+        out.push_str(&lines.render(width));
+        out.push('\n');
         let moved = c
             .lines
             .iter()
             .filter(|l| l.status != Status::Unchanged)
             .count();
-        if moved > lines.rows.len() {
-            out.push_str(&format!(
-                "The {} of {moved} changed lines with the largest head change; all are in the Line effects sheet.\n",
-                lines.rows.len()
-            ));
+        if moved > CONSOLE_LINES {
+            out.push_str(&text(&format!(
+                "The {CONSOLE_LINES} of {moved} changed lines with the largest head change; all are in the Line effects sheet."
+            )));
         }
     }
     if !c.systems.is_empty() {
-        out.push_str(&render(&systems_table(c, units)));
+        out.push_str(&systems_table(c, units).render(width));
+        out.push('\n');
     }
     let worse = worse_table(c, units);
-    if !worse.rows.is_empty() {
-        out.push_str(&render(&worse));
+    if !worse.is_empty() {
+        out.push_str(&worse.render(width));
+        out.push('\n');
     }
     let cost = &c.energy.annual_cost;
     if cost.moved() {
-        out.push_str(&format!(
-            "Annual loss cost: {} → {} {} ({})\n",
+        out.push_str(&text(&format!(
+            "Annual loss cost: {} → {} {} ({})",
             fig(cost.old, 1.0, 0),
             fig(cost.new, 1.0, 0),
             c.energy.currency,
             signed(cost.change, 1.0, 0)
-        ));
+        )));
     }
     if c.matching.fittings_by_line_kind_size > 0 {
-        out.push_str(&format!(
-            "{} fitting pair(s) had no unique tag and were matched by line, kind and size.\n",
+        out.push_str(&text(&format!(
+            "{} fitting pair(s) had no unique tag and were matched by line, kind and size.",
             c.matching.fittings_by_line_kind_size
-        ));
+        )));
     }
-    out.push_str(&format!(
-        "Changes: {} error, {} warning, {} info\n",
+    out.push_str(&text(&format!(
+        "Changes: {} error, {} warning, {} info",
         c.count(Severity::Error),
         c.count(Severity::Warning),
         c.count(Severity::Info)
-    ));
-    out.push_str(CAUTION_LINE);
+    )));
+    out.push_str(&text(CAUTION_LINE));
     out
 }
 
 /// The caution under every comparison summary (the full text is in the Basis sheet and JSON).
-pub const CAUTION_LINE: &str = "Screening estimate: confirm pump, NPSH and pressure decisions against site measurement, manufacturer data, local codes and licensed engineering practice.\n";
+pub const CAUTION_LINE: &str = "Screening estimate: confirm pump, NPSH and pressure decisions against site measurement, manufacturer data, local codes and licensed engineering practice.";

@@ -99,6 +99,9 @@ pub struct Comparison {
     pub energy: EnergyTotals,
     /// How items were matched.
     pub matching: matching::Summary,
+    /// When either side marks its data as invented, the label every output carries.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub invented_data_note: Option<String>,
     /// The caution that applies to every figure.
     pub caution: &'static str,
 }
@@ -160,8 +163,19 @@ pub fn compare(old: &Audited, new: &Audited) -> Comparison {
         lines,
         systems,
         matching: m.summary(),
+        invented_data_note: invented_note(old, new),
         caution: crate::report::CAUTION,
     }
+}
+
+/// The invented-data label of the first side that carries the mark, naming the side.
+fn invented_note(old: &Audited, new: &Audited) -> Option<String> {
+    use crate::report::invented::{label, marker};
+    [(Side::Old, old), (Side::New, new)]
+        .into_iter()
+        .find_map(|(side, a)| {
+            marker(&a.input).map(|c| format!("{} side: {}", side.label(), label(&c)))
+        })
 }
 
 fn side_ref(a: &Audited) -> SideRef {

@@ -289,6 +289,11 @@ pub fn build(c: &Comparison, new: &Input, notes: &BasisNotes) -> Result<Workbook
     if c.changes.is_empty() {
         changes.write_string(1, 0, "No changes")?;
     }
+    if let Some(note) = &c.invented_data_note {
+        // Below the table, so the filter range stays the changes.
+        let r = c.changes.len().max(1) as u32 + 2;
+        changes.write_string_with_format(r, 0, note, &st.bold)?;
+    }
     let mut lines = named("Line effects")?;
     write_table(&mut lines, LINE_COLS, &c.lines, &st, true)?;
     // The input's own Systems sheet keeps its name (the links point into it).
@@ -344,6 +349,9 @@ fn write_basis(
 ) -> Result<(), XlsxError> {
     let mut rows: Vec<(String, String, bool)> = Vec::new();
     let mut push = |a: &str, b: &str| rows.push((a.to_string(), b.to_string(), false));
+    if let Some(note) = &c.invented_data_note {
+        push("Invented data", note);
+    }
     push("Tool", &format!("lossledger {}", c.lossledger));
     push("Old input", &c.old.file);
     push("Old input SHA-256", &c.old.sha256);
