@@ -106,6 +106,34 @@ impl InputArgs {
     }
 }
 
+/// `lossledger compare OLD NEW`.
+#[derive(Args, Debug)]
+pub struct CompareArgs {
+    /// The earlier revision: a workbook (.xlsx), a CSV file or a folder of them.
+    pub old: PathBuf,
+    /// The later revision, read the same way.
+    pub new: PathBuf,
+    /// Header map (TOML) applied to both revisions.
+    #[arg(long, value_name = "FILE")]
+    pub map: Option<PathBuf>,
+    /// Comparison workbook [default: NEW.compare.xlsx beside the new revision].
+    #[arg(short, long)]
+    pub output: Option<PathBuf>,
+    /// Also write the comparison as JSON to this path ("-" for standard output).
+    #[arg(long, value_name = "PATH")]
+    pub json: Option<String>,
+    /// Rules file (TOML) applied to both revisions; keys not given keep their defaults.
+    #[arg(long, value_name = "FILE")]
+    pub rules: Option<PathBuf>,
+    /// Exit with status 1 when a change reaches this severity (a system verdict that gets worse
+    /// is an error; a new finding keeps its own severity).
+    #[arg(long, value_enum)]
+    pub fail_on: Option<FailOn>,
+    /// Units of the console summary and the workbook (JSON stays SI).
+    #[arg(long, value_enum, default_value = "si")]
+    pub units: report::console::UnitSystem,
+}
+
 /// Subcommands.
 #[derive(Subcommand, Debug)]
 pub enum Command {
@@ -134,6 +162,9 @@ pub enum Command {
         #[arg(long, value_name = "N|all", default_value = "1000", value_parser = parse_rows)]
         ranking_rows: RankingRows,
     },
+    /// Compare two revisions of a takeoff: what changed, and what it does to the losses, the
+    /// findings and the pumps. Writes a comparison workbook (and JSON if asked).
+    Compare(CompareArgs),
     /// Read and validate inputs only: print every diagnostic with its cell, the header mapping
     /// used (as a map file) and the defaults that would apply. Exit 0 when clean, 2 on errors.
     Check {
@@ -262,6 +293,7 @@ fn run(cli: Cli) -> u8 {
             }
             0
         }
+        Command::Compare(args) => compare(&args),
         Command::Demo { dir } => crate::demo::run(&dir),
         Command::Check { inputs } => check(&inputs),
         Command::Template { out, units, layout } => {
@@ -386,7 +418,7 @@ pub fn audit_sources_to_files(
         say!("{d}");
     }
     progress.set_message("computing losses");
-    let done = match audit::run(&input, rules) {
+    let done = match crate::pipeline::audit(&input, rules) {
         Ok(a) => a,
         Err(errors) => {
             for d in &errors {
@@ -400,18 +432,6 @@ pub fn audit_sources_to_files(
             return Err(2);
         }
     };
-    let overflow = non_finite_results(&input, &done);
-    if !overflow.is_empty() {
-        for d in &overflow {
-            say!("{d}");
-        }
-        say!(
-            "{} error(s) in {}; nothing was written",
-            overflow.len(),
-            input.file
-        );
-        return Err(2);
-    }
     let mut inputs: Vec<PathBuf> = paths.to_vec();
     inputs.extend(input.sources.iter().map(|s| s.path.clone()));
     if let Some(j) = json.filter(|j| *j != "-") {
@@ -500,74 +520,117 @@ pub fn audit_sources_to_files(
     Ok(done)
 }
 
-/// Results that came out infinite or NaN (inputs finite but far out of range, e.g. a length of
-/// 1e308 m): one error per item at its source cell, so nothing non-finite reaches an output.
-fn non_finite_results(
-    input: &ingest::Input,
-    audit: &audit::Audit,
-) -> Vec<crate::error::Diagnostic> {
-    let mut out = Vec::new();
-    let push = |out: &mut Vec<crate::error::Diagnostic>,
-                cell: &crate::error::CellRef,
-                what: String| {
-        out.push(crate::error::Diagnostic {
-            severity: Severity::Error,
-            file: input.file_of(&cell.sheet).to_string(),
-            cell: Some(cell.clone()),
-            message: format!(
-                "{what} is not a finite number: a value on this row is far out of range"
-            ),
-            hint: Some(
-                "check the row's length, size, flow and K for a misplaced exponent or unit".into(),
-            ),
-        });
-    };
-    for r in &audit.runs {
-        let figures = [
-            ("velocity", r.velocity_m_s),
-            ("Reynolds number", r.reynolds),
-            ("friction head", r.head_m),
-            ("friction loss", r.dp_pa),
-        ];
-        if let Some((what, _)) = figures.iter().find(|(_, v)| !v.is_finite()) {
-            push(&mut out, &r.cell, format!("line {}: {what}", r.line));
-        }
-    }
-    for f in audit.fittings.iter().filter(|f| f.opening != Some(0.0)) {
-        let figures = [
-            ("K", f.k),
-            ("velocity", f.velocity_m_s),
-            ("head", f.head_m),
-            ("head high", f.head_high_m),
-            ("loss", f.dp_pa),
-        ];
-        if let Some((what, _)) = figures.iter().find(|(_, v)| !v.is_finite()) {
-            push(
-                &mut out,
-                &f.cell,
-                format!("fitting {} on line {}: {what}", f.tag, f.line),
-            );
-        }
-    }
-    if out.is_empty() {
-        for l in &audit.lines {
-            let figures = [
-                ("total head", l.total_head_m),
-                ("total head high", l.total_head_high_m),
-                ("total loss", l.total_dp_pa),
-            ];
-            if let (Some((what, _)), Some(&i)) =
-                (figures.iter().find(|(_, v)| !v.is_finite()), l.runs.first())
+/// Read and audit one side of a comparison as `audit` would, printing its problems prefixed by
+/// the side; `None` when it cannot be audited.
+fn compare_side(
+    side: crate::compare::Side,
+    path: &Path,
+    options: &ingest::ReadOptions,
+    rules: &Rules,
+) -> Option<crate::pipeline::Audited> {
+    use crate::pipeline::{AuditError, read_and_audit};
+    let label = side.label();
+    let sources = [ingest::InputSource::Path(path.to_path_buf())];
+    match read_and_audit(&sources, options, rules) {
+        Ok(a) => {
+            for d in a
+                .audit
+                .notes
+                .iter()
+                .filter(|d| d.severity != Severity::Error)
             {
-                push(
-                    &mut out,
-                    &audit.runs[i].cell,
-                    format!("line {}: {what}", l.line),
-                );
+                eprintln!("{label}: {d}");
+            }
+            Some(a)
+        }
+        Err(AuditError::Invalid { file, errors }) => {
+            for d in &errors {
+                eprintln!("{label}: {d}");
+            }
+            eprintln!("{label} revision {file}: {} error(s)", errors.len());
+            None
+        }
+        Err(e) => {
+            eprintln!("error: {label} revision: {e}");
+            None
+        }
+    }
+}
+
+/// `lossledger compare`: read and audit both sides, compare, write; 2 with nothing written when
+/// either side is bad.
+fn compare(args: &CompareArgs) -> u8 {
+    use crate::compare::{self, Side, files};
+    let rules = match args.rules.as_deref().map(Rules::from_file).transpose() {
+        Ok(r) => r.unwrap_or_default(),
+        Err(e) => {
+            eprintln!("error: {e}");
+            return 2;
+        }
+    };
+    let map = match args
+        .map
+        .as_deref()
+        .map(ingest::HeaderMap::from_file)
+        .transpose()
+    {
+        Ok(m) => m,
+        Err(e) => {
+            eprintln!("error: {e}");
+            return 2;
+        }
+    };
+    let options = ingest::ReadOptions { map };
+    let old = compare_side(Side::Old, &args.old, &options, &rules);
+    let new = compare_side(Side::New, &args.new, &options, &rules);
+    let (Some(old), Some(new)) = (old, new) else {
+        eprintln!("nothing was written");
+        return 2;
+    };
+    let c = compare::compare(&old, &new);
+    let out = args
+        .output
+        .clone()
+        .unwrap_or_else(|| files::default_output(&args.new));
+    let json = args.json.as_deref().filter(|j| *j != "-").map(Path::new);
+    let inputs = files::input_paths(&[&args.old, &args.new], &[&old.input, &new.input]);
+    let notes = compare::workbook::BasisNotes {
+        rules_file: args.rules.as_ref().map(|p| p.display().to_string()),
+        map_file: args.map.as_ref().map(|p| p.display().to_string()),
+        units: args.units,
+        rules,
+    };
+    if let Err(e) = files::write(&c, &new.input, &notes, &out, json, &inputs) {
+        let internal = matches!(e, crate::error::OutputError::Xlsx { .. });
+        eprintln!("error: {e}; nothing was written");
+        return if internal { 3 } else { 2 };
+    }
+    let summary = compare::console::summary(&c, args.units);
+    if args.json.as_deref() == Some("-") {
+        eprint!("{summary}");
+        match c.to_json() {
+            Ok(text) => println!("{text}"),
+            Err(e) => {
+                eprintln!("internal error: building JSON failed: {e}");
+                return 3;
             }
         }
+    } else {
+        print!("{summary}");
+        print!(
+            "{}",
+            report::console::fitted_text(
+                &format!("Wrote {}", out.display()),
+                report::text_table::console_width(),
+            )
+        );
     }
-    out
+    let threshold = match args.fail_on {
+        None => return 0,
+        Some(FailOn::Warning) => Severity::Warning,
+        Some(FailOn::Error) => Severity::Error,
+    };
+    u8::from(c.worst().is_some_and(|w| w >= threshold))
 }
 
 fn kinds_table() -> String {

@@ -6,10 +6,12 @@
 
 pub mod audit;
 pub mod cli;
+pub mod compare;
 pub mod demo;
 pub mod error;
 pub mod ingest;
 pub mod physics;
+pub mod pipeline;
 pub mod report;
 pub mod table;
 pub mod template;

@@ -4,7 +4,7 @@ pub mod console;
 pub mod invented;
 pub mod json;
 pub mod ranking;
-mod style;
+pub(crate) mod style;
 pub mod text_table;
 pub mod workbook;
 

@@ -416,6 +416,19 @@ fn copy_sheet(
     Ok(())
 }
 
+/// Copy an input sheet cell for cell (values, formulas with their cached results, merged
+/// ranges) without marks or computed columns: the comparison workbook's copy of the new input.
+///
+/// # Errors
+/// What the workbook writer reports.
+pub(crate) fn copy_plain(
+    ws: &mut Worksheet,
+    sheet: &SheetGrid,
+    st: &Styles,
+) -> Result<(), XlsxError> {
+    copy_sheet(ws, sheet, None, &mut [], st)
+}
+
 /// Rows of mixed lists whose classification is listed in the Parse report at most (all are
 /// shown by `lossledger check`).
 const MAX_CLASSIFIED: usize = 5_000;
