@@ -1,6 +1,6 @@
 //! Command line: argument parsing, exit codes, and the glue between layers.
 //!
-//! Exit codes (DESIGN.md §2): 0 audit written; 1 findings at or above `--fail-on`; 2 input or
+//! Exit codes (as in the README): 0 audit written; 1 findings at or above `--fail-on`; 2 input or
 //! usage error (nothing written); 3 internal error.
 
 use clap::{Args, Parser, Subcommand, ValueEnum};

@@ -2,7 +2,8 @@
 //!
 //! Every normalised row, finding and diagnostic carries a [`CellRef`] so a message can name the
 //! exact input cell (`Pipes!D7`). Layers return their own error enums; the CLI maps them to exit
-//! codes (see `DESIGN.md` §2: 0 written, 1 findings at or above `--fail-on`, 2 input/usage, 3 internal).
+//! codes (as the README lists them: 0 written, 1 findings at or above `--fail-on`, 2 input/usage,
+//! 3 internal).
 
 use serde::Serialize;
 use std::fmt;

@@ -161,7 +161,7 @@ fn asme_tables_define_nothing_beyond_fluids() {
     );
 }
 
-/// Galvanised steel uses the B36.10M table (project rule, DESIGN.md §4).
+/// Galvanised steel uses the B36.10M table (project rule, docs/pipes.md).
 #[test]
 fn galvanised_uses_b36_10m() {
     for dn in [15u16, 50, 100, 300] {

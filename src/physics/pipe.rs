@@ -977,7 +977,7 @@ pub fn plastic_od_for_dn(dn: u16) -> Option<f64> {
 /// must give). Cast iron, concrete, and DNs without a table: `None`.
 ///
 /// # Source
-/// Project rule (DESIGN.md): "40, STD where 40 is not defined" for steel; the rest is
+/// Project rule (docs/pipes.md): "40, STD where 40 is not defined" for steel; the rest is
 /// documented in `docs/pipes.md` as the project's choice.
 pub fn default_schedule(material: Material, dn: u16) -> Option<Schedule> {
     let has = |table: &[SteelRow], s: Schedule| {
