@@ -265,6 +265,8 @@ pub fn run(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
             .cloned()
             .collect());
     }
+    crate::worker::enter(crate::worker::Phase::Audit, &input.file);
+    crate::worker::fault::point(crate::worker::fault::Place::Audit);
     // The fitting models (what re-evaluates an item at another flow or as another kind) live
     // only while the audit runs: on huge registers they are a good share of the memory.
     let (mut audit, models) = lines::compute(input, rules)?;

@@ -313,6 +313,7 @@ pub fn read_inputs(sources: &[InputSource], options: &ReadOptions) -> Result<Inp
     let mut taken: HashSet<String> = HashSet::new();
     let mut parts = Vec::new();
     for (path, table) in &files {
+        crate::worker::enter(crate::worker::Phase::Read, &path.display().to_string());
         let (mut source, mut sheets) = read_file(path, *table)?;
         for (sheet, name) in sheets.iter_mut().zip(source.sheets.iter_mut()) {
             let unique = unique_sheet_name(&sheet.name, &taken);

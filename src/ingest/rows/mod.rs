@@ -57,6 +57,7 @@ pub fn read_all(input: &mut Input) {
         let input = &*input;
         std::thread::scope(|scope| {
             let fittings = scope.spawn(|| {
+                crate::worker::fault::point(crate::worker::fault::Place::Read);
                 let mut sink = TableSink::default();
                 let rows = fittings::read_fittings(input, &mut sink);
                 (sink, rows)
