@@ -8,6 +8,7 @@ pub mod energy;
 pub mod findings;
 pub mod lines;
 pub mod rules;
+pub(crate) mod same_cause;
 pub mod system;
 
 use serde::Serialize;
