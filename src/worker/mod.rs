@@ -37,18 +37,20 @@ pub fn start() {
     if status::open(Path::new(&path)) {
         std::panic::set_hook(Box::new(status::panicked));
     }
-    watch_parent();
+    watch_parent(path.into());
 }
 
-/// A worker whose parent was killed stops too, rather than writing outputs nobody waits for.
+/// A worker whose parent was killed stops too, rather than writing outputs nobody waits for,
+/// and removes what the parent would have: its staged files and the status file.
 #[cfg(unix)]
-fn watch_parent() {
+fn watch_parent(status_path: std::path::PathBuf) {
     let parent = std::os::unix::process::parent_id();
     std::thread::spawn(move || {
         loop {
             std::thread::sleep(std::time::Duration::from_millis(200));
             if std::os::unix::process::parent_id() != parent {
                 status::remove_staged();
+                let _ = std::fs::remove_file(&status_path);
                 std::process::exit(3);
             }
         }
@@ -56,7 +58,7 @@ fn watch_parent() {
 }
 
 #[cfg(not(unix))]
-fn watch_parent() {}
+fn watch_parent(_status_path: std::path::PathBuf) {}
 
 /// Run this command in a worker and wait for it. `None` when no worker could be started (the
 /// caller then runs the command in this process).
