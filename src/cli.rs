@@ -201,7 +201,23 @@ pub enum Command {
     },
 }
 
-/// Run the CLI and return the process exit code.
+impl Command {
+    /// Whether the command reads inputs, audits or writes outputs, and so runs in a worker
+    /// process (`crate::worker`).
+    pub fn reads_and_writes(&self) -> bool {
+        matches!(
+            self,
+            Command::Audit { .. }
+                | Command::Compare(_)
+                | Command::Check { .. }
+                | Command::Demo { .. }
+        )
+    }
+}
+
+/// Run the CLI and return the process exit code. The commands that read, audit and write run in
+/// a worker child process, so that even an allocation failure becomes exit 3 with one line
+/// (`crate::worker`); when no worker can be started they run in this process.
 pub fn main() -> ExitCode {
     let cli = match Cli::try_parse() {
         Ok(c) => c,
@@ -211,8 +227,18 @@ pub fn main() -> ExitCode {
             return ExitCode::from(code);
         }
     };
+    let worker = crate::worker::is_worker();
+    if worker {
+        crate::worker::start();
+    } else if cli.command.reads_and_writes()
+        && let Some(code) = crate::worker::supervise()
+    {
+        return ExitCode::from(code);
+    }
     match std::panic::catch_unwind(|| run(cli)) {
         Ok(code) => ExitCode::from(code),
+        // Recorded by the worker's panic hook; the parent prints the one line.
+        Err(_) if worker => ExitCode::from(crate::worker::PANICKED),
         Err(_) => {
             eprintln!(
                 "internal error: lossledger stopped unexpectedly; nothing further was written. Please report this with the input file."
@@ -446,6 +472,7 @@ pub fn audit_sources_to_files(
         return Err(2);
     }
     progress.set_message("writing the annotated workbook");
+    crate::worker::enter(crate::worker::Phase::Write, &out.display().to_string());
     let mut book = match report::workbook::prepare(&input, &done, book) {
         Ok(b) => b,
         Err(e) => {

@@ -16,3 +16,4 @@ pub mod report;
 pub mod table;
 pub mod template;
 pub mod units;
+pub mod worker;

@@ -83,6 +83,8 @@ fn non_finite_results(input: &Input, audit: &Audit) -> Vec<Diagnostic> {
             ),
         });
     };
+    // One out-of-range flow makes every item of its line overflow: one error per line and figure.
+    let mut same_runs = crate::audit::same_cause::SameCause::default();
     for r in &audit.runs {
         let figures = [
             ("velocity", r.velocity_m_s),
@@ -90,10 +92,14 @@ fn non_finite_results(input: &Input, audit: &Audit) -> Vec<Diagnostic> {
             ("friction head", r.head_m),
             ("friction loss", r.dp_pa),
         ];
-        if let Some((what, _)) = figures.iter().find(|(_, v)| !v.is_finite()) {
+        if let Some((what, _)) = figures.iter().find(|(_, v)| !v.is_finite())
+            && !same_runs.repeats(&r.line, what, out.len())
+        {
             push(&mut out, &r.cell, format!("line {}: {what}", r.line));
         }
     }
+    same_runs.fold_into(&mut out, "run");
+    let mut same_fittings = crate::audit::same_cause::SameCause::default();
     for f in audit.fittings.iter().filter(|f| f.opening != Some(0.0)) {
         let figures = [
             ("K", f.k),
@@ -102,7 +108,9 @@ fn non_finite_results(input: &Input, audit: &Audit) -> Vec<Diagnostic> {
             ("head high", f.head_high_m),
             ("loss", f.dp_pa),
         ];
-        if let Some((what, _)) = figures.iter().find(|(_, v)| !v.is_finite()) {
+        if let Some((what, _)) = figures.iter().find(|(_, v)| !v.is_finite())
+            && !same_fittings.repeats(&f.line, what, out.len())
+        {
             push(
                 &mut out,
                 &f.cell,
@@ -110,6 +118,7 @@ fn non_finite_results(input: &Input, audit: &Audit) -> Vec<Diagnostic> {
             );
         }
     }
+    same_fittings.fold_into(&mut out, "fitting");
     if out.is_empty() {
         for l in &audit.lines {
             let figures = [

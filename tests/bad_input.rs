@@ -13,10 +13,12 @@ use support::{Cell, Sheet, base_station, list_station, n, s, sheet, xlsx, zip};
 
 /// What a case must do.
 enum Expect {
-    /// Exit 2, stderr names the file, the cell (when given) and contains the text; nothing written.
+    /// Exit 2, stderr names the file, the cell (when given) and contains the text, and not the
+    /// text of an error that only follows from it (when given); nothing written.
     Refused {
         cell: Option<&'static str>,
         says: &'static str,
+        never: Option<&'static str>,
     },
     /// Exit 0, the finding code is raised (when given), the JSON holds the text (when given), and
     /// the outputs have no inf/NaN.
@@ -44,7 +46,29 @@ fn refused(
         name,
         file: "station.xlsx",
         bytes,
-        expect: Expect::Refused { cell, says },
+        expect: Expect::Refused {
+            cell,
+            says,
+            never: None,
+        },
+    }
+}
+
+/// Refused with one error, whose follow-on errors (`never`) are folded into it, not repeated.
+fn refused_once(
+    name: &'static str,
+    bytes: Vec<u8>,
+    cell: &'static str,
+    says: &'static str,
+    never: &'static str,
+) -> Case {
+    Case {
+        expect: Expect::Refused {
+            cell: Some(cell),
+            says,
+            never: Some(never),
+        },
+        ..refused(name, bytes, None, says)
     }
 }
 
@@ -208,6 +232,7 @@ fn cases() -> Vec<Case> {
             expect: Expect::Refused {
                 cell: None,
                 says: "cannot read",
+                never: None,
             },
         },
         refused(
@@ -240,6 +265,7 @@ fn cases() -> Vec<Case> {
             expect: Expect::Refused {
                 cell: Some("Pipes!A1"),
                 says: "has no header row",
+                never: None,
             },
         },
         Case {
@@ -249,6 +275,7 @@ fn cases() -> Vec<Case> {
             expect: Expect::Refused {
                 cell: None,
                 says: "cannot read",
+                never: None,
             },
         },
         // --- workbook without usable tables ---
@@ -344,11 +371,14 @@ fn cases() -> Vec<Case> {
             Some("Pipes!A2"),
             "not a finite",
         ),
-        refused(
+        // Both fittings of the line fail on the one flow: one error, the second counted in it.
+        refused_once(
             "huge-flow-1e308",
             with("Lines", 1, 2, n(1e308)),
-            Some("Fittings!C2"),
-            "Reynolds",
+            "Fittings!C2",
+            "Reynolds number = inf is outside the accepted range finite and >= 0 …and 1 more \
+             fitting on line 'L1' fails the same way",
+            "Fittings!C3",
         ),
         refused(
             "huge-k-1e308",
@@ -409,6 +439,52 @@ fn cases() -> Vec<Case> {
             with("Lines", 1, 2, Cell::F("=#REF!*2".into(), "#REF!".into())),
             Some("Lines!C2"),
             "#REF!",
+        ),
+        // One bad cell, one message: the run is left out, so its line has no pipe run, and its
+        // two fittings are counted in that message instead of raising an error each.
+        refused_once(
+            "div0-length-folds-the-line-fittings",
+            with("Pipes", 1, 5, Cell::F("=1/0".into(), "#DIV/0!".into())),
+            "Pipes!F2",
+            "…and 2 fittings on line 'L1' are not checked",
+            "which has no pipe run",
+        ),
+        refused_once(
+            "ref-flow-is-not-also-blank",
+            with("Lines", 1, 2, Cell::F("=#REF!*2".into(), "#REF!".into())),
+            "Lines!C2",
+            "#REF!",
+            "has no flow",
+        ),
+        refused_once(
+            "reverse-flow-is-not-also-blank",
+            with("Lines", 1, 2, n(-50.0)),
+            "Lines!C2",
+            "reverse (negative) flow",
+            "has no flow",
+        ),
+        refused_once(
+            "bad-k-with-blank-item-is-one-error",
+            with_all(&[
+                ("Fittings", 1, 2, Cell::E),
+                ("Fittings", 1, 7, Cell::F("=1/0".into(), "#DIV/0!".into())),
+            ]),
+            "Fittings!H2",
+            "#DIV/0!",
+            "item is blank",
+        ),
+        // A fitting quantity is a count: the Fittings table follows the mixed lists' rule.
+        refused(
+            "fitting-qty-fraction",
+            with("Fittings", 1, 5, n(1.5)),
+            Some("Fittings!F2"),
+            "must be a whole number of at least 1, not 1.5",
+        ),
+        refused(
+            "fitting-qty-fraction-as-text",
+            with("Fittings", 2, 5, s("0.5")),
+            Some("Fittings!F3"),
+            "must be a whole number of at least 1, not 0.5",
         ),
         refused(
             "reverse-flow",
@@ -569,6 +645,15 @@ fn cases() -> Vec<Case> {
             Some("BoQ!E4"),
             "must be a whole number",
         ),
+        // The run's quantity is bad, so the run is left out: the two fittings of its line are
+        // counted in that one error, not reported as "no pipe run" each.
+        refused_once(
+            "list-bad-run-folds-the-line-fittings",
+            list_with(&[(1, 4, s("twenty"))]),
+            "BoQ!E2",
+            "…and 2 fittings on line 'L1' are not checked",
+            "which has no pipe run",
+        ),
         refused(
             "list-unit-unknown",
             list_with(&[(3, 5, s("kg"))]),
@@ -661,7 +746,7 @@ fn check(case: &Case) -> Result<(), String> {
         return Err("the input file was changed".into());
     }
     match &case.expect {
-        Expect::Refused { cell, says } => {
+        Expect::Refused { cell, says, never } => {
             if code != Some(2) {
                 return Err(format!("expected exit 2; {}", ctx()));
             }
@@ -675,6 +760,14 @@ fn check(case: &Case) -> Result<(), String> {
             }
             if !stderr.to_lowercase().contains(&says.to_lowercase()) {
                 return Err(format!("message does not say {says:?}; {}", ctx()));
+            }
+            if let Some(never) = never
+                && stderr.to_lowercase().contains(&never.to_lowercase())
+            {
+                return Err(format!(
+                    "a follow-on error {never:?} is repeated; {}",
+                    ctx()
+                ));
             }
             let left = support::entries(&dir);
             if left != [case.file.to_string()] {

@@ -453,6 +453,7 @@ pub fn compute(
         fits_by_line.entry(f.line.as_str()).or_default().push(i);
     }
     let mut inferred = Vec::new();
+    let mut same_cause = super::same_cause::SameCause::default();
     for (fi, f) in input.fittings.iter().enumerate() {
         let Some(state) = states.get(&f.line) else {
             continue;
@@ -621,11 +622,16 @@ pub fn compute(
             }
             Err(fitting::FittingError::Closed { .. }) => closed.push(f),
             Err(e) => {
+                let why = e.to_string();
+                if same_cause.repeats(&f.line, &why, ctx.errors.len()) {
+                    continue;
+                }
                 let cell = ctx.cell(TableKind::Fittings, &f.origin.sheet, f.origin.row, "item");
-                ctx.error(cell, format!("{}: {e}", f.item), None);
+                ctx.error(cell, format!("{}: {why}", f.item), None);
             }
         }
     }
+    same_cause.fold_into(&mut ctx.errors, "fitting");
     if !ctx.errors.is_empty() {
         return Err(ctx.errors);
     }

@@ -8,6 +8,7 @@ pub mod energy;
 pub mod findings;
 pub mod lines;
 pub mod rules;
+pub(crate) mod same_cause;
 pub mod system;
 
 use serde::Serialize;
@@ -265,6 +266,8 @@ pub fn run(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
             .cloned()
             .collect());
     }
+    crate::worker::enter(crate::worker::Phase::Audit, &input.file);
+    crate::worker::fault::point(crate::worker::fault::Place::Audit);
     // The fitting models (what re-evaluates an item at another flow or as another kind) live
     // only while the audit runs: on huge registers they are a good share of the memory.
     let (mut audit, models) = lines::compute(input, rules)?;

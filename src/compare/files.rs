@@ -48,6 +48,7 @@ pub fn write(
         path: out.display().to_string(),
         source,
     };
+    crate::worker::enter(crate::worker::Phase::Write, &out.display().to_string());
     let mut book = build(c, new, notes).map_err(xlsx)?;
     let mut internal = None;
     let staged = stage_with(out, |f| {

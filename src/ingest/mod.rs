@@ -62,6 +62,19 @@ pub struct Skipped {
     pub reason: String,
 }
 
+/// A data row on which reading found an error, with the line it names. Errors that only follow
+/// from it (the fittings of a line whose every run had an error) are folded into its first error
+/// instead of being repeated (`rows::cross_check`).
+#[derive(Clone, Debug, PartialEq)]
+pub struct ErredRow {
+    /// The table the row is in.
+    pub table: TableKind,
+    /// The line id written on the row, when there is one.
+    pub line: Option<String>,
+    /// The cell of the row's first error.
+    pub cell: CellRef,
+}
+
 /// What reading did to the cells, beyond diagnostics: conversions and skipped rows.
 #[derive(Clone, Debug, Default, PartialEq)]
 pub struct ParseReport {
@@ -75,6 +88,8 @@ pub struct ParseReport {
     pub left_out: Vec<Skipped>,
     /// How each row of a mixed list was read (run, fitting, heading, skipped, left out).
     pub classified: Vec<list::Classified>,
+    /// Rows on which reading found an error.
+    pub erred: Vec<ErredRow>,
 }
 
 /// How to read inputs.
@@ -313,6 +328,7 @@ pub fn read_inputs(sources: &[InputSource], options: &ReadOptions) -> Result<Inp
     let mut taken: HashSet<String> = HashSet::new();
     let mut parts = Vec::new();
     for (path, table) in &files {
+        crate::worker::enter(crate::worker::Phase::Read, &path.display().to_string());
         let (mut source, mut sheets) = read_file(path, *table)?;
         for (sheet, name) in sheets.iter_mut().zip(source.sheets.iter_mut()) {
             let unique = unique_sheet_name(&sheet.name, &taken);
@@ -418,6 +434,7 @@ fn merge(parts: Vec<Input>) -> Input {
         all.report.blank_rows.append(&mut part.report.blank_rows);
         all.report.left_out.append(&mut part.report.left_out);
         all.report.classified.append(&mut part.report.classified);
+        all.report.erred.append(&mut part.report.erred);
     }
     if merged {
         all.file = all

@@ -54,8 +54,8 @@ pub struct Quantity {
     pub unit_text: Option<String>,
 }
 
-/// Why a quantity cell could not be read.
-#[derive(Clone, Debug, PartialEq, Eq, thiserror::Error)]
+/// Why a quantity cell could not be read, or cannot be a fitting's quantity.
+#[derive(Clone, Debug, PartialEq, thiserror::Error)]
 pub enum QuantityError {
     /// Not a number with a known unit word.
     #[error("'{text}' is not a quantity (write e.g. 2, 2 No, 12.5 m or 12'6\")")]
@@ -63,6 +63,39 @@ pub enum QuantityError {
         /// The text.
         text: String,
     },
+    /// A fitting's quantity that is not a whole number of at least 1.
+    #[error(
+        "a fitting's quantity must be a whole number of at least 1, not {}",
+        super::rows::format_number(*value)
+    )]
+    NotACount {
+        /// The value read.
+        value: f64,
+    },
+}
+
+/// How far a fitting count may sit from a whole number and still be that number, relative to it
+/// (at least 1): a computed cell such as `=0.1*30` gives 3.0000000000000004 by float rounding.
+pub const WHOLE_COUNT_TOLERANCE: f64 = 1e-9;
+
+/// What to write instead of a fitting quantity that is not a count.
+pub const COUNT_HINT: &str = "count fittings (1, 2, 3 ...): a length belongs to a pipe run, and a \
+fitting that loses less than its catalogue K is written with its own K";
+
+/// The one rule for a fitting's quantity, in the Fittings table and in mixed lists: a whole
+/// number of at least 1. A fitting is there or it is not; no kind in the catalogue has a
+/// meaning for half of one (a partial loss is a K of its own), so a fraction is an error, not
+/// a warning. A value within [`WHOLE_COUNT_TOLERANCE`] of a whole number is that number.
+///
+/// # Errors
+/// [`QuantityError::NotACount`] for a fraction, zero, a negative or a non-finite value.
+pub fn fitting_count(value: f64) -> Result<f64, QuantityError> {
+    let whole = value.round();
+    if value.is_finite() && whole >= 1.0 && (value - whole).abs() <= WHOLE_COUNT_TOLERANCE * whole {
+        Ok(whole)
+    } else {
+        Err(QuantityError::NotACount { value })
+    }
 }
 
 /// Read a quantity text: `2`, `2 No`, `2 off`, `3 nr`, `1 ea`, `2 pcs`, `12.5 m`, `40 LM`,
@@ -205,6 +238,21 @@ mod tests {
         }
         assert!((q("10'").value - 3.048).abs() < EXACT);
         assert!(parse_quantity("12'13\"", false).is_err());
+    }
+
+    #[test]
+    fn a_fitting_count_is_a_whole_number_of_at_least_one() {
+        assert_eq!(fitting_count(1.0), Ok(1.0));
+        assert_eq!(fitting_count(12.0), Ok(12.0));
+        // 0.1 × 30 in binary floating point is 3.0000000000000004 (IEEE 754 double rounding).
+        assert_eq!(fitting_count(0.1 * 30.0), Ok(3.0));
+        for bad in [1.5, 0.5, 2.25, 0.0, -1.0, 1e-12, f64::INFINITY, f64::NAN] {
+            assert!(fitting_count(bad).is_err(), "{bad}");
+        }
+        assert_eq!(
+            fitting_count(1.5).unwrap_err().to_string(),
+            "a fitting's quantity must be a whole number of at least 1, not 1.5"
+        );
     }
 
     proptest::proptest! {

@@ -66,6 +66,7 @@ impl Staged {
             source,
         })?;
         self.committed = true;
+        crate::worker::committed(&self.path);
         Ok(())
     }
 }
@@ -87,6 +88,9 @@ pub fn stage(path: &Path, bytes: &[u8]) -> Result<Staged, OutputError> {
 
 /// Like [`stage`], with `write` writing the content into the temporary file (so a large output
 /// is never held in memory whole). Whatever `write` fails with is reported against `path`.
+///
+/// The temporary file is `.NAME.PID.tmp` beside the target; in a worker process its path is
+/// reported to the parent first (`crate::worker::staged`), which removes it if the worker dies.
 pub fn stage_with(
     path: &Path,
     write: impl FnOnce(&mut std::io::BufWriter<std::fs::File>) -> std::io::Result<()>,
@@ -115,7 +119,10 @@ pub fn stage_with(
         path: path.to_path_buf(),
         committed: false,
     };
+    crate::worker::enter(crate::worker::Phase::Write, &path.display().to_string());
+    crate::worker::staged(&staged.tmp);
     let file = std::fs::File::create(&staged.tmp).map_err(io)?;
+    crate::worker::fault::point(crate::worker::fault::Place::Save);
     let mut f = std::io::BufWriter::with_capacity(1 << 20, file);
     write(&mut f).map_err(io)?;
     f.flush().map_err(io)?;

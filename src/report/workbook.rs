@@ -155,6 +155,9 @@ pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Wo
         let mut rest = Vec::new();
         for (i, (mut ws, sheet, mut blocks)) in copies.into_iter().enumerate() {
             let job = move || {
+                if Some(i) == biggest {
+                    crate::worker::fault::point(crate::worker::fault::Place::Write);
+                }
                 copy_sheet(&mut ws, sheet, marks.get(&sheet.name), &mut blocks, st).map(|_| ws)
             };
             if Some(i) == biggest {
@@ -193,13 +196,10 @@ pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Wo
         (worker.map(|h| h.join()), others)
     });
     let mut others = others?;
+    // A panic on the second thread is a panic of this call (the worker process reports it).
     let big = match written {
         Some(Ok(ws)) => Some(ws?),
-        Some(Err(_)) => {
-            return Err(XlsxError::ParameterError(
-                "writing the largest input copy stopped unexpectedly".into(),
-            ));
-        }
+        Some(Err(panic)) => std::panic::resume_unwind(panic),
         None => None,
     };
     // Order: the report sheets, the input copies in input order, Basis last.

@@ -99,6 +99,7 @@ pub fn read_lists(input: &mut Input, options: &ReadOptions) {
         input.report.skipped.append(&mut out.skipped);
         input.report.left_out.append(&mut out.left_out);
         input.report.classified.append(&mut out.classified);
+        input.report.erred.append(&mut out.erred);
         if out.blank_rows > 0 {
             input
                 .report

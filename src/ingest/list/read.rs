@@ -12,9 +12,11 @@ use crate::ingest::grid::SheetGrid;
 use crate::ingest::header::Layout;
 use crate::ingest::parse::{self, SizeSpec, SizeUnit};
 use crate::ingest::quantity::{self, UnitWord};
-use crate::ingest::rows::{Cells, FittingRow, Origin, PipeRow, format_number, run_assumptions};
+use crate::ingest::rows::{
+    Cells, FittingRow, Origin, PipeRow, data_text, erred_row, format_number, run_assumptions,
+};
 use crate::ingest::schema;
-use crate::ingest::{Conversion, Skipped};
+use crate::ingest::{Conversion, ErredRow, Skipped};
 use crate::physics::fitting::Kind;
 use crate::physics::pipe::{self, Material};
 
@@ -29,6 +31,7 @@ pub struct ListOut {
     pub left_out: Vec<Skipped>,
     pub classified: Vec<Classified>,
     pub blank_rows: usize,
+    pub erred: Vec<ErredRow>,
 }
 
 /// Words that open a totals or carried row of a bill (folded, prefix match).
@@ -177,6 +180,7 @@ pub fn read_list(
             }
             continue;
         }
+        let first_diag = out.diagnostics.len();
         let mut c = Cells {
             file,
             grid,
@@ -194,6 +198,7 @@ pub fn read_list(
             poisoned,
         };
         let result = read_row(&mut c, &ctx);
+        let errors = c.errors;
         match result {
             RowResult::Run(p, why) => {
                 out.classified.push(Classified {
@@ -226,9 +231,37 @@ pub fn read_list(
                     reason,
                 });
             }
+            RowResult::Refused if errors > 0 => {
+                let diags = &out.diagnostics[first_diag..];
+                if let Some(e) = erred_run(grid, layout, row, heading.as_ref(), diags) {
+                    out.erred.push(e);
+                }
+            }
             RowResult::Refused => {}
         }
     }
+}
+
+/// A refused row that describes a pipe run, with its line (the Line column, else the heading):
+/// the fittings of a line left with no run are folded into its error (`rows::cross_check`).
+fn erred_run(
+    grid: &SheetGrid,
+    layout: &Layout,
+    row: u32,
+    heading: Option<&(String, CellRef)>,
+    diags: &[Diagnostic],
+) -> Option<ErredRow> {
+    let text = layout
+        .column("description")
+        .and_then(|c| data_text(grid.merged_value(row, c.col).clone()))?;
+    if !matches!(describe::describe(&text).role, Role::Run) {
+        return None;
+    }
+    let mut e = erred_row(schema::TableKind::Pipes, grid, layout, row, diags)?;
+    if e.line.is_none() {
+        e.line = heading.map(|(id, _)| id.clone());
+    }
+    Some(e)
 }
 
 /// Whether a text opens a totals or carried row (`To collection`, `Sub-total`, `C/F`).
@@ -811,19 +844,12 @@ fn fitting_row(
             return RowResult::Refused;
         }
     }
-    let qty = match m.value {
-        Some(q) if q.fract() != 0.0 || q <= 0.0 => {
-            c.error(
-                "qty",
-                format!(
-                    "a fitting's quantity must be a whole number of at least 1, not {}",
-                    format_number(q)
-                ),
-                Some("count fittings; a length belongs to a pipe run".into()),
-            );
+    let qty = match m.value.map(quantity::fitting_count) {
+        Some(Err(e)) => {
+            c.error("qty", e.to_string(), Some(quantity::COUNT_HINT.into()));
             return RowResult::Refused;
         }
-        Some(q) => q,
+        Some(Ok(q)) => q,
         None => {
             assumed.push(c.assumed("qty", "quantity 1".into()));
             1.0

@@ -10,7 +10,7 @@ use crate::ingest::grid::SheetGrid;
 use crate::ingest::header::{Layout, MappedColumn};
 use crate::ingest::parse::{self, CellNumber, SizeSpec, SizeUnit};
 use crate::ingest::schema::{ColumnType, TableKind};
-use crate::ingest::{Conversion, Input, Skipped};
+use crate::ingest::{Conversion, ErredRow, Input, Skipped};
 use crate::units::{self, Quantity};
 
 /// Reads cells of one row, pushing diagnostics.
@@ -88,15 +88,7 @@ impl Cells<'_> {
     }
 
     pub(crate) fn text(&mut self, key: &str) -> Option<String> {
-        Some(match self.raw(key)? {
-            Data::String(s) => s.trim().to_string(),
-            Data::Int(i) => i.to_string(),
-            Data::Float(f) => format_number(f),
-            Data::Bool(b) => b.to_string(),
-            Data::DateTime(d) => d.as_f64().to_string(),
-            Data::DateTimeIso(s) | Data::DurationIso(s) => s,
-            Data::Empty | Data::Error(_) => return None,
-        })
+        data_text(self.raw(key)?)
     }
 
     pub(crate) fn header(&self, key: &str) -> String {
@@ -288,6 +280,39 @@ impl Cells<'_> {
     }
 }
 
+/// A cell's value as text, as [`Cells::text`] reads it (`None` for a blank or an error value).
+pub(crate) fn data_text(value: Data) -> Option<String> {
+    Some(match value {
+        Data::String(s) => s.trim().to_string(),
+        Data::Int(i) => i.to_string(),
+        Data::Float(f) => format_number(f),
+        Data::Bool(b) => b.to_string(),
+        Data::DateTime(d) => d.as_f64().to_string(),
+        Data::DateTimeIso(s) | Data::DurationIso(s) => s,
+        Data::Empty | Data::Error(_) => return None,
+    })
+    .filter(|t| !t.is_empty())
+}
+
+/// The row's first error, with the line it names, when reading it found any.
+pub(crate) fn erred_row(
+    table: TableKind,
+    grid: &SheetGrid,
+    layout: &Layout,
+    row: u32,
+    diags: &[Diagnostic],
+) -> Option<ErredRow> {
+    let first = diags.iter().find(|d| d.severity == Severity::Error)?;
+    let line = layout
+        .column("line")
+        .and_then(|c| data_text(grid.merged_value(row, c.col).clone()));
+    Some(ErredRow {
+        table,
+        line,
+        cell: first.cell.clone()?,
+    })
+}
+
 /// Format a number without a trailing `.0` for integral values.
 pub fn format_number(v: f64) -> String {
     if v.fract() == 0.0 && v.abs() < 1e15 {
@@ -452,6 +477,7 @@ pub(crate) fn for_each_row(
             sink.skipped.push(Skipped { cell, reason });
             continue;
         }
+        let first_diag = sink.diagnostics.len();
         let mut cells = Cells {
             file: &input.file,
             grid,
@@ -463,6 +489,11 @@ pub(crate) fn for_each_row(
             errors: 0,
         };
         f(&mut cells);
+        if cells.errors > 0
+            && let Some(e) = erred_row(table, grid, &layout, row, &sink.diagnostics[first_diag..])
+        {
+            sink.erred.push(e);
+        }
     }
     if blanks > 0 {
         sink.blank_rows.push((layout.sheet.clone(), blanks));
@@ -476,6 +507,7 @@ pub(crate) struct Sink {
     pub(crate) conversions: Vec<Conversion>,
     pub(crate) skipped: Vec<Skipped>,
     pub(crate) blank_rows: Vec<(String, usize)>,
+    pub(crate) erred: Vec<ErredRow>,
 }
 
 impl Sink {
@@ -484,5 +516,6 @@ impl Sink {
         input.report.conversions.extend(self.conversions);
         input.report.skipped.extend(self.skipped);
         input.report.blank_rows.extend(self.blank_rows);
+        input.report.erred.extend(self.erred);
     }
 }

@@ -4,6 +4,7 @@ use super::cells::{Sink, for_each_row, format_number};
 use super::{Assumed, Origin};
 use crate::ingest::Input;
 use crate::ingest::parse::SizeSpec;
+use crate::ingest::quantity;
 use crate::ingest::schema::TableKind;
 use crate::physics::fitting::{self, Kind};
 
@@ -69,6 +70,10 @@ pub(super) fn read_fittings(input: &Input, sink: &mut Sink) -> Vec<FittingRow> {
         let kind = if item.is_empty() {
             if k.is_some() || kv.is_some() || cv.is_some() {
                 fitting::find_kind("given")
+            } else if c.errors > 0 {
+                // The K, Kv or Cv (or the item cell itself) holds an error already: that is why
+                // nothing describes the fitting, and saying so again adds nothing.
+                return;
             } else {
                 c.error(
                     "item",
@@ -101,8 +106,12 @@ pub(super) fn read_fittings(input: &Input, sink: &mut Sink) -> Vec<FittingRow> {
         };
         let Some(kind) = kind else { return };
         let mut assumed = Vec::new();
-        let qty = match c.positive("qty", false) {
-            Some(q) => q,
+        let qty = match c.positive("qty", false).map(quantity::fitting_count) {
+            Some(Ok(q)) => q,
+            Some(Err(e)) => {
+                c.error("qty", e.to_string(), Some(quantity::COUNT_HINT.into()));
+                1.0
+            }
             None => {
                 if c.errors == 0 {
                     assumed.push(c.assumed("qty", "quantity 1".into()));

@@ -13,7 +13,7 @@ mod pump_curve;
 mod systems;
 
 pub use cells::format_number;
-pub(crate) use cells::{Cells, decimal_comma_columns, skip_reason, truncate};
+pub(crate) use cells::{Cells, data_text, decimal_comma_columns, erred_row, skip_reason, truncate};
 pub use fittings::FittingRow;
 pub use fluids::FluidRow;
 pub use lines::{LineRow, Service};
@@ -57,6 +57,7 @@ pub fn read_all(input: &mut Input) {
         let input = &*input;
         std::thread::scope(|scope| {
             let fittings = scope.spawn(|| {
+                crate::worker::fault::point(crate::worker::fault::Place::Read);
                 let mut sink = TableSink::default();
                 let rows = fittings::read_fittings(input, &mut sink);
                 (sink, rows)
@@ -100,8 +101,28 @@ pub fn cross_check(input: &mut Input) {
             .map(|c| c.col)
             .unwrap_or(0)
     };
+    // A line whose runs were all left out by their errors: its fittings are not checked, and the
+    // first run's error says so once instead of one more error per fitting.
+    let mut erred_runs: Vec<(&str, &CellRef, usize)> = Vec::new();
+    for e in input
+        .report
+        .erred
+        .iter()
+        .filter(|e| e.table == TableKind::Pipes)
+    {
+        if let Some(line) = e.line.as_deref()
+            && !pipe_lines.contains(line)
+            && !erred_runs.iter().any(|(l, _, _)| *l == line)
+        {
+            erred_runs.push((line, &e.cell, 0));
+        }
+    }
     for f in &input.fittings {
         if !pipe_lines.contains(f.line.as_str()) {
+            if let Some(e) = erred_runs.iter_mut().find(|(l, _, _)| *l == f.line) {
+                e.2 += 1;
+                continue;
+            }
             diags.push(Diagnostic {
                 severity: Severity::Error,
                 file: input.file_of(&f.origin.sheet).to_string(),
@@ -125,19 +146,28 @@ pub fn cross_check(input: &mut Input) {
         .map(|p| p.line.as_str())
         .collect();
     let listed: HashSet<&str> = input.lines.iter().map(|l| l.line.as_str()).collect();
+    let error_cells: HashSet<&CellRef> = input
+        .diagnostics
+        .iter()
+        .filter(|d| d.severity == Severity::Error)
+        .filter_map(|d| d.cell.as_ref())
+        .collect();
     for l in &input.lines {
+        let cell = CellRef::new(
+            &l.origin.sheet,
+            l.origin.row,
+            col_of(input, TableKind::Lines, &l.origin.sheet, "flow"),
+        );
+        // A flow cell with an error of its own (#REF!, a negative flow) is not blank as well.
         if l.flow_m3_s.is_none()
+            && !error_cells.contains(&cell)
             && !pipe_flow.contains(l.line.as_str())
             && pipe_lines.contains(l.line.as_str())
         {
             diags.push(Diagnostic {
                 severity: Severity::Error,
                 file: input.file_of(&l.origin.sheet).to_string(),
-                cell: Some(CellRef::new(
-                    &l.origin.sheet,
-                    l.origin.row,
-                    col_of(input, TableKind::Lines, &l.origin.sheet, "flow"),
-                )),
+                cell: Some(cell),
                 message: format!("line '{}' has no flow", l.line),
                 hint: Some("enter the line's design flow (a blank is not read as zero)".into()),
             });
@@ -184,5 +214,22 @@ pub fn cross_check(input: &mut Input) {
             hint: Some("enter at least one run (line, size, length) below the header".into()),
         });
     }
+    fold_unchecked(&mut input.diagnostics, &erred_runs);
     input.diagnostics.extend(diags);
+}
+
+/// Append "…and N fittings on line 'L' are not checked" to the first error of each line whose
+/// runs were all left out (`erred_runs`: line, cell of that error, fittings not checked).
+fn fold_unchecked(diagnostics: &mut [Diagnostic], erred_runs: &[(&str, &CellRef, usize)]) {
+    for &(line, cell, n) in erred_runs.iter().filter(|e| e.2 > 0) {
+        let first = diagnostics
+            .iter_mut()
+            .find(|d| d.severity == Severity::Error && d.cell.as_ref() == Some(cell));
+        if let Some(d) = first {
+            let (s, are) = if n == 1 { ("", "is") } else { ("s", "are") };
+            d.message.push_str(&format!(
+                " …and {n} fitting{s} on line '{line}' {are} not checked (the line has no other pipe run)"
+            ));
+        }
+    }
 }
