@@ -44,6 +44,11 @@ pub fn unit_label(spec: &ColumnSpec, units: UnitSystem) -> Option<&'static str> 
     Some(match (units, q) {
         (_, Quantity::Fraction) => "%",
         (_, Quantity::Duration) => "h",
+        (_, Quantity::Energy) => "kWh/yr",
+        (UnitSystem::Si, Quantity::Volume) => "m3/yr",
+        (UnitSystem::Us, Quantity::Volume) => "gal/yr",
+        (UnitSystem::Si, Quantity::Power) => "kW",
+        (UnitSystem::Us, Quantity::Power) => "hp",
         (UnitSystem::Si, Quantity::Length) => {
             if fine {
                 "mm"

@@ -885,6 +885,12 @@ fn write_basis(
         super::ranking::SYSTEMS_CAUTION,
         false,
     )?;
+    line(
+        ws,
+        "Caution on energy figures",
+        crate::audit::station::STATION_CAUTION,
+        false,
+    )?;
     line(ws, "", "", false)?;
     line(ws, "Fluid properties used", "", true)?;
     for f in &audit.fluids {
@@ -936,6 +942,22 @@ fn write_basis(
         (
             "Systems",
             "Required head = static head + sum of line losses, each line at its own flow; system curve 0–130 % of duty with friction factors and Re-dependent K recomputed at each flow; operating point where a given pump curve meets it.",
+        ),
+        (
+            "Station energy",
+            "Metered: specific energy e = kWh / m3; wire-to-water = (ρ g / 3.6e6) × H / e with H the computed required head at duty (ISO/ASME 14414, ASME EA-2). Test point: head given or (p_discharge − p_suction)/(ρ g); wire-to-water = ρ g Q H / P. Piping share = line losses / required head. Rules [station]: min_wire_to_water, max_loss_share, head_tolerance, motor_efficiency (common practice); preferred region preferred_min–preferred_max of best-efficiency flow (ANSI/HI 9.6.3). Screening estimates.",
+        ),
+        (
+            "Pump curve efficiency",
+            "Best-efficiency point: vertex of the parabola through the highest efficiency point and its neighbours (Efficiency, else ρ g Q H / shaft power). The pump efficiency at the operating point (else at duty) × [station] motor_efficiency replaces the rules' flat efficiency for the system's lines where Lines and Systems give none.",
+        ),
+        (
+            "Savings by control",
+            "Control (Systems; default fixed, assumed and marked): speed — saved at once, new speed by the affinity laws r² H(Q/r) against the system curve with its static head; fixed — the operating point re-solved with the loss removed (loss ∝ Q²), saving conditional on trimming or speed control; throttled — the throttling valve's loss is saved once speed control or trimming replaces it. Each saving at the line's flow with its efficiency held.",
+        ),
+        (
+            "Life-cycle view",
+            "Present value of each saving = S × (1 − (1 + i)^−n) / i over [life_cycle] years n at discount_rate i (HI/Europump pump life-cycle cost guide); net present value = present value − replacement cost.",
         ),
         (
             "NPSH",

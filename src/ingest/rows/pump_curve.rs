@@ -1,7 +1,7 @@
 //! Rows of `Pump curve`: head-versus-flow points of a system's pump.
 
 use super::Origin;
-use super::cells::{Sink, for_each_row};
+use super::cells::{Cells, Sink, for_each_row};
 use crate::ingest::Input;
 use crate::ingest::schema::TableKind;
 
@@ -18,6 +18,10 @@ pub struct PumpCurveRow {
     pub head_m: f64,
     /// NPSH required at that flow, m (None: not given).
     pub npsh_required_m: Option<f64>,
+    /// Pump efficiency at that flow, fraction (None: not given).
+    pub efficiency: Option<f64>,
+    /// Pump shaft power at that flow, W (None: not given).
+    pub power_w: Option<f64>,
 }
 
 pub(super) fn read_pump_curves(input: &Input, sink: &mut Sink) -> Vec<PumpCurveRow> {
@@ -34,6 +38,8 @@ pub(super) fn read_pump_curves(input: &Input, sink: &mut Sink) -> Vec<PumpCurveR
         let flow = c.positive("flow", true);
         let head = c.positive("head", true);
         let npsh_required_m = c.positive("npsh_required", true);
+        let efficiency = efficiency(c);
+        let power_w = c.positive("power", false);
         match (flow, head) {
             (Some(flow_m3_s), Some(head_m)) => pump_curves.push(PumpCurveRow {
                 origin: Origin {
@@ -44,6 +50,8 @@ pub(super) fn read_pump_curves(input: &Input, sink: &mut Sink) -> Vec<PumpCurveR
                 flow_m3_s,
                 head_m,
                 npsh_required_m,
+                efficiency,
+                power_w,
             }),
             _ if c.errors == 0 => c.error(
                 "flow",
@@ -54,4 +62,18 @@ pub(super) fn read_pump_curves(input: &Input, sink: &mut Sink) -> Vec<PumpCurveR
         }
     });
     pump_curves
+}
+
+/// A curve point's pump efficiency: 0 (shut-off) to 1; above 100 % is impossible.
+fn efficiency(c: &mut Cells<'_>) -> Option<f64> {
+    let e = c.positive("efficiency", true)?;
+    if e <= 1.0 {
+        return Some(e);
+    }
+    c.error(
+        "efficiency",
+        format!("pump efficiency {:.1} % is above 100 %", e * 100.0),
+        Some("give the efficiency from the maker's curve, e.g. 78 % or 0.78".into()),
+    );
+    None
 }
