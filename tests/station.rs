@@ -46,7 +46,7 @@ fn pt(q: f64, h: f64) -> CurvePoint {
     }
 }
 
-/// Example 6 and 7's pump: 35 m at shut-off, 15 m at 0.1 m³/s (straight), and its efficiency.
+/// Examples 6 to 8's pump: 35 m at shut-off, 15 m at 0.1 m³/s (straight), and its efficiency.
 fn example_pump() -> (Vec<CurvePoint>, Vec<CurvePoint>) {
     (
         vec![pt(0.0, 35.0), pt(0.1, 15.0)],
@@ -95,7 +95,7 @@ fn theoretical_minimum_is_rho_g_over_3_6e6_at_the_station_temperature() {
     }
 }
 
-// Source: docs/energy.md, worked example 6 (hand-worked: quadratic formula for the speed ratio
+// Source: docs/energy.md, worked example 7 (hand-worked: quadratic formula for the speed ratio
 // on a straight pump curve, linear interpolation of the efficiency points).
 #[test]
 fn speed_saving_by_the_affinity_laws_matches_the_hand_worked_example() {
@@ -118,7 +118,7 @@ fn speed_saving_by_the_affinity_laws_matches_the_hand_worked_example() {
     assert!(p0 * (1.0 - r1.powi(3)) > 1.1 * (p0 - p1));
 }
 
-// Source: docs/energy.md, worked example 7 (hand-worked: quadratic formula).
+// Source: docs/energy.md, worked example 8 (hand-worked: quadratic formula).
 #[test]
 fn fixed_speed_operating_point_with_the_loss_removed_matches_the_hand_worked_example() {
     let (pump, eff) = example_pump();
@@ -135,7 +135,7 @@ fn fixed_speed_operating_point_with_the_loss_removed_matches_the_hand_worked_exa
     assert!(rel(p, 18_257.138_109_242_092) < 1e-9, "{p}");
 }
 
-// Source: docs/energy.md, worked example 8 (hand-worked): the vertex of the symmetric three
+// Source: docs/energy.md, worked example 6 (hand-worked): the vertex of the symmetric three
 // points is the middle one; the uniform-series present worth factor at 5 % over 15 years.
 #[test]
 fn best_efficiency_point_and_present_value_match_the_hand_worked_example() {
@@ -295,7 +295,7 @@ fn speed_control_saves_at_once_with_the_affinity_laws() {
     assert_eq!(v.case, SavingCase::Speed);
     assert!(!v.conditional);
     let sp = v.speed.expect("pump curve given");
-    // Consistency with the library functions of example 6 on the audit's own figures.
+    // Consistency with the library functions of example 7 on the audit's own figures.
     let r1 = speed_ratio(
         &s.pump_curve,
         s.flow_m3_s,

@@ -3,7 +3,7 @@
 //! system curve with static head, the fixed-speed operating point with a loss removed, and the
 //! present value of a saving.
 //!
-//! Pure functions, checked against the hand-worked examples 5 to 7 of `docs/energy.md`.
+//! Pure functions, checked against the hand-worked examples 5 to 8 of `docs/energy.md`.
 
 use serde::Serialize;
 

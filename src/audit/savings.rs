@@ -1,4 +1,4 @@
-//! What each saving is worth under its system's flow control (docs/energy.md §9): the case per
+//! What each saving is worth under its system's flow control (docs/energy.md §10): the case per
 //! suggestion, the fixed-speed operating point with the loss removed, the speed-control figures
 //! by the affinity laws, the system totals and the present value of each saving.
 

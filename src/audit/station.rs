@@ -1,7 +1,7 @@
 //! Per-station additions to each system: measured performance (metered energy and volume, a
 //! site test point), the pump curve's best-efficiency point, preferred operating region and
 //! efficiency at the operating point, and what each saving is worth under the system's flow
-//! control, with its present value. See `docs/energy.md` §8–§10.
+//! control, with its present value. See `docs/energy.md` §8–§11.
 //!
 //! [`pump_curves`] runs before the energy review (its efficiency at the operating point replaces
 //! the flat default there); [`apply`] runs after it (it reads the suggestions' head savings).

@@ -36,7 +36,7 @@ pub struct SystemRow {
     pub test_point: Option<TestPoint>,
 }
 
-/// How a system's flow is set, which decides what a lower loss saves (docs/energy.md §8).
+/// How a system's flow is set, which decides what a lower loss saves (docs/energy.md §10).
 #[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize)]
 #[serde(rename_all = "kebab-case")]
 pub enum Control {
