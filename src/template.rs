@@ -391,7 +391,12 @@ fn table_sheet(
         ws.write_string_with_format(EXAMPLE_ROW, rc, EXAMPLE_NOTE, invented)?;
     }
     ws.set_freeze_panes(UNITS_ROW + 1, 0)?;
-    for (key, list) in [("service", 0usize), ("item", 1), ("material", 2), ("control", 3)] {
+    for (key, list) in [
+        ("service", 0usize),
+        ("item", 1),
+        ("material", 2),
+        ("control", 3),
+    ] {
         let Some(c) = cols.iter().position(|col| col.key == key) else {
             continue;
         };

@@ -156,7 +156,10 @@ fn control_list_holds_the_three_controls() {
         .collect();
     assert_eq!(ids, ["fixed", "throttled", "speed"]);
     for id in &ids {
-        assert!(lossledger::ingest::rows::Control::parse(id).is_some(), "{id} reads back");
+        assert!(
+            lossledger::ingest::rows::Control::parse(id).is_some(),
+            "{id} reads back"
+        );
     }
 }
 

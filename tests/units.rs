@@ -255,7 +255,11 @@ fn energy_volume_and_power_spellings() {
     check("kW", Quantity::Power, 1e3, "kW");
     check("hp", Quantity::Power, 745.699_871_582_270_2, "hp");
     check("W", Quantity::Power, 1.0, "W");
-    assert_eq!(parse_unit("ml/yr", Quantity::Volume), None, "millilitres are not megalitres");
+    assert_eq!(
+        parse_unit("ml/yr", Quantity::Volume),
+        None,
+        "millilitres are not megalitres"
+    );
     assert_eq!(parse_unit("/yr", Quantity::Energy), None);
     assert_eq!(parse_unit("kWh/h", Quantity::Energy), None);
 }

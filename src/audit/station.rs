@@ -32,8 +32,8 @@ pub struct Measured {
     pub specific_energy_kwh_m3: f64,
     /// Head it is referred to: the computed required head at duty, m.
     pub head_m: f64,
-    /// Specific energy per metre of that head, kWh/(m³·m).
-    pub specific_energy_kwh_m3_m: f64,
+    /// Specific energy per metre of that head, kWh/(m³·m) (None when the head is 0).
+    pub specific_energy_kwh_m3_m: Option<f64>,
     /// Wire-to-water efficiency: the theoretical minimum over the specific energy.
     pub wire_to_water: f64,
 }
@@ -47,8 +47,8 @@ pub struct TestResult {
     pub power_w: f64,
     /// Specific energy, kWh/m³.
     pub specific_energy_kwh_m3: f64,
-    /// Specific energy per metre of the test head, kWh/(m³·m).
-    pub specific_energy_kwh_m3_m: f64,
+    /// Specific energy per metre of the test head, kWh/(m³·m) (None when the head is 0).
+    pub specific_energy_kwh_m3_m: Option<f64>,
     /// Wire-to-water efficiency, `ρ g Q H / P`.
     pub wire_to_water: f64,
     /// The computed system head at the test flow, m.
@@ -414,11 +414,7 @@ impl Measure<'_> {
             volume_m3: m.volume_m3,
             specific_energy_kwh_m3: se,
             head_m: s.required_head_m,
-            specific_energy_kwh_m3_m: if s.required_head_m > 0.0 {
-                se / s.required_head_m
-            } else {
-                f64::NAN
-            },
+            specific_energy_kwh_m3_m: (s.required_head_m > 0.0).then(|| se / s.required_head_m),
             wire_to_water: w2w,
         })
     }
@@ -475,7 +471,7 @@ impl Measure<'_> {
             },
             power_w: t.power_w,
             specific_energy_kwh_m3: se,
-            specific_energy_kwh_m3_m: if head > 0.0 { se / head } else { f64::NAN },
+            specific_energy_kwh_m3_m: (head > 0.0).then(|| se / head),
             wire_to_water: w2w,
             computed_head_m: computed,
             head_difference_m: head - computed,

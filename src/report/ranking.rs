@@ -945,7 +945,12 @@ fn console_systems(audit: &Audit, width: Option<usize>) -> String {
     for line in defaults_applied(audit) {
         out.push_str(&fitted_text(&line, width));
     }
+    for s in &audit.systems {
+        let line = super::station::console_line(s, &audit.energy.currency);
+        out.push_str(&fitted_text(&line, width));
+    }
     out.push_str(&fitted_text(SYSTEMS_CAUTION, width));
+    out.push_str(&fitted_text(crate::audit::station::STATION_CAUTION, width));
     out.push('\n');
     out
 }

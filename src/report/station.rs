@@ -9,6 +9,10 @@ fn m3h(q: f64) -> f64 {
     q * 3600.0
 }
 
+fn per_metre(x: Option<f64>) -> String {
+    x.map_or("—".into(), |v| format!("{v:.6}"))
+}
+
 fn pct(x: f64) -> String {
     format!("{:.1} %", x * 100.0)
 }
@@ -36,14 +40,14 @@ pub fn station_rows(s: &SystemResult, rules: &Rules, cur: &str) -> Vec<(&'static
     }
     if let Some(m) = s.measured {
         rows.push(("Metered performance", format!(
-            "{:.0} kWh for {:.0} m3 a year: {:.4} kWh/m3, {:.6} kWh/m3/m of the computed {:.2} m; wire-to-water {}",
-            m.energy_kwh, m.volume_m3, m.specific_energy_kwh_m3, m.specific_energy_kwh_m3_m, m.head_m, pct(m.wire_to_water)
+            "{:.0} kWh for {:.0} m3 a year: {:.4} kWh/m3, {} kWh/m3/m of the computed {:.2} m; wire-to-water {}",
+            m.energy_kwh, m.volume_m3, m.specific_energy_kwh_m3, per_metre(m.specific_energy_kwh_m3_m), m.head_m, pct(m.wire_to_water)
         )));
     }
     if let Some(t) = s.test {
         rows.push(("Test point (measured operating point)", format!(
-            "{:.1} m3/h at {:.2} m drawing {:.2} kW: {:.4} kWh/m3, {:.6} kWh/m3/m; wire-to-water {}; computed system head there {:.2} m ({:+.2} m)",
-            m3h(t.point.flow_m3_s), t.point.head_m, t.power_w / 1e3, t.specific_energy_kwh_m3, t.specific_energy_kwh_m3_m, pct(t.wire_to_water), t.computed_head_m, t.head_difference_m
+            "{:.1} m3/h at {:.2} m drawing {:.2} kW: {:.4} kWh/m3, {} kWh/m3/m; wire-to-water {}; computed system head there {:.2} m ({:+.2} m)",
+            m3h(t.point.flow_m3_s), t.point.head_m, t.power_w / 1e3, t.specific_energy_kwh_m3, per_metre(t.specific_energy_kwh_m3_m), pct(t.wire_to_water), t.computed_head_m, t.head_difference_m
         )));
     }
     pump_rows(s, rules, &mut rows);
@@ -110,4 +114,50 @@ fn savings_rows(
             m3h(c.before.flow_m3_s), c.before.head_m, c.power_before_w / 1e3, m3h(c.after.flow_m3_s), c.after.head_m, c.power_after_w / 1e3
         )));
     }
+}
+
+/// One sentence per system for the console: control, piping share, measured wire-to-water,
+/// best-efficiency flow and the savings with their case.
+pub fn console_line(s: &SystemResult, cur: &str) -> String {
+    let mut parts = vec![format!("control {} ({})", s.control.id(), s.control_basis)];
+    if let Some(x) = s.loss_share {
+        parts.push(format!("piping {} of the head", pct(x)));
+    }
+    if let Some(m) = s.measured {
+        parts.push(format!(
+            "metered {:.4} kWh/m3, wire-to-water {}",
+            m.specific_energy_kwh_m3,
+            pct(m.wire_to_water)
+        ));
+    }
+    if let Some(t) = s.test {
+        parts.push(format!(
+            "test {:.1} m3/h at {:.2} m, wire-to-water {}, computed head there {:.2} m",
+            m3h(t.point.flow_m3_s),
+            t.point.head_m,
+            pct(t.wire_to_water),
+            t.computed_head_m
+        ));
+    }
+    if let Some(p) = s.pump_efficiency {
+        parts.push(format!(
+            "best efficiency {:.1} m3/h, duty at {:.0} %{}",
+            m3h(p.best.flow_m3_s),
+            p.duty_ratio * 100.0,
+            if p.outside_preferred {
+                " (outside 70–120 %)"
+            } else {
+                ""
+            }
+        ));
+    }
+    if let Some(v) = &s.savings {
+        parts.push(format!(
+            "savings {cur} {:.0}/yr, present value {cur} {:.0} ({})",
+            v.annual_saving,
+            v.present_value,
+            v.case.label()
+        ));
+    }
+    format!("System {} energy: {}.", s.system, parts.join("; "))
 }
