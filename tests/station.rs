@@ -258,6 +258,29 @@ fn the_curve_efficiency_at_the_operating_point_replaces_the_flat_default() {
         assert_eq!(l.efficiency, pe.wire_to_water);
         assert_eq!(l.efficiency_basis, CURVE_BASIS);
     }
+    // Basis says which lines took the curve's efficiency instead of the flat default.
+    let input =
+        lossledger::ingest::read_path(&station_book("curve-eff-basis", 20.0, &[], vec![], None))
+            .unwrap();
+    let bytes = lossledger::report::workbook::build(&input, &a).unwrap();
+    let mut book: calamine::Xlsx<_> =
+        calamine::open_workbook_from_rs(std::io::Cursor::new(bytes)).unwrap();
+    use calamine::Reader;
+    let basis = book.worksheet_range("Basis").unwrap();
+    let row = basis
+        .rows()
+        .find(|r| {
+            r.first()
+                .is_some_and(|c| c.to_string() == "Efficiency of system B")
+        })
+        .expect("Basis names the curve efficiency");
+    assert!(
+        row[1]
+            .to_string()
+            .contains("instead of the flat 65.0 % for lines S1, D1"),
+        "{:?}",
+        row[1]
+    );
     // Best efficiency between 180 and 240 m³/h: the duty (180) is inside 70–120 %.
     assert!(pe.best.flow_m3_s > 180.0 / 3600.0 && pe.best.flow_m3_s < 240.0 / 3600.0);
     assert!(!pe.outside_preferred);

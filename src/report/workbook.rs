@@ -834,6 +834,42 @@ fn write_findings(
     Ok(())
 }
 
+/// One Basis line per system whose pump curve gave the efficiency of some of its lines (in
+/// place of the rules' flat default): where it was read and which lines used it.
+fn curve_efficiency_lines(audit: &Audit) -> Vec<(String, String)> {
+    let st = &audit.rules.station;
+    audit
+        .systems
+        .iter()
+        .filter_map(|s| {
+            let p = s.pump_efficiency?;
+            let (e, w) = (p.pump_efficiency?, p.wire_to_water?);
+            let lines: Vec<&str> = s
+                .lines
+                .iter()
+                .filter_map(|l| audit.line_of(l))
+                .map(|i| &audit.lines[i])
+                .filter(|l| l.efficiency_basis == crate::audit::energy::CURVE_BASIS && l.efficiency == Some(w))
+                .map(|l| l.line.as_str())
+                .collect();
+            (!lines.is_empty()).then(|| {
+                (
+                    format!("Efficiency of system {}", s.system),
+                    format!(
+                        "pump curve {:.1} % at {:.1} m3/h × motor {:.1} % = {:.1} % wire-to-water, used instead of the flat {:.1} % for lines {}",
+                        e * 100.0,
+                        p.flow_m3_s * 3600.0,
+                        st.motor_efficiency * 100.0,
+                        w * 100.0,
+                        audit.rules.energy.efficiency * 100.0,
+                        lines.join(", ")
+                    ),
+                )
+            })
+        })
+        .collect()
+}
+
 fn write_basis(
     ws: &mut Worksheet,
     input: &Input,
@@ -965,6 +1001,9 @@ fn write_basis(
         ),
     ] {
         line(ws, a, b, false)?;
+    }
+    for (a, b) in curve_efficiency_lines(audit) {
+        line(ws, &a, &b, false)?;
     }
     line(ws, "", "", false)?;
     // Each kind, model and source in use once (the Fittings copy names kind and model per row).
