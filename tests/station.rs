@@ -259,9 +259,8 @@ fn the_curve_efficiency_at_the_operating_point_replaces_the_flat_default() {
         assert_eq!(l.efficiency_basis, CURVE_BASIS);
     }
     // Basis says which lines took the curve's efficiency instead of the flat default.
-    let input =
-        lossledger::ingest::read_path(&station_book("curve-eff-basis", 20.0, &[], vec![], None))
-            .unwrap();
+    let path = station_book("curve-eff", 20.0, &["Control"], vec![C::S("fixed")], None);
+    let input = lossledger::ingest::read_path(&path).unwrap();
     let bytes = lossledger::report::workbook::build(&input, &a).unwrap();
     let mut book: calamine::Xlsx<_> =
         calamine::open_workbook_from_rs(std::io::Cursor::new(bytes)).unwrap();
@@ -271,7 +270,7 @@ fn the_curve_efficiency_at_the_operating_point_replaces_the_flat_default() {
         .rows()
         .find(|r| {
             r.first()
-                .is_some_and(|c| c.to_string() == "Efficiency of system B")
+                .is_some_and(|c| *c == calamine::Data::String("Efficiency of system B".into()))
         })
         .expect("Basis names the curve efficiency");
     assert!(
