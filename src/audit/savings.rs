@@ -364,7 +364,8 @@ fn resolve(
 }
 
 /// Each of the system's largest suggestions re-solved alone at fixed speed (fixed and throttled
-/// systems with an operating point): (fitting, new point, its input power).
+/// systems with an operating point): (fitting, new point, its input power). The system curve is
+/// sampled once ([`pump::scan_grid`]) and each point bracketed on it.
 fn resolve_each(
     audit: &Audit,
     models: &[FittingModel],
@@ -372,7 +373,7 @@ fn resolve_each(
     fis: &[usize],
 ) -> Vec<(usize, CurvePoint, Option<f64>)> {
     let s = &audit.systems[si];
-    if s.control == Control::Speed || s.operating_point.is_none() {
+    if s.control == Control::Speed || s.operating_point.is_none() || s.flow_m3_s <= 0.0 {
         return Vec::new();
     }
     let head = |fi: usize| {
@@ -386,10 +387,14 @@ fn resolve_each(
     order.truncate(RESOLVE_LIMIT);
     let held = held_efficiency(&audit.rules, audit, s);
     let rho = density(audit, s);
+    let idx: Vec<usize> = s.lines.iter().filter_map(|l| audit.line_of(l)).collect();
+    let duty = s.flow_m3_s;
+    let system = |q: f64| required_head_at(audit, models, &idx, s.static_head_m, q / duty);
+    let grid = pump::scan_grid(&s.pump_curve, system);
     order
         .into_iter()
         .filter_map(|fi| {
-            let p = resolve(audit, models, s, head(fi))?;
+            let p = pump::resolved_point_on(&s.pump_curve, &grid, system, head(fi), duty)?;
             let (e, _) = efficiency_at(&audit.rules, s, held, p.flow_m3_s);
             Some((
                 fi,
