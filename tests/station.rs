@@ -868,6 +868,18 @@ fn impossible_measured_values_are_errors_at_their_cells_with_a_hint() {
             "below the suction",
         ),
         (
+            "a Systems efficiency above 100 %",
+            station_book(
+                "bad-sys-eff",
+                20.0,
+                &["Efficiency [%]"],
+                vec![C::N(120.0)],
+                None,
+            ),
+            "Systems!D2",
+            "above 100 %",
+        ),
+        (
             "unknown control",
             station_book(
                 "bad-control",

@@ -1,7 +1,7 @@
 //! Rows of `Pump curve`: head-versus-flow points of a system's pump.
 
 use super::Origin;
-use super::cells::{Cells, Sink, for_each_row};
+use super::cells::{Sink, for_each_row};
 use crate::ingest::Input;
 use crate::ingest::schema::TableKind;
 
@@ -38,7 +38,7 @@ pub(super) fn read_pump_curves(input: &Input, sink: &mut Sink) -> Vec<PumpCurveR
         let flow = c.positive("flow", true);
         let head = c.positive("head", true);
         let npsh_required_m = c.positive("npsh_required", true);
-        let efficiency = efficiency(c);
+        let efficiency = c.efficiency("efficiency", true);
         let power_w = c.positive("power", false);
         match (flow, head) {
             (Some(flow_m3_s), Some(head_m)) => pump_curves.push(PumpCurveRow {
@@ -62,18 +62,4 @@ pub(super) fn read_pump_curves(input: &Input, sink: &mut Sink) -> Vec<PumpCurveR
         }
     });
     pump_curves
-}
-
-/// A curve point's pump efficiency: 0 (shut-off) to 1; above 100 % is impossible.
-fn efficiency(c: &mut Cells<'_>) -> Option<f64> {
-    let e = c.positive("efficiency", true)?;
-    if e <= 1.0 {
-        return Some(e);
-    }
-    c.error(
-        "efficiency",
-        format!("pump efficiency {:.1} % is above 100 %", e * 100.0),
-        Some("give the efficiency from the maker's curve, e.g. 78 % or 0.78".into()),
-    );
-    None
 }

@@ -137,7 +137,7 @@ pub(super) fn read_systems(input: &Input, sink: &mut Sink) -> Vec<SystemRow> {
             source_pressure_pa: c.positive("source_pressure", false),
             suction_level_m: c.number("suction_level"),
             site_elevation_m: site_elevation(c),
-            efficiency: c.positive("efficiency", false),
+            efficiency: c.efficiency("efficiency", false),
             control: control(c),
             metered: metered(c),
             test_point: test_point(c),
