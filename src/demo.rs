@@ -4,8 +4,9 @@
 //! Kestrel Ridge booster station does not exist; its tags, flows and lengths are invented to show
 //! a realistic mix: two pump sets of different sizes, an expansion after a pump, a part-open valve
 //! with a datasheet K, a formula cell, and one suction line above its velocity limit; two pump
-//! systems (one on a pump curve, one whose pump falls short), a fouled strainer and replacement
-//! costs for the energy review.
+//! systems (one on a pump curve with efficiency points, throttled by a control valve and with a
+//! site test point; one whose pump falls short, at fixed speed with a year's meter readings), a
+//! fouled strainer and replacement costs for the energy review.
 
 use rust_xlsxwriter::{
     DocProperties, ExcelDateTime, Format, Formula, Workbook, Worksheet, XlsxError,
@@ -427,6 +428,12 @@ pub fn input_workbook() -> Result<Vec<u8>, XlsxError> {
             "Suction level [m]",
             "Efficiency [%]",
             "Remarks",
+            "Control",
+            "Metered energy [kWh/yr]",
+            "Metered volume [m3/yr]",
+            "Test flow [m3/h]",
+            "Test head [m]",
+            "Test power [kW]",
         ],
         &[
             vec![
@@ -437,7 +444,15 @@ pub fn input_workbook() -> Result<Vec<u8>, XlsxError> {
                 N(4.5),
                 N(1.5),
                 N(68.0),
-                S("pump head from the Pump curve sheet"),
+                S(
+                    "pump head from the Pump curve sheet; flow set by KR-D1-CV; site test (invented)",
+                ),
+                S("throttled"),
+                E,
+                E,
+                N(185.0),
+                N(27.2),
+                N(22.0),
             ],
             vec![
                 S("Duty B"),
@@ -447,7 +462,13 @@ pub fn input_workbook() -> Result<Vec<u8>, XlsxError> {
                 N(3.8),
                 N(-5.5),
                 N(58.0),
-                S("suction lift from wet well B"),
+                S("suction lift from wet well B; last year's meter readings (invented)"),
+                S("fixed"),
+                N(19_000.0),
+                N(160_000.0),
+                E,
+                E,
+                E,
             ],
         ],
     )?;
@@ -455,14 +476,20 @@ pub fn input_workbook() -> Result<Vec<u8>, XlsxError> {
         wb.add_worksheet(),
         "Pump curve",
         "Kestrel Ridge booster station — pump P-101 test points (invented)",
-        &["System", "Flow [m3/h]", "Head [m]", "NPSH required [m]"],
         &[
-            vec![S("Duty A"), N(0.0), N(34.0), E],
-            vec![S("Duty A"), N(100.0), N(32.5), N(3.0)],
-            vec![S("Duty A"), N(150.0), N(30.5), N(3.7)],
-            vec![S("Duty A"), N(180.0), N(28.8), N(4.5)],
-            vec![S("Duty A"), N(210.0), N(26.5), N(5.6)],
-            vec![S("Duty A"), N(240.0), N(23.5), N(7.2)],
+            "System",
+            "Flow [m3/h]",
+            "Head [m]",
+            "NPSH required [m]",
+            "Efficiency [%]",
+        ],
+        &[
+            vec![S("Duty A"), N(0.0), N(34.0), E, E],
+            vec![S("Duty A"), N(100.0), N(32.5), N(3.0), N(62.0)],
+            vec![S("Duty A"), N(150.0), N(30.5), N(3.7), N(74.0)],
+            vec![S("Duty A"), N(180.0), N(28.8), N(4.5), N(79.0)],
+            vec![S("Duty A"), N(210.0), N(26.5), N(5.6), N(80.0)],
+            vec![S("Duty A"), N(240.0), N(23.5), N(7.2), N(77.0)],
         ],
     )?;
     wb.save_to_buffer()

@@ -8,7 +8,7 @@ use rust_xlsxwriter::{
 };
 use std::path::Path;
 
-use crate::ingest::rows::Service;
+use crate::ingest::rows::{Control, Service};
 use crate::ingest::schema::{self, ColumnSpec, ColumnType, TableKind};
 use crate::physics::{fitting, pipe};
 use crate::report::console::UnitSystem;
@@ -44,6 +44,11 @@ pub fn unit_label(spec: &ColumnSpec, units: UnitSystem) -> Option<&'static str> 
     Some(match (units, q) {
         (_, Quantity::Fraction) => "%",
         (_, Quantity::Duration) => "h",
+        (_, Quantity::Energy) => "kWh/yr",
+        (UnitSystem::Si, Quantity::Volume) => "m3/yr",
+        (UnitSystem::Us, Quantity::Volume) => "gal/yr",
+        (UnitSystem::Si, Quantity::Power) => "kW",
+        (UnitSystem::Us, Quantity::Power) => "hp",
         (UnitSystem::Si, Quantity::Length) => {
             if fine {
                 "mm"
@@ -141,10 +146,15 @@ pub fn build(units: UnitSystem) -> Result<Vec<u8>, XlsxError> {
     let services: Vec<&str> = Service::ALL.iter().map(|s| s.id()).collect();
     let kinds: Vec<&str> = fitting::catalogue().iter().map(|k| k.id).collect();
     let materials: Vec<&str> = pipe::Material::ALL.iter().map(|m| m.name()).collect();
+    let controls: Vec<&str> = [Control::Fixed, Control::Throttled, Control::Speed]
+        .iter()
+        .map(|c| c.id())
+        .collect();
     let lists = [
         ("Service list", &services),
         ("Item kind list", &kinds),
         ("Material list", &materials),
+        ("Control list", &controls),
     ];
 
     let formats = Formats {
@@ -381,7 +391,12 @@ fn table_sheet(
         ws.write_string_with_format(EXAMPLE_ROW, rc, EXAMPLE_NOTE, invented)?;
     }
     ws.set_freeze_panes(UNITS_ROW + 1, 0)?;
-    for (key, list) in [("service", 0usize), ("item", 1), ("material", 2)] {
+    for (key, list) in [
+        ("service", 0usize),
+        ("item", 1),
+        ("material", 2),
+        ("control", 3),
+    ] {
         let Some(c) = cols.iter().position(|col| col.key == key) else {
             continue;
         };
@@ -389,10 +404,11 @@ fn table_sheet(
         let letter = crate::error::column_letters(list as u32);
         let dv = DataValidation::new()
             .allow_list_formula(Formula::new(format!("=Lists!${letter}$2:${letter}${}", n + 1)))
-            .set_error_style(if key == "service" { DataValidationErrorStyle::Stop } else { DataValidationErrorStyle::Information })
+            .set_error_style(if matches!(key, "service" | "control") { DataValidationErrorStyle::Stop } else { DataValidationErrorStyle::Information })
             .set_input_message(match key {
                 "service" => "Pick the line's service; it selects the velocity limits.",
                 "item" => "Pick a fitting kind, or type your own words (they are matched to the catalogue).",
+                "control" => "How the flow is set: fixed speed, throttled by a valve, or speed control; it decides what a lower loss saves.",
                 _ => "Pick a material, or type your own words (e.g. HDPE, CS, SS316).",
             })?;
         write_validation(ws, c as u16, &dv)?;
@@ -406,7 +422,8 @@ fn write_validation(ws: &mut Worksheet, col: u16, dv: &DataValidation) -> Result
 }
 
 /// The cautions every template's Read me carries.
-const CAUTIONS: [&str; 2] = [
+const CAUTIONS: [&str; 3] = [
+    crate::audit::station::STATION_CAUTION,
     "Caution: the audit is a screening estimate. No line pressures are computed, so vacuum at high points and siphons are not checked; NPSH and pump checks defer to the pump maker's curves, site measurement, local codes and licensed engineering practice.",
     "Caution on suggestions: opening a valve or removing a loss on a pumped line before speed control or impeller trimming is in place lets the pump run out along its curve (more flow, higher NPSH required, possible motor overload).",
 ];
@@ -424,6 +441,7 @@ fn write_readme(ws: &mut Worksheet, units: UnitSystem, header: &Format) -> Resul
         "Check a filled workbook with: lossledger check FILE.xlsx — then audit it with: lossledger audit FILE.xlsx",
         CAUTIONS[0],
         CAUTIONS[1],
+        CAUTIONS[2],
     ];
     for t in intro {
         ws.write_string_with_format(r, 0, t, if r == 0 { &bold } else { &wrap })?;

@@ -48,6 +48,13 @@ pub enum Quantity {
     /// Running time, in hours (`h`, `hours`, and per-year forms `h/yr`, `h/a`, which read as hours
     /// per year). The internal value is hours, not seconds.
     Duration,
+    /// Electrical energy, in kWh (`kWh`, `MWh`, and per-year forms `kWh/yr`, `MWh/a`, which read
+    /// as energy per year). The internal value is kWh, not joules.
+    Energy,
+    /// Volume of liquid, in m³ (`m3`, `Ml`, `US gal`, and per-year forms `m3/yr`, `Ml/a`).
+    Volume,
+    /// Power. SI: W (`W`, `kW`, `MW`, `hp`).
+    Power,
 }
 
 /// A unit of one quantity: `si = v * scale + offset`.
@@ -441,6 +448,62 @@ const DURATION: &[Entry] = &[e(
     ],
 )];
 
+/// Per-year endings accepted after an energy or volume unit (`kWh/yr`, `m3/a`, `Ml/year`).
+const PER_YEAR: [&str; 6] = ["", "/yr", "/y", "/a", "/year", "/annum"];
+
+const ENERGY: &[Entry] = &[
+    e(
+        "kWh",
+        1.0,
+        &["kwh", "kw-h", "kilowatthour", "kilowatthours"],
+    ),
+    cs("MWh", 1.0e3, &["MWh", "MWH", "Mwh"]),
+    e("Wh", 1.0e-3, &["wh"]),
+    e("GJ", 1.0e6 / 3600.0, &["gj"]),
+];
+
+const VOLUME: &[Entry] = &[
+    e(
+        "m3",
+        1.0,
+        &[
+            "m3",
+            "cum",
+            "cbm",
+            "cubicmetre",
+            "cubicmetres",
+            "cubicmeter",
+            "cubicmeters",
+        ],
+    ),
+    cs(
+        "Ml",
+        1.0e3,
+        &[
+            "Ml",
+            "ML",
+            "megalitre",
+            "megalitres",
+            "megaliter",
+            "megaliters",
+        ],
+    ),
+    e("l", 1.0e-3, &["l", "litre", "litres", "liter", "liters"]),
+    e("US gal", US_GAL_M3, &["gal", "usgal", "gallon", "gallons"]),
+    e("ft3", FT3_M3, &["ft3", "cuft"]),
+];
+
+/// Mechanical horsepower (550 ft·lbf/s) in watts (NIST SP 811, B.8: 7.456 999 E+02 W; here
+/// from its exact definition 550 × 0.3048 m × 0.45359237 kg × 9.80665 m/s²).
+pub const HP_W: f64 = 550.0 * FT_M * LB_KG * 9.806_65;
+
+const POWER: &[Entry] = &[
+    e("W", 1.0, &["w", "watt", "watts"]),
+    e("kW", 1.0e3, &["kw", "kilowatt", "kilowatts", "kwe"]),
+    cs("MW", 1.0e6, &["MW", "MWe"]),
+    e("hp", HP_W, &["hp", "bhp", "horsepower"]),
+];
+
 fn table(quantity: Quantity) -> &'static [Entry] {
     match quantity {
         Quantity::Length => LENGTH,
@@ -453,6 +516,9 @@ fn table(quantity: Quantity) -> &'static [Entry] {
         Quantity::Viscosity => VISCOSITY,
         Quantity::Fraction => FRACTION,
         Quantity::Duration => DURATION,
+        Quantity::Energy => ENERGY,
+        Quantity::Volume => VOLUME,
+        Quantity::Power => POWER,
     }
 }
 
@@ -500,6 +566,25 @@ fn unit_from(quantity: Quantity, entry: &Entry) -> Unit {
 /// (e.g. `"mH2O"` for [`Quantity::Pressure`]: head units belong to [`Quantity::Head`]).
 #[must_use]
 pub fn parse_unit(label: &str, quantity: Quantity) -> Option<Unit> {
+    if matches!(quantity, Quantity::Energy | Quantity::Volume) {
+        let n = normalise(label);
+        return PER_YEAR.iter().rev().find_map(|end| {
+            let stem = strip_suffix_folded(&n, end)?;
+            (!stem.is_empty())
+                .then(|| parse_plain(stem, quantity))
+                .flatten()
+        });
+    }
+    parse_plain(label, quantity)
+}
+
+/// `text` without `suffix`, compared with case folded; None when it does not end so.
+fn strip_suffix_folded<'a>(text: &'a str, suffix: &str) -> Option<&'a str> {
+    let cut = text.len().checked_sub(suffix.len())?;
+    (text.is_char_boundary(cut) && text[cut..].eq_ignore_ascii_case(suffix)).then(|| &text[..cut])
+}
+
+fn parse_plain(label: &str, quantity: Quantity) -> Option<Unit> {
     let exact = normalise(label);
     let folded = exact.to_lowercase();
     let entries = table(quantity);
@@ -522,7 +607,8 @@ pub fn parse_unit(label: &str, quantity: Quantity) -> Option<Unit> {
 }
 
 /// The default unit of a quantity when a header gives none: Flow m3/h, Length m, Pressure kPa,
-/// Head m, Temperature °C, Velocity m/s, Density kg/m3, Viscosity Pa·s, Fraction %, Duration h.
+/// Head m, Temperature °C, Velocity m/s, Density kg/m3, Viscosity Pa·s, Fraction %, Duration h,
+/// Energy kWh (per year), Volume m3 (per year), Power kW.
 #[must_use]
 pub fn default_unit(quantity: Quantity) -> Unit {
     let (entries, label) = match quantity {
@@ -536,6 +622,9 @@ pub fn default_unit(quantity: Quantity) -> Unit {
         Quantity::Viscosity => (VISCOSITY, "Pa·s"),
         Quantity::Fraction => (FRACTION, "%"),
         Quantity::Duration => (DURATION, "h"),
+        Quantity::Energy => (ENERGY, "kWh"),
+        Quantity::Volume => (VOLUME, "m3"),
+        Quantity::Power => (POWER, "kW"),
     };
     entries
         .iter()

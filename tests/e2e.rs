@@ -672,3 +672,117 @@ fn demo_outputs_say_the_data_is_invented() {
         );
     }
 }
+
+/// The demo's station figures through the binary: Duty A is throttled with a site test point,
+/// Duty B at fixed speed with a year's meter readings (both invented). Expected values from the
+/// definitions of docs/energy.md §8 (wire-to-water = ρ g Q H / P, and e_min × H / e with
+/// e_min = ρ g / 3.6e6), ρ from the JSON's line density checked against the iapws fixture at 12 °C.
+#[test]
+fn demo_station_figures_follow_their_definitions_in_json_and_workbook() {
+    let dir = temp_dir("demo-station");
+    run_demo(&dir);
+    let doc: serde_json::Value = serde_json::from_str(
+        &std::fs::read_to_string(dir.join("kestrel-ridge.audit.json")).unwrap(),
+    )
+    .unwrap();
+    let rho = doc["lines"][0]["density_kg_m3"].as_f64().unwrap();
+    // fixtures/reference/water_iapws.csv at 12 °C (iapws 1.5.5, IAPWS-IF97), to 1e-4.
+    assert!((rho / 999.499_075_227_550_4 - 1.0).abs() < 1e-4, "{rho}");
+    let g = 9.80665;
+    let a = &doc["systems"][0];
+    assert_eq!(a["control"], "throttled");
+    let t = &a["test"];
+    let (q, h) = (185.0 / 3600.0, 27.2);
+    let w = t["wire_to_water"].as_f64().unwrap();
+    assert!((w - rho * g * q * h / 22_000.0).abs() < 1e-12, "{w}");
+    assert_eq!(a["savings"]["case"], "throttled");
+    assert!(a["savings"]["throttling_head_m"].as_f64().unwrap() > 0.0);
+    let b = &doc["systems"][1];
+    assert_eq!(b["control"], "fixed");
+    let m = &b["measured"];
+    let expect = rho * g / 3.6e6 * b["required_head_m"].as_f64().unwrap() / (19_000.0 / 160_000.0);
+    assert!((m["wire_to_water"].as_f64().unwrap() - expect).abs() < 1e-12);
+    let low = doc["findings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|f| f["code"] == "low-wire-to-water")
+        .expect("Duty B's meter readings give 54 %");
+    assert!(low["message"].as_str().unwrap().contains("Duty B"));
+    let mut book: Xlsx<_> = open_workbook(dir.join("kestrel-ridge.audit.xlsx")).unwrap();
+    let ranking = book.worksheet_range("Fitting ranking").unwrap();
+    let header = ranking
+        .rows()
+        .position(|r| r.first() == Some(&Data::String("Rank".into())))
+        .unwrap();
+    let col = |name: &str| {
+        ranking
+            .rows()
+            .nth(header)
+            .unwrap()
+            .iter()
+            .position(|c| c == &Data::String(name.into()))
+            .unwrap()
+    };
+    let (case, tag) = (col("Saving case"), col("Tag"));
+    let cv = ranking
+        .rows()
+        .find(|r| r[tag] == Data::String("KR-D1-CV".into()))
+        .unwrap();
+    assert!(matches!(&cv[case], Data::String(s) if s.starts_with("throttled")));
+    let systems = book.worksheet_range("System checks").unwrap();
+    let text: Vec<String> = systems
+        .rows()
+        .flat_map(|r| r.iter().map(|c| c.to_string()))
+        .collect();
+    assert!(
+        text.iter()
+            .any(|t| t == "Test point (measured operating point)")
+    );
+    assert!(
+        text.iter()
+            .any(|t| t.contains("Energy and operating-point figures are screening estimates"))
+    );
+}
+
+/// Impossible meter readings stop the audit through the binary: exit 2, the cell named with a
+/// hint, nothing written.
+#[test]
+fn impossible_meter_readings_exit_2_and_write_nothing() {
+    let dir = temp_dir("bad-meter");
+    let path = dir.join("meter.xlsx");
+    let mut wb = rust_xlsxwriter::Workbook::new();
+    pipes(
+        &mut wb,
+        &["Line", "Size", "Length [m]", "Flow [m3/h]"],
+        &["P1", "DN100", "50", "40"],
+    );
+    sheet_row(
+        &mut wb,
+        "Systems",
+        &[
+            "System",
+            "Lines",
+            "Static head [m]",
+            "Metered energy [kWh/yr]",
+            "Metered volume [m3/yr]",
+        ],
+        &["S", "P1", "30", "100", "160000"],
+    );
+    wb.save(&path).unwrap();
+    let out = dir.join("meter.audit.xlsx");
+    let o = bin()
+        .arg("audit")
+        .arg(&path)
+        .arg("-o")
+        .arg(&out)
+        .output()
+        .unwrap();
+    let stderr = String::from_utf8_lossy(&o.stderr);
+    assert_eq!(o.status.code(), Some(2), "{stderr}");
+    assert!(
+        stderr.contains("Systems!D2") && stderr.contains("theoretical minimum"),
+        "{stderr}"
+    );
+    assert!(!out.exists());
+}

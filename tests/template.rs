@@ -137,6 +137,30 @@ fn readme_carries_the_cautions() {
     assert!(all.contains("screening estimate"), "{all}");
     assert!(all.contains("vacuum at high points and siphons are not checked"));
     assert!(all.contains("before speed control or impeller trimming"));
+    assert!(all.contains("Energy and operating-point figures are screening estimates"));
+}
+
+// The Systems sheet's Control column has a drop-down of the three controls the reader accepts.
+#[test]
+fn control_list_holds_the_three_controls() {
+    let sh = sheets(UnitSystem::Si, "control-list");
+    let lists = sh.iter().find(|g| g.name == "Lists").expect("Lists");
+    let col = (0..10)
+        .find(|&c| lists.value(0, c) == &s("Control list"))
+        .expect("Control list");
+    let ids: Vec<String> = (1..4)
+        .map(|r| match lists.value(r, col) {
+            Data::String(t) => t.clone(),
+            _ => String::new(),
+        })
+        .collect();
+    assert_eq!(ids, ["fixed", "throttled", "speed"]);
+    for id in &ids {
+        assert!(
+            lossledger::ingest::rows::Control::parse(id).is_some(),
+            "{id} reads back"
+        );
+    }
 }
 
 /// The single-sheet template (`--layout list`) reads as a mixed list with its invented example

@@ -237,6 +237,33 @@ fn fraction_and_duration_spellings() {
     }
 }
 
+// Energy in kWh, volume in m³, power in W, with per-year endings; factors by definition
+// (1 MWh = 1000 kWh, 1 GJ = 10⁹/3.6e6 kWh, 1 Ml = 1000 m³) and NIST SP 811 B.8 (US gallon,
+// horsepower 550 ft·lbf/s = 745.699 871 582 270 2 W).
+#[test]
+fn energy_volume_and_power_spellings() {
+    for l in ["kWh", "kWh/yr", "kwh/a", "kWh/year", "kWh / annum"] {
+        check(l, Quantity::Energy, 1.0, "kWh");
+    }
+    check("MWh/yr", Quantity::Energy, 1e3, "MWh");
+    check("GJ/a", Quantity::Energy, 1e9 / 3.6e6, "GJ");
+    for l in ["m3", "m³/yr", "m3/a", "cbm"] {
+        check(l, Quantity::Volume, 1.0, "m3");
+    }
+    check("Ml/yr", Quantity::Volume, 1e3, "Ml");
+    check("gal/yr", Quantity::Volume, 3.785_411_784e-3, "US gal");
+    check("kW", Quantity::Power, 1e3, "kW");
+    check("hp", Quantity::Power, 745.699_871_582_270_2, "hp");
+    check("W", Quantity::Power, 1.0, "W");
+    assert_eq!(
+        parse_unit("ml/yr", Quantity::Volume),
+        None,
+        "millilitres are not megalitres"
+    );
+    assert_eq!(parse_unit("/yr", Quantity::Energy), None);
+    assert_eq!(parse_unit("kWh/h", Quantity::Energy), None);
+}
+
 #[test]
 fn unknown_labels_are_none() {
     assert_eq!(parse_unit("furlong", Quantity::Length), None);
@@ -259,6 +286,9 @@ fn defaults_per_quantity() {
         (Quantity::Viscosity, "Pa·s", 1.0),
         (Quantity::Fraction, "%", 0.01),
         (Quantity::Duration, "h", 1.0),
+        (Quantity::Energy, "kWh", 1.0),
+        (Quantity::Volume, "m3", 1.0),
+        (Quantity::Power, "kW", 1e3),
     ];
     for (q, label, scale) in cases {
         let u = default_unit(q);

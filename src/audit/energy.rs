@@ -258,6 +258,21 @@ pub struct Suggestion {
     /// The caution when the change moves a pump's operating point
     /// ([`OPERATING_POINT_CAUTION`]); None on lines without a pump.
     pub caution: Option<&'static str>,
+    /// How the saving is realised under the system's flow control (None where no pump energy
+    /// applies); filled after the energy review by [`super::savings::apply`].
+    pub saving_case: Option<super::savings::SavingCase>,
+    /// True when the saving needs speed control or impeller trimming in place first.
+    pub saving_conditional: bool,
+    /// Present value of the annual saving over the rules' `[life_cycle]` years and discount rate.
+    pub present_value: Option<f64>,
+    /// Present value less the replacement cost (None without a cost).
+    pub net_present_value: Option<f64>,
+    /// Fixed-speed and throttled systems: the flow the pump runs out to with this loss removed
+    /// and nothing else changed, m³/s (the largest suggestions of each system, see
+    /// [`super::savings::RESOLVE_LIMIT`]).
+    pub resolved_flow_m3_s: Option<f64>,
+    /// The input power there, W.
+    pub resolved_power_w: Option<f64>,
 }
 
 /// Station energy totals.
@@ -288,6 +303,7 @@ fn line_basis(
     rules: &Rules,
     line: &LineResult,
     row: Option<&crate::ingest::LineRow>,
+    curve: Option<f64>,
 ) -> (EnergyBasis, &'static str) {
     let system = input.systems.iter().find(|s| {
         s.lines.contains(&line.line)
@@ -299,7 +315,10 @@ fn line_basis(
     ) {
         (Some(e), _) => (e, "Lines"),
         (None, Some(e)) => (e, "Systems"),
-        (None, None) => (rules.energy.efficiency, "rules default"),
+        (None, None) => match curve {
+            Some(e) => (e, CURVE_BASIS),
+            None => (rules.energy.efficiency, "rules default"),
+        },
     };
     let hours = row
         .and_then(|r| r.hours_per_year)
@@ -449,7 +468,30 @@ fn suggest(
         head_saving_m: saved_head,
         annual_saving_kwh: saved.map(|e| e.annual_energy_kwh),
         caution: pumped.then_some(OPERATING_POINT_CAUTION),
+        saving_case: None,
+        saving_conditional: false,
+        present_value: None,
+        net_present_value: None,
+        resolved_flow_m3_s: None,
+        resolved_power_w: None,
     })
+}
+
+/// Where a line's efficiency came from when its system's pump curve gave it.
+pub const CURVE_BASIS: &str = "pump curve at the operating point × motor efficiency";
+
+/// The wire-to-water efficiency from the pump curve of each line's system (the first system
+/// listing the line), by line index: the curve's pump efficiency where the pump runs times the
+/// rules' motor efficiency ([`super::station::pump_curves`]).
+fn curve_efficiencies(audit: &Audit) -> std::collections::HashMap<usize, Option<f64>> {
+    let mut out = std::collections::HashMap::new();
+    for s in &audit.systems {
+        let e = s.pump_efficiency.and_then(|p| p.wire_to_water);
+        for li in s.lines.iter().filter_map(|l| audit.line_of(l)) {
+            out.entry(li).or_insert(e);
+        }
+    }
+    out
 }
 
 /// Fill energy, cost, rank and suggestion on every line and fitting; raise `throttled-valve`.
@@ -465,9 +507,11 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit, models: &[FittingM
     let mut bases: Vec<Option<EnergyBasis>> = Vec::with_capacity(audit.lines.len());
     let rows: std::collections::HashMap<&str, &crate::ingest::LineRow> =
         input.lines.iter().map(|l| (l.line.as_str(), l)).collect();
-    for line in &mut audit.lines {
+    let curves = curve_efficiencies(audit);
+    for (li, line) in audit.lines.iter_mut().enumerate() {
         let pumped = is_pumped(line.service);
-        let (basis, from) = line_basis(input, rules, line, rows.get(line.line.as_str()).copied());
+        let row = rows.get(line.line.as_str()).copied();
+        let (basis, from) = line_basis(input, rules, line, row, curves.get(&li).copied().flatten());
         line.hours_per_year = Some(basis.hours_per_year);
         line.power_loss_w = Some(line.total_dp_pa * line.flow_m3_s);
         if pumped && let Some(e) = loss_energy(line.total_dp_pa, line.flow_m3_s, &basis) {

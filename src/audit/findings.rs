@@ -85,6 +85,22 @@ pub const CODES: &[(&str, &str)] = &[
         "suction-layout",
         "the schedule shows an elbow or reducer at the pump suction, or a suction bore smaller than the next run",
     ),
+    (
+        "low-wire-to-water",
+        "a system's measured wire-to-water efficiency (meter readings or a test point) is below the station rule",
+    ),
+    (
+        "loss-share-high",
+        "a system's piping losses take more than the station rule's share of its required head",
+    ),
+    (
+        "measured-vs-computed",
+        "a system's test head and the computed system head at the test flow differ by more than the station rule's tolerance",
+    ),
+    (
+        "outside-preferred-region",
+        "a system's duty or operating flow is outside the preferred operating region of its pump curve (70–120 % of best-efficiency flow, ANSI/HI 9.6.3)",
+    ),
 ];
 
 /// Add a finding about a line (and optionally a fitting tag) at a cell.

@@ -7,8 +7,11 @@
 pub mod energy;
 pub mod findings;
 pub mod lines;
+pub mod pump;
 pub mod rules;
 pub(crate) mod same_cause;
+pub mod savings;
+pub mod station;
 pub mod system;
 
 use serde::Serialize;
@@ -272,8 +275,10 @@ pub fn run(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
     // only while the audit runs: on huge registers they are a good share of the memory.
     let (mut audit, models) = lines::compute(input, rules)?;
     findings::apply(input, rules, &mut audit);
-    energy::apply(input, rules, &mut audit, &models);
     system::apply(input, rules, &mut audit, &models);
+    station::pump_curves(input, rules, &mut audit)?;
+    energy::apply(input, rules, &mut audit, &models);
+    station::apply(input, rules, &mut audit, &models)?;
     findings::sort(&mut audit.findings);
     audit.notes = input.diagnostics.clone();
     Ok(audit)

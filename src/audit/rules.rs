@@ -120,6 +120,60 @@ impl Default for NpshRule {
     }
 }
 
+/// Per-station checks on measured performance, the pump curve and the loss share.
+#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields, default)]
+pub struct StationRule {
+    /// `low-wire-to-water` below this measured wire-to-water efficiency (common practice).
+    pub min_wire_to_water: f64,
+    /// `loss-share-high` when the piping losses exceed this share of the required head
+    /// (common practice).
+    pub max_loss_share: f64,
+    /// `measured-vs-computed` when a test head and the computed system head at the test flow
+    /// differ by more than this fraction of the computed head (common practice).
+    pub head_tolerance: f64,
+    /// Preferred operating region, lower end, as a fraction of best-efficiency flow
+    /// (ANSI/HI 9.6.3: 70 %).
+    pub preferred_min: f64,
+    /// Preferred operating region, upper end (ANSI/HI 9.6.3: 120 %).
+    pub preferred_max: f64,
+    /// Motor and drive efficiency that turns a pump curve's efficiency into wire-to-water
+    /// (common practice).
+    pub motor_efficiency: f64,
+}
+
+impl Default for StationRule {
+    fn default() -> Self {
+        StationRule {
+            min_wire_to_water: 0.55,
+            max_loss_share: 0.3,
+            head_tolerance: 0.1,
+            preferred_min: 0.7,
+            preferred_max: 1.2,
+            motor_efficiency: 0.92,
+        }
+    }
+}
+
+/// Life-cycle view of savings: the present value of a saving over the years, discounted.
+#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields, default)]
+pub struct LifeCycleRule {
+    /// Years a saving is counted over.
+    pub years: f64,
+    /// Discount rate per year, fraction.
+    pub discount_rate: f64,
+}
+
+impl Default for LifeCycleRule {
+    fn default() -> Self {
+        LifeCycleRule {
+            years: 15.0,
+            discount_rate: 0.05,
+        }
+    }
+}
+
 /// All rules in force.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields, default)]
@@ -136,6 +190,10 @@ pub struct Rules {
     pub valve: ValveRule,
     /// NPSH margin.
     pub npsh: NpshRule,
+    /// Per-station checks.
+    pub station: StationRule,
+    /// Life-cycle view of savings.
+    pub life_cycle: LifeCycleRule,
 }
 
 impl Default for Rules {
@@ -158,6 +216,8 @@ impl Default for Rules {
             energy: EnergyRule::default(),
             valve: ValveRule::default(),
             npsh: NpshRule::default(),
+            station: StationRule::default(),
+            life_cycle: LifeCycleRule::default(),
         }
     }
 }
@@ -216,6 +276,10 @@ impl Rules {
             valve: Option<ValveRule>,
             #[serde(default)]
             npsh: Option<NpshRule>,
+            #[serde(default)]
+            station: Option<StationRule>,
+            #[serde(default)]
+            life_cycle: Option<LifeCycleRule>,
         }
         let p: Partial = toml::from_str(text).map_err(|e| RulesError::Parse {
             path: path.into(),
@@ -239,6 +303,8 @@ impl Rules {
         rules.energy = p.energy.unwrap_or(rules.energy);
         rules.valve = p.valve.unwrap_or(rules.valve);
         rules.npsh = p.npsh.unwrap_or(rules.npsh);
+        rules.station = p.station.unwrap_or(rules.station);
+        rules.life_cycle = p.life_cycle.unwrap_or(rules.life_cycle);
         rules.validate(path)?;
         Ok(rules)
     }
@@ -351,6 +417,71 @@ impl Rules {
             (-500.0..=6000.0).contains(&self.npsh.site_elevation_m),
             "must be -500..6000 m",
         )?;
+        self.validate_station(path)
+    }
+
+    fn validate_station(&self, path: &str) -> Result<(), RulesError> {
+        let (st, lc) = (&self.station, &self.life_cycle);
+        let fraction = |v: f64| v > 0.0 && v <= 1.0;
+        for (key, value, ok, why) in [
+            (
+                "station.min_wire_to_water",
+                st.min_wire_to_water,
+                fraction(st.min_wire_to_water),
+                "must be a fraction in (0, 1]",
+            ),
+            (
+                "station.max_loss_share",
+                st.max_loss_share,
+                fraction(st.max_loss_share),
+                "must be a fraction in (0, 1]",
+            ),
+            (
+                "station.head_tolerance",
+                st.head_tolerance,
+                st.head_tolerance > 0.0,
+                "must be above zero",
+            ),
+            (
+                "station.preferred_min",
+                st.preferred_min,
+                st.preferred_min > 0.0 && st.preferred_min < 1.0,
+                "must be a fraction in (0, 1)",
+            ),
+            (
+                "station.preferred_max",
+                st.preferred_max,
+                st.preferred_max > 1.0,
+                "must be above 1",
+            ),
+            (
+                "station.motor_efficiency",
+                st.motor_efficiency,
+                fraction(st.motor_efficiency),
+                "must be a fraction in (0, 1]",
+            ),
+            (
+                "life_cycle.years",
+                lc.years,
+                lc.years > 0.0 && lc.years <= 100.0,
+                "must be above 0 and at most 100",
+            ),
+            (
+                "life_cycle.discount_rate",
+                lc.discount_rate,
+                (0.0..1.0).contains(&lc.discount_rate),
+                "must be a fraction 0..1",
+            ),
+        ] {
+            if !(ok && value.is_finite()) {
+                return Err(RulesError::Range {
+                    path: path.into(),
+                    key: key.into(),
+                    value,
+                    why,
+                });
+            }
+        }
         Ok(())
     }
 

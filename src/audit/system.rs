@@ -10,6 +10,7 @@ use serde::Serialize;
 use super::lines::{FittingModel, line_heads_at};
 use super::{Audit, Finding, Rules};
 use crate::error::{CellRef, Severity};
+use crate::ingest::rows::Control;
 use crate::ingest::{Input, PumpCurveRow, Service, SystemRow, TableKind};
 use crate::physics::G;
 use crate::physics::fitting::Group;
@@ -76,6 +77,27 @@ pub struct SystemResult {
     pub curve: Vec<CurvePoint>,
     /// Where the pump curve crosses the system curve, when a pump curve is given.
     pub operating_point: Option<CurvePoint>,
+    /// How the flow is set (Systems `Control`; fixed speed when not given, then assumed).
+    pub control: Control,
+    /// Where the control came from ("Systems sheet", or assumed).
+    pub control_basis: String,
+    /// Theoretical minimum energy to lift one m³ one metre at the system's density
+    /// (`ρ g / 3.6e6`), kWh/(m³·m).
+    pub minimum_specific_energy_kwh_m3_m: f64,
+    /// Share of the required head at duty lost in the piping (losses over required head).
+    pub loss_share: Option<f64>,
+    /// Metered performance (Systems `Metered energy` and `Metered volume`).
+    pub measured: Option<super::station::Measured>,
+    /// A site test point and what it shows (Systems `Test …` columns).
+    pub test: Option<super::station::TestResult>,
+    /// Best-efficiency point, efficiency at the operating point and preferred region, when the
+    /// pump curve gives efficiency or power points.
+    pub pump_efficiency: Option<super::station::PumpEfficiency>,
+    /// What the suggestions on the system's lines save under its control.
+    pub savings: Option<super::savings::SystemSavings>,
+    /// Pump efficiency points, by flow (`head_m` holds the efficiency).
+    #[serde(skip)]
+    pub efficiency_curve: Vec<CurvePoint>,
     /// Where the static head came from.
     #[serde(skip)]
     pub static_head_basis: String,
@@ -646,6 +668,15 @@ fn one_system(
         static_head_given,
         curve,
         operating_point,
+        control: Control::Fixed,
+        control_basis: String::new(),
+        minimum_specific_energy_kwh_m3_m: f64::NAN,
+        loss_share: None,
+        measured: None,
+        test: None,
+        pump_efficiency: None,
+        savings: None,
+        efficiency_curve: Vec::new(),
         static_head_basis,
         pump_head_basis,
         pump_curve,

@@ -4,6 +4,7 @@ pub mod console;
 pub mod invented;
 pub mod json;
 pub mod ranking;
+pub mod station;
 pub(crate) mod style;
 pub mod text_table;
 pub mod workbook;

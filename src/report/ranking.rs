@@ -63,6 +63,145 @@ pub fn ranked(audit: &Audit, n: Option<usize>) -> Vec<&FittingResult> {
     v.into_iter().map(|(_, f)| f).collect()
 }
 
+/// How a ranking column's numbers are shown (set once per column).
+#[derive(Clone, Copy)]
+enum Fmt {
+    N0,
+    N2,
+    N3,
+    Pct,
+    General,
+}
+
+/// One cell of the ranking table.
+enum Cell<'a> {
+    /// A number in the column's format, six significant figures; blank when None.
+    Num(Option<f64>),
+    /// A number as is.
+    Plain(f64),
+    Text(&'a str),
+    Owned(String),
+    /// Text marked good (true) or bad.
+    Mark(&'static str, bool),
+    /// A link to the fitting's input cell.
+    Link,
+    Blank,
+}
+
+/// One column of the `Fitting ranking` table: header (`{cur}` is the currency), format, value.
+struct RankColumn {
+    header: &'static str,
+    fmt: Fmt,
+    get: fn(&FittingResult) -> Cell<'_>,
+}
+
+const fn rc(header: &'static str, fmt: Fmt, get: fn(&FittingResult) -> Cell<'_>) -> RankColumn {
+    RankColumn { header, fmt, get }
+}
+
+/// A fitting's cost at another head of its band (cost scales with head at one flow).
+fn cost_at(f: &FittingResult, h: f64) -> Option<f64> {
+    if f.head_m > 0.0 {
+        f.annual_cost.map(|c| c * h / f.head_m)
+    } else {
+        f.annual_cost
+    }
+}
+
+fn sugg(f: &FittingResult) -> Option<&crate::audit::energy::Suggestion> {
+    f.suggestion.as_ref()
+}
+
+/// The columns of the `Fitting ranking` table, in order.
+const RANKING_COLUMNS: &[RankColumn] = &[
+    rc("Rank", Fmt::N0, |f| Cell::Num(f.rank.map(|x| x as f64))),
+    rc("Rank range", Fmt::General, |f| match f.ranking {
+        Some(k) => Cell::Owned(format!("{}–{}", k.best, k.worst)),
+        None => Cell::Blank,
+    }),
+    rc("Rank holds", Fmt::General, |f| match f.ranking {
+        Some(k) if k.uncertain => Cell::Mark("uncertain", false),
+        Some(_) => Cell::Mark("holds", true),
+        None => Cell::Blank,
+    }),
+    rc("Tag", Fmt::General, |f| Cell::Text(&f.tag)),
+    rc("Line", Fmt::General, |f| Cell::Text(&f.line)),
+    rc("Item", Fmt::General, |f| Cell::Text(&f.item)),
+    rc("Kind", Fmt::General, |f| Cell::Text(f.kind)),
+    rc("Qty", Fmt::General, |f| Cell::Plain(f.qty)),
+    rc("K", Fmt::N3, |f| Cell::Num(Some(f.k))),
+    rc("K low", Fmt::N3, |f| Cell::Num(Some(f.k_low))),
+    rc("K high", Fmt::N3, |f| Cell::Num(Some(f.k_high))),
+    rc("Head [m]", Fmt::N3, |f| Cell::Num(Some(f.head_m))),
+    rc("Head low [m]", Fmt::N3, |f| Cell::Num(Some(f.head_low_m))),
+    rc("Head high [m]", Fmt::N3, |f| Cell::Num(Some(f.head_high_m))),
+    rc("Power lost [W]", Fmt::N0, |f| Cell::Num(f.power_loss_w)),
+    rc("Annual energy [kWh]", Fmt::N0, |f| {
+        Cell::Num(f.annual_energy_kwh)
+    }),
+    rc("Annual cost [{cur}]", Fmt::N2, |f| Cell::Num(f.annual_cost)),
+    rc("Cost low [{cur}]", Fmt::N2, |f| {
+        Cell::Num(cost_at(f, f.head_low_m))
+    }),
+    rc("Cost high [{cur}]", Fmt::N2, |f| {
+        Cell::Num(cost_at(f, f.head_high_m))
+    }),
+    rc("Share", Fmt::Pct, |f| Cell::Num(f.ranking.map(|k| k.share))),
+    rc("Cumulative share", Fmt::Pct, |f| {
+        Cell::Num(f.ranking.map(|k| k.cumulative_share))
+    }),
+    rc("Ranked by", Fmt::General, |f| {
+        match f.ranking.map(|k| k.basis) {
+            Some(RankBasis::AnnualCost) => Cell::Text("annual cost"),
+            Some(RankBasis::HeadLoss) => Cell::Text("head loss (no pump energy)"),
+            None => Cell::Blank,
+        }
+    }),
+    rc("Suggestion (estimate)", Fmt::General, |f| match sugg(f) {
+        Some(s) => Cell::Owned(suggestion_text(s, "*")),
+        None => Cell::Blank,
+    }),
+    rc("K after", Fmt::N3, |f| {
+        Cell::Num(sugg(f).map(|s| s.k_after))
+    }),
+    rc("Annual saving [{cur}]", Fmt::N2, |f| {
+        Cell::Num(sugg(f).and_then(|s| s.annual_saving))
+    }),
+    rc("Replacement cost [{cur}]", Fmt::N2, |f| {
+        Cell::Num(f.replacement_cost)
+    }),
+    rc("Payback [years]", Fmt::N2, |f| {
+        Cell::Num(sugg(f).and_then(|s| s.payback_years))
+    }),
+    rc("Present value [{cur}]", Fmt::N2, |f| {
+        Cell::Num(sugg(f).and_then(|s| s.present_value))
+    }),
+    rc("Net present value [{cur}]", Fmt::N2, |f| {
+        Cell::Num(sugg(f).and_then(|s| s.net_present_value))
+    }),
+    rc("Saving case", Fmt::General, |f| {
+        match sugg(f).and_then(|s| s.saving_case) {
+            Some(c) => Cell::Text(c.label()),
+            None => Cell::Blank,
+        }
+    }),
+    rc("Fixed speed runs out to [m3/h]", Fmt::N2, |f| {
+        Cell::Num(sugg(f).and_then(|s| s.resolved_flow_m3_s).map(m3h))
+    }),
+    rc("Power there [kW]", Fmt::N2, |f| {
+        Cell::Num(sugg(f).and_then(|s| s.resolved_power_w).map(|w| w / 1e3))
+    }),
+    rc("Cell", Fmt::General, |_| Cell::Link),
+];
+
+/// The index of a ranking column by its header (as written in [`RANKING_COLUMNS`]).
+fn column(header: &str) -> u16 {
+    RANKING_COLUMNS
+        .iter()
+        .position(|c| c.header == header)
+        .unwrap_or(0) as u16
+}
+
 /// Worksheet rows (the format's limit).
 const SHEET_ROWS: u32 = 1_048_576;
 
@@ -99,48 +238,10 @@ pub fn write_ranking(
         format!("{SAVINGS_CAUTION} Suggestions marked * — {OPERATING_POINT_CAUTION}"),
         &st.bold,
     )?;
-    let headers: Vec<String> = [
-        "Rank",
-        "Rank range",
-        "Rank holds",
-        "Tag",
-        "Line",
-        "Item",
-        "Kind",
-        "Qty",
-        "K",
-        "K low",
-        "K high",
-        "Head [m]",
-        "Head low [m]",
-        "Head high [m]",
-        "Power lost [W]",
-        "Annual energy [kWh]",
-    ]
-    .iter()
-    .map(|s| s.to_string())
-    .chain([
-        format!("Annual cost [{cur}]"),
-        format!("Cost low [{cur}]"),
-        format!("Cost high [{cur}]"),
-    ])
-    .chain(
-        [
-            "Share",
-            "Cumulative share",
-            "Ranked by",
-            "Suggestion (estimate)",
-            "K after",
-        ]
+    let headers: Vec<String> = RANKING_COLUMNS
         .iter()
-        .map(|s| s.to_string()),
-    )
-    .chain([
-        format!("Annual saving [{cur}]"),
-        format!("Replacement cost [{cur}]"),
-    ])
-    .chain(["Payback [years]", "Cell"].iter().map(|s| s.to_string()))
-    .collect();
+        .map(|c| c.header.replace("{cur}", cur))
+        .collect();
     // The chart of the worst items sits above the table (rows 3–22), where it is seen first.
     let hr = 24u32;
     // Just above the header row, below the chart.
@@ -151,80 +252,38 @@ pub fn write_ranking(
         ws.write_string_with_format(hr, c as u16, h, &st.header)?;
     }
     ws.set_row_height(hr, 45)?;
-    for (cols, fmt) in [
-        (&[0u16, 14, 15][..], &st.n0),
-        (&[8, 9, 10, 11, 12, 13, 23][..], &st.n3),
-        (&[16, 17, 18, 24, 25, 26][..], &st.n2),
-        (&[19, 20][..], &st.pct),
-    ] {
-        for &c in cols {
-            ws.set_column_format(c, fmt)?;
-        }
+    for (c, col) in RANKING_COLUMNS.iter().enumerate() {
+        let fmt = match col.fmt {
+            Fmt::N0 => &st.n0,
+            Fmt::N2 => &st.n2,
+            Fmt::N3 => &st.n3,
+            Fmt::Pct => &st.pct,
+            Fmt::General => continue,
+        };
+        ws.set_column_format(c as u16, fmt)?;
     }
     let fits = (SHEET_ROWS - hr - 2) as usize;
     let items = ranked(audit, Some(rows.unwrap_or(usize::MAX).min(fits)));
     for (i, f) in items.iter().enumerate() {
         let r = hr + 1 + i as u32;
-        let rk = f.ranking;
-        num(ws, r, 0, f.rank.map(|x| x as f64))?;
-        if let Some(k) = rk {
-            ws.write_string(r, 1, format!("{}–{}", k.best, k.worst))?;
-            ws.write_string_with_format(
-                r,
-                2,
-                if k.uncertain { "uncertain" } else { "holds" },
-                if k.uncertain { &st.bad } else { &st.good },
-            )?;
-        }
-        ws.write_string(r, 3, &f.tag)?;
-        ws.write_string(r, 4, &f.line)?;
-        ws.write_string(r, 5, &f.item)?;
-        ws.write_string(r, 6, f.kind)?;
-        ws.write_number(r, 7, f.qty)?;
-        for (c, v) in [
-            (8, f.k),
-            (9, f.k_low),
-            (10, f.k_high),
-            (11, f.head_m),
-            (12, f.head_low_m),
-            (13, f.head_high_m),
-        ] {
-            num(ws, r, c, Some(v))?;
-        }
-        num(ws, r, 14, f.power_loss_w)?;
-        num(ws, r, 15, f.annual_energy_kwh)?;
-        let scale = |h: f64| {
-            if f.head_m > 0.0 {
-                f.annual_cost.map(|c| c * h / f.head_m)
-            } else {
-                f.annual_cost
+        for (c, col) in RANKING_COLUMNS.iter().enumerate() {
+            let c = c as u16;
+            match (col.get)(f) {
+                Cell::Num(v) => num(ws, r, c, v)?,
+                Cell::Plain(x) => ws.write_number(r, c, x).map(|_| ())?,
+                Cell::Text(t) => ws.write_string(r, c, t).map(|_| ())?,
+                Cell::Owned(t) => ws.write_string(r, c, t).map(|_| ())?,
+                Cell::Mark(t, good) => ws
+                    .write_string_with_format(r, c, t, if good { &st.good } else { &st.bad })
+                    .map(|_| ())?,
+                Cell::Link => {
+                    let target = format!("internal:{}!{}", quote_sheet(&f.cell.sheet), f.cell.a1());
+                    ws.write_url_with_text(r, c, Url::new(target), f.cell.to_string())
+                        .map(|_| ())?
+                }
+                Cell::Blank => {}
             }
-        };
-        num(ws, r, 16, f.annual_cost)?;
-        num(ws, r, 17, scale(f.head_low_m))?;
-        num(ws, r, 18, scale(f.head_high_m))?;
-        if let Some(k) = rk {
-            num(ws, r, 19, Some(k.share))?;
-            num(ws, r, 20, Some(k.cumulative_share))?;
-            ws.write_string(
-                r,
-                21,
-                if k.basis == RankBasis::AnnualCost {
-                    "annual cost"
-                } else {
-                    "head loss (no pump energy)"
-                },
-            )?;
         }
-        if let Some(s) = &f.suggestion {
-            ws.write_string(r, 22, suggestion_text(s, "*"))?;
-            num(ws, r, 23, Some(s.k_after))?;
-            num(ws, r, 24, s.annual_saving)?;
-            num(ws, r, 26, s.payback_years)?;
-        }
-        num(ws, r, 25, f.replacement_cost)?;
-        let target = format!("internal:{}!{}", quote_sheet(&f.cell.sheet), f.cell.a1());
-        ws.write_url_with_text(r, 27, Url::new(target), f.cell.to_string())?;
     }
     let left = audit.fittings.len() - items.len();
     if left > 0 {
@@ -255,7 +314,8 @@ pub fn write_ranking(
     ws.set_column_width(3, 14)?;
     ws.set_column_width(5, 18)?;
     ws.set_column_width(6, 18)?;
-    ws.set_column_width(22, 48)?;
+    ws.set_column_width(column("Suggestion (estimate)"), 48)?;
+    ws.set_column_width(column("Saving case"), 36)?;
     ws.set_freeze_panes(hr + 1, 4)?;
 
     // Chart: the worst items by the first basis present (cost when any item has a cost).
@@ -272,10 +332,15 @@ pub fn write_ranking(
         .count() as u32;
     if n > 0 {
         let (first, last) = (hr + 1, hr + n);
-        let value_col = if by_cost { 16 } else { 11 };
+        let value_col = column(if by_cost {
+            "Annual cost [{cur}]"
+        } else {
+            "Head [m]"
+        });
+        let (tag, cumulative) = (column("Tag"), column("Cumulative share"));
         let mut bars = Chart::new(ChartType::Column);
         bars.add_series()
-            .set_categories((sheet, first, 3, last, 3))
+            .set_categories((sheet, first, tag, last, tag))
             .set_values((sheet, first, value_col, last, value_col))
             .set_name(
                 if by_cost {
@@ -287,8 +352,8 @@ pub fn write_ranking(
             );
         let mut line = Chart::new(ChartType::Line);
         line.add_series()
-            .set_categories((sheet, first, 3, last, 3))
-            .set_values((sheet, first, 20, last, 20))
+            .set_categories((sheet, first, tag, last, tag))
+            .set_values((sheet, first, cumulative, last, cumulative))
             .set_name("Cumulative share")
             .set_secondary_axis(true);
         bars.combine(&line);
@@ -329,7 +394,7 @@ pub fn write_systems(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(
     ws.write_string(1, 0, "System curve: static head plus every line's losses recomputed at each flow (friction factor and Re-dependent K re-evaluated, not scaled by Q²).")?;
     let mut r = 3u32;
     for s in &audit.systems {
-        r = write_system(ws, sheet, s, r, &st)? + 2;
+        r = write_system(ws, sheet, s, r, &st, audit)? + 2;
     }
     if audit.systems.is_empty() {
         ws.write_string(
@@ -352,6 +417,7 @@ fn write_system(
     s: &SystemResult,
     start: u32,
     st: &Styles,
+    audit: &Audit,
 ) -> Result<u32, XlsxError> {
     let mut r = start;
     let verdict = s.verdict.as_str();
@@ -478,6 +544,11 @@ fn write_system(
             ),
             if c.fails { &st.bad } else { &st.wrap },
         )?;
+        r += 1;
+    }
+    for (k, v) in super::station::station_rows(s, &audit.rules, &audit.energy.currency) {
+        ws.write_string_with_format(r, 0, k, &st.bold)?;
+        ws.write_string_with_format(r, 1, truncate(&v, MAX_CELL_CHARS), &st.wrap)?;
         r += 1;
     }
     if !s.defaults.is_empty() {
@@ -874,7 +945,12 @@ fn console_systems(audit: &Audit, width: Option<usize>) -> String {
     for line in defaults_applied(audit) {
         out.push_str(&fitted_text(&line, width));
     }
+    for s in &audit.systems {
+        let line = super::station::console_line(s, &audit.energy.currency);
+        out.push_str(&fitted_text(&line, width));
+    }
     out.push_str(&fitted_text(SYSTEMS_CAUTION, width));
+    out.push_str(&fitted_text(crate::audit::station::STATION_CAUTION, width));
     out.push('\n');
     out
 }

@@ -834,6 +834,42 @@ fn write_findings(
     Ok(())
 }
 
+/// One Basis line per system whose pump curve gave the efficiency of some of its lines (in
+/// place of the rules' flat default): where it was read and which lines used it.
+fn curve_efficiency_lines(audit: &Audit) -> Vec<(String, String)> {
+    let st = &audit.rules.station;
+    audit
+        .systems
+        .iter()
+        .filter_map(|s| {
+            let p = s.pump_efficiency?;
+            let (e, w) = (p.pump_efficiency?, p.wire_to_water?);
+            let lines: Vec<&str> = s
+                .lines
+                .iter()
+                .filter_map(|l| audit.line_of(l))
+                .map(|i| &audit.lines[i])
+                .filter(|l| l.efficiency_basis == crate::audit::energy::CURVE_BASIS && l.efficiency == Some(w))
+                .map(|l| l.line.as_str())
+                .collect();
+            (!lines.is_empty()).then(|| {
+                (
+                    format!("Efficiency of system {}", s.system),
+                    format!(
+                        "pump curve {:.1} % at {:.1} m3/h × motor {:.1} % = {:.1} % wire-to-water, used instead of the flat {:.1} % for lines {}",
+                        e * 100.0,
+                        p.flow_m3_s * 3600.0,
+                        st.motor_efficiency * 100.0,
+                        w * 100.0,
+                        audit.rules.energy.efficiency * 100.0,
+                        lines.join(", ")
+                    ),
+                )
+            })
+        })
+        .collect()
+}
+
 fn write_basis(
     ws: &mut Worksheet,
     input: &Input,
@@ -883,6 +919,12 @@ fn write_basis(
         ws,
         "Caution on systems",
         super::ranking::SYSTEMS_CAUTION,
+        false,
+    )?;
+    line(
+        ws,
+        "Caution on energy figures",
+        crate::audit::station::STATION_CAUTION,
         false,
     )?;
     line(ws, "", "", false)?;
@@ -938,11 +980,30 @@ fn write_basis(
             "Required head = static head + sum of line losses, each line at its own flow; system curve 0–130 % of duty with friction factors and Re-dependent K recomputed at each flow; operating point where a given pump curve meets it.",
         ),
         (
+            "Station energy",
+            "Metered: specific energy e = kWh / m3; wire-to-water = (ρ g / 3.6e6) × H / e with H the computed required head at duty (ISO/ASME 14414, ASME EA-2). Test point: head given or (p_discharge − p_suction)/(ρ g); wire-to-water = ρ g Q H / P. Piping share = line losses / required head. Rules [station]: min_wire_to_water, max_loss_share, head_tolerance, motor_efficiency (common practice); preferred region preferred_min–preferred_max of best-efficiency flow (ANSI/HI 9.6.3). Screening estimates.",
+        ),
+        (
+            "Pump curve efficiency",
+            "Best-efficiency point: vertex of the parabola through the highest efficiency point and its neighbours (Efficiency, else ρ g Q H / shaft power). The pump efficiency at the operating point (else at duty) × [station] motor_efficiency replaces the rules' flat efficiency for the system's lines where Lines and Systems give none.",
+        ),
+        (
+            "Savings by control",
+            "Control (Systems; default fixed, assumed and marked): speed — saved at once, new speed by the affinity laws r² H(Q/r) against the system curve with its static head; fixed — the operating point re-solved with the loss removed (loss ∝ Q²), saving conditional on trimming or speed control; throttled — the throttling valve's loss is saved once speed control or trimming replaces it. Each saving at the line's flow with its efficiency held.",
+        ),
+        (
+            "Life-cycle view",
+            "Present value of each saving = S × (1 − (1 + i)^−n) / i over [life_cycle] years n at discount_rate i (HI/Europump pump life-cycle cost guide); net present value = present value − replacement cost.",
+        ),
+        (
             "NPSH",
             "NPSHa = (p_source − p_vapour)/(ρg) + suction level − suction losses; p_source defaults to the ISO 2533 standard atmosphere at the site elevation (Systems sheet, else the rules, else 0 m, sea level, assumed); checked at duty flow and, where a pump curve gives one, at the operating point (NPSH required from the Pump curve where given, else the duty value), with the suction losses at the high end of their K bands (nominal shown beside); margin rule max(ratio × NPSHr, NPSHr + minimum) (common practice, no source).",
         ),
     ] {
         line(ws, a, b, false)?;
+    }
+    for (a, b) in curve_efficiency_lines(audit) {
+        line(ws, &a, &b, false)?;
     }
     line(ws, "", "", false)?;
     // Each kind, model and source in use once (the Fittings copy names kind and model per row).

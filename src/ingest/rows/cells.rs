@@ -255,6 +255,21 @@ impl Cells<'_> {
         Some(v)
     }
 
+    /// An efficiency: a fraction above zero (or zero, where `allow_zero`) and at most 1; above
+    /// 100 % is an error with a hint.
+    pub(crate) fn efficiency(&mut self, key: &str, allow_zero: bool) -> Option<f64> {
+        let e = self.positive(key, allow_zero)?;
+        if e <= 1.0 {
+            return Some(e);
+        }
+        self.error(
+            key,
+            format!("efficiency {:.1} % is above 100 %", e * 100.0),
+            Some("give the efficiency as a percentage or a fraction, e.g. 78 % or 0.78".into()),
+        );
+        None
+    }
+
     pub(crate) fn size(&mut self, key: &str) -> Option<SizeSpec> {
         let mapped = self.col(key)?.clone();
         let unit = mapped.unit_label.as_deref().and_then(|l| {

@@ -20,7 +20,7 @@ pub use lines::{LineRow, Service};
 pub use pipes::PipeRow;
 pub(crate) use pipes::run_assumptions;
 pub use pump_curve::PumpCurveRow;
-pub use systems::{SITE_ELEVATION_RANGE_M, SystemRow};
+pub use systems::{Control, Metered, SITE_ELEVATION_RANGE_M, SystemRow, TestHead, TestPoint};
 
 use std::collections::HashSet;
 

@@ -18,6 +18,10 @@ pub struct PumpCurveRow {
     pub head_m: f64,
     /// NPSH required at that flow, m (None: not given).
     pub npsh_required_m: Option<f64>,
+    /// Pump efficiency at that flow, fraction (None: not given).
+    pub efficiency: Option<f64>,
+    /// Pump shaft power at that flow, W (None: not given).
+    pub power_w: Option<f64>,
 }
 
 pub(super) fn read_pump_curves(input: &Input, sink: &mut Sink) -> Vec<PumpCurveRow> {
@@ -34,6 +38,8 @@ pub(super) fn read_pump_curves(input: &Input, sink: &mut Sink) -> Vec<PumpCurveR
         let flow = c.positive("flow", true);
         let head = c.positive("head", true);
         let npsh_required_m = c.positive("npsh_required", true);
+        let efficiency = c.efficiency("efficiency", true);
+        let power_w = c.positive("power", false);
         match (flow, head) {
             (Some(flow_m3_s), Some(head_m)) => pump_curves.push(PumpCurveRow {
                 origin: Origin {
@@ -44,6 +50,8 @@ pub(super) fn read_pump_curves(input: &Input, sink: &mut Sink) -> Vec<PumpCurveR
                 flow_m3_s,
                 head_m,
                 npsh_required_m,
+                efficiency,
+                power_w,
             }),
             _ if c.errors == 0 => c.error(
                 "flow",
