@@ -131,7 +131,7 @@ pub struct CompareArgs {
     pub fail_on: Option<FailOn>,
     /// Units of the console summary and the workbook (JSON stays SI).
     #[arg(long, value_enum, default_value = "si")]
-    pub units: report::console::UnitSystem,
+    pub units: crate::units::UnitSystem,
 }
 
 /// Subcommands.
@@ -156,7 +156,7 @@ pub enum Command {
         fail_on: Option<FailOn>,
         /// Units of the console summary and the workbook's computed columns (JSON stays SI).
         #[arg(long, value_enum, default_value = "si")]
-        units: report::console::UnitSystem,
+        units: crate::units::UnitSystem,
         /// Rows of the Fitting ranking sheet: the worst N fittings, or "all". Every fitting's rank
         /// and cost are in its input sheet's computed columns either way.
         #[arg(long, value_name = "N|all", default_value = "1000", value_parser = parse_rows)]
@@ -179,7 +179,7 @@ pub enum Command {
         out: PathBuf,
         /// Units written in the units row.
         #[arg(long, value_enum, default_value = "si")]
-        units: report::console::UnitSystem,
+        units: crate::units::UnitSystem,
         /// `canonical`: one sheet per table; `list`: Lines plus one item list holding runs and
         /// fittings together (a Unit drop-down: m, No ...).
         #[arg(long, value_enum, default_value = "canonical")]

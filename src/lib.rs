@@ -1,3 +1,4 @@
+#![deny(missing_docs)]
 //! lossledger: audits piping from spreadsheet schedules — friction and fitting losses line by line,
 //! velocity and loss findings, and an annotated workbook in which every number traces to its cell.
 //!

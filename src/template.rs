@@ -11,8 +11,8 @@ use std::path::Path;
 use crate::ingest::rows::{Control, Service};
 use crate::ingest::schema::{self, ColumnSpec, ColumnType, TableKind};
 use crate::physics::{fitting, pipe};
-use crate::report::console::UnitSystem;
 use crate::units::Quantity;
+use crate::units::UnitSystem;
 
 /// Row (zero-based) of the headers in every table sheet of the template.
 pub const HEADER_ROW: u32 = 0;

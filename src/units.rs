@@ -661,3 +661,50 @@ pub fn pressure_reference(label: &str) -> PressureReference {
     }
     PressureReference::Unstated
 }
+
+// ---------------------------------------------------------------------------------------------
+// Units of reported figures.
+
+/// Units of reported figures (console and the workbook's computed columns; JSON is always SI).
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, clap::ValueEnum)]
+pub enum UnitSystem {
+    /// m, mm, m³/h, kPa, m/s, m of head.
+    #[default]
+    Si,
+    /// US customary: ft, in, US gpm, psi, ft/s, ft of head.
+    Us,
+}
+
+/// An SI unit label of a report column and its US customary replacement with the factor from
+/// the SI value in that label: `si_value * factor = us_value`. None when the label stays.
+///
+/// # Source
+/// NIST SP 811 (2008) B.8 via the constants in this module.
+pub fn us_unit(si_label: &str) -> Option<(&'static str, f64)> {
+    Some(match si_label {
+        "m" => ("ft", 1.0 / FT_M),
+        "mm" => ("in", 1e-3 / IN_M),
+        "m/s" => ("ft/s", 1.0 / FT_M),
+        "kPa" => ("psi", 1e3 / PSI_PA),
+        "Pa" => ("psi", 1.0 / PSI_PA),
+        "m3/h" => ("US gpm", 1.0 / 3600.0 / (US_GAL_M3 / 60.0)),
+        "m3/s" => ("US gpm", 1.0 / (US_GAL_M3 / 60.0)),
+        "kg/m3" => ("lb/ft3", FT_M * FT_M * FT_M / LB_KG),
+        "m/100 m" => ("ft/100 ft", 1.0),
+        _ => return None,
+    })
+}
+
+/// A header `Name [unit]` in the given units: the new header and the factor on its values.
+pub fn header_in(header: &str, units: UnitSystem) -> (String, f64) {
+    if units == UnitSystem::Si {
+        return (header.to_string(), 1.0);
+    }
+    if let Some((name, rest)) = header.split_once('[')
+        && let Some(label) = rest.strip_suffix(']')
+        && let Some((us, factor)) = us_unit(label)
+    {
+        return (format!("{name}[{us}]"), factor);
+    }
+    (header.to_string(), 1.0)
+}

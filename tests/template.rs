@@ -4,8 +4,8 @@
 use calamine::Data;
 use lossledger::audit::{self, Rules};
 use lossledger::ingest::{self, TableKind, grid};
-use lossledger::report::console::UnitSystem;
 use lossledger::template;
+use lossledger::units::UnitSystem;
 
 fn sheets(units: UnitSystem, name: &str) -> Vec<lossledger::ingest::SheetGrid> {
     let bytes = template::build(units).expect("template builds");

@@ -5,8 +5,9 @@
 use super::effects::{Pair, Status, Verdicts};
 use super::{Comparison, fields};
 use crate::error::Severity;
-use crate::report::console::{UnitSystem, fitted_text};
+use crate::report::console::fitted_text;
 use crate::report::text_table::{Align, TextTable, console_width};
+use crate::units::UnitSystem;
 
 /// Lines listed on the console at most (the largest total-head changes).
 pub const CONSOLE_LINES: usize = 10;

@@ -3,7 +3,7 @@
 use serde::Serialize;
 
 use crate::ingest::parse::SizeSpec;
-use crate::report::console::{UnitSystem, header_in};
+use crate::units::{UnitSystem, header_in};
 
 /// An old or new value: a number in SI (the field's key names the unit) or text.
 #[derive(Clone, Debug, PartialEq, Serialize)]

@@ -8,8 +8,8 @@ use super::effects::{LineEffect, Pair, SystemEffect, Verdict};
 use super::{Change, Comparison, Value};
 use crate::error::{CellRef, quote_sheet};
 use crate::ingest::Input;
-use crate::report::console::{UnitSystem, header_in};
 use crate::report::style::{MAX_CELL_CHARS, Styles, shown, truncate};
+use crate::units::{UnitSystem, header_in};
 
 /// What the comparison workbook records about how it was made.
 #[derive(Clone, Debug, Default)]

@@ -9,6 +9,7 @@ use crate::audit::energy::{OPERATING_POINT_CAUTION, RankBasis, SAVINGS_CAUTION};
 use crate::audit::system::{Outcome, SystemResult};
 use crate::audit::{Audit, FittingResult};
 use crate::error::quote_sheet;
+use crate::units::header_in;
 
 /// What the columns of a systems checks table mean (console, Summary).
 pub const CHECKS_KEY: &str = "Has: pump head, or NPSH available with the suction losses at the high end of their K band; Nominal: NPSH available with the nominal losses; Needs: required head, or the NPSH the margin rule asks for.";
@@ -208,14 +209,14 @@ const SHEET_ROWS: u32 = 1_048_576;
 /// Write the `Fitting ranking` sheet, with a bar-and-line chart of the worst items: the worst
 /// `rows` items (all when `None`, up to the sheet's row limit) and, when some are left out, a
 /// closing line saying how many and what share of the cost they carry.
-pub fn write_ranking(
+pub(crate) fn write_ranking(
     ws: &mut Worksheet,
     sheet: &str,
     audit: &Audit,
     rows: Option<usize>,
     invented: Option<&str>,
+    st: &Styles,
 ) -> Result<(), XlsxError> {
-    let st = Styles::new();
     let cur = &audit.energy.currency;
     ws.write_string_with_format(
         0,
@@ -242,6 +243,9 @@ pub fn write_ranking(
         .iter()
         .map(|c| c.header.replace("{cur}", cur))
         .collect();
+    // Head columns in the report's units; the factor is 1 for every other column.
+    let (headers, factor): (Vec<String>, Vec<f64>) =
+        headers.iter().map(|h| header_in(h, st.units)).unzip();
     // The chart of the worst items sits above the table (rows 3–22), where it is seen first.
     let hr = 24u32;
     // Just above the header row, below the chart.
@@ -269,12 +273,12 @@ pub fn write_ranking(
         for (c, col) in RANKING_COLUMNS.iter().enumerate() {
             let c = c as u16;
             match (col.get)(f) {
-                Cell::Num(v) => num(ws, r, c, v)?,
+                Cell::Num(v) => num(ws, r, c, v.map(|x| x * factor[c as usize]))?,
                 Cell::Plain(x) => ws.write_number(r, c, x).map(|_| ())?,
                 Cell::Text(t) => ws.write_string(r, c, t).map(|_| ())?,
                 Cell::Owned(t) => ws.write_string(r, c, t).map(|_| ())?,
                 Cell::Mark(t, good) => ws
-                    .write_string_with_format(r, c, t, if good { &st.good } else { &st.bad })
+                    .write_string_with_format(r, c, t, if good { &st.good } else { &st.uncertain })
                     .map(|_| ())?,
                 Cell::Link => {
                     let target = format!("internal:{}!{}", quote_sheet(&f.cell.sheet), f.cell.a1());
@@ -317,6 +321,11 @@ pub fn write_ranking(
     ws.set_column_width(column("Suggestion (estimate)"), 48)?;
     ws.set_column_width(column("Saving case"), 36)?;
     ws.set_freeze_panes(hr + 1, 4)?;
+    // Printed landscape, one page wide: the chart alone on the first page, the table from the
+    // second with its header repeated on every page.
+    ws.set_landscape().set_print_fit_to_pages(1, 0);
+    ws.set_repeat_rows(hr, hr)?;
+    ws.set_page_breaks(&[hr])?;
 
     // Chart: the worst items by the first basis present (cost when any item has a cost).
     let by_cost = items
@@ -346,7 +355,7 @@ pub fn write_ranking(
                 if by_cost {
                     format!("Annual cost [{cur}]")
                 } else {
-                    "Head loss [m]".to_string()
+                    headers[11].clone()
                 }
                 .as_str(),
             );
@@ -363,7 +372,7 @@ pub fn write_ranking(
             if by_cost {
                 format!("Annual cost [{cur}]")
             } else {
-                "Head loss [m]".to_string()
+                headers[11].clone()
             }
             .as_str(),
         );
@@ -383,8 +392,12 @@ fn m3h(q: f64) -> f64 {
 }
 
 /// Write the `Systems` sheet: one block per system with its figures, curve table and chart.
-pub fn write_systems(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(), XlsxError> {
-    let st = Styles::new();
+pub(crate) fn write_systems(
+    ws: &mut Worksheet,
+    sheet: &str,
+    audit: &Audit,
+    st: &Styles,
+) -> Result<(), XlsxError> {
     ws.write_string_with_format(
         0,
         0,
@@ -393,9 +406,17 @@ pub fn write_systems(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(
     )?;
     ws.write_string(1, 0, "System curve: static head plus every line's losses recomputed at each flow (friction factor and Re-dependent K re-evaluated, not scaled by Q²).")?;
     let mut r = 3u32;
-    for s in &audit.systems {
-        r = write_system(ws, sheet, s, r, &st, audit)? + 2;
+    // Printed landscape, one page wide, each system (figures, curve table and chart) starting
+    // a page of its own.
+    ws.set_landscape().set_print_fit_to_pages(1, 0);
+    let mut breaks = Vec::new();
+    for (i, s) in audit.systems.iter().enumerate() {
+        if i > 0 {
+            breaks.push(r);
+        }
+        r = write_system(ws, sheet, s, r, st, audit)? + 2;
     }
+    ws.set_page_breaks(&breaks)?;
     if audit.systems.is_empty() {
         ws.write_string(
             r,
@@ -409,6 +430,120 @@ pub fn write_systems(ws: &mut Worksheet, sheet: &str, audit: &Audit) -> Result<(
         ws.set_column_width(c, 13)?;
     }
     Ok(())
+}
+
+/// One figure of a system block: its label with the SI unit (`Name [m]`), the value in SI, and
+/// where it came from. Written as a number cell in the report's units, the source beside it.
+struct Figure {
+    label: String,
+    value: Option<f64>,
+    basis: String,
+}
+
+fn figure(label: impl Into<String>, value: Option<f64>, basis: impl Into<String>) -> Figure {
+    Figure {
+        label: label.into(),
+        value,
+        basis: basis.into(),
+    }
+}
+
+/// The duty, head and operating-point figures of a system.
+fn duty_figures(s: &SystemResult) -> Vec<Figure> {
+    let mut v = vec![
+        figure("Duty flow [m3/h]", Some(m3h(s.flow_m3_s)), ""),
+        figure(
+            "Static head [m]",
+            Some(s.static_head_m),
+            &s.static_head_basis,
+        ),
+        figure(
+            "Line losses [m]",
+            Some(s.losses_head_m),
+            "each line at its own flow",
+        ),
+        figure("Required head [m]", Some(s.required_head_m), ""),
+        figure("Pump head at duty [m]", s.pump_head_m, &s.pump_head_basis),
+        figure("Margin [m]", s.margin_m, "pump minus required"),
+    ];
+    if let Some(op) = s.operating_point {
+        let basis = "pump curve meets system curve";
+        v.push(figure(
+            "Operating flow [m3/h]",
+            Some(m3h(op.flow_m3_s)),
+            basis,
+        ));
+        v.push(figure("Operating head [m]", Some(op.head_m), basis));
+    }
+    v
+}
+
+/// The figures of one NPSH check (`at` says where: at duty, at the operating point).
+fn npsh_figures(at: &str, c: &crate::audit::system::NpshCheck) -> Vec<Figure> {
+    vec![
+        figure(
+            format!("NPSH check {at}: flow [m3/h]"),
+            Some(m3h(c.flow_m3_s)),
+            "",
+        ),
+        figure(
+            format!("Suction losses {at}, high end [m]"),
+            Some(c.suction_losses_high_m),
+            "suction fittings at the high end of their K band",
+        ),
+        figure(
+            format!("Suction losses {at}, nominal [m]"),
+            Some(c.suction_losses_m),
+            "",
+        ),
+        figure(
+            format!("NPSH available {at} [m]"),
+            Some(c.available_m),
+            "with the suction losses at the high end",
+        ),
+        figure(
+            format!("NPSH available {at}, nominal [m]"),
+            Some(c.available_nominal_m),
+            "with the nominal suction losses",
+        ),
+        figure(
+            format!("NPSH required {at} [m]"),
+            c.required_m,
+            if c.required_m.is_some() {
+                c.required_basis.as_str()
+            } else {
+                "not given"
+            },
+        ),
+        figure(
+            format!("NPSH the margin rule asks for {at} [m]"),
+            c.needed_m,
+            "",
+        ),
+    ]
+}
+
+/// Write `figures` from row `r`: label, number (or a dash when missing) and source. Returns the
+/// next free row.
+fn write_figures(
+    ws: &mut Worksheet,
+    mut r: u32,
+    figures: &[Figure],
+    st: &Styles,
+) -> Result<u32, XlsxError> {
+    for f in figures {
+        let (label, factor) = header_in(&f.label, st.units);
+        ws.write_string_with_format(r, 0, label, &st.bold)?;
+        match f.value.filter(|x| x.is_finite()) {
+            Some(x) => ws.write_number_with_format(r, 1, shown(x * factor), &st.n3)?,
+            None => ws.write_string(r, 1, "—")?,
+        };
+        if !f.basis.is_empty() {
+            ws.write_string(r, 2, &f.basis)?;
+        }
+        r += 1;
+    }
+    Ok(r)
 }
 
 fn write_system(
@@ -428,71 +563,10 @@ fn write_system(
     ws.write_string_with_format(r, 1, SYSTEMS_CAUTION, &st.wrap)?;
     ws.set_row_height(r, 45)?;
     r += 1;
-    let num_row = |ws: &mut Worksheet,
-                   r: &mut u32,
-                   k: &str,
-                   v: Option<f64>,
-                   basis: &str|
-     -> Result<(), XlsxError> {
-        ws.write_string_with_format(*r, 0, k, &st.bold)?;
-        match v.filter(|x| x.is_finite()) {
-            Some(x) => ws.write_string(
-                *r,
-                1,
-                format!(
-                    "{x:.3}{}",
-                    if basis.is_empty() {
-                        String::new()
-                    } else {
-                        format!("  ({basis})")
-                    }
-                ),
-            )?,
-            None => ws.write_string(*r, 1, "—")?,
-        };
-        *r += 1;
-        Ok(())
-    };
     ws.write_string_with_format(r, 0, "Lines (suction first)", &st.bold)?;
     ws.write_string(r, 1, truncate(&s.lines.join(", "), MAX_CELL_CHARS))?;
     r += 1;
-    num_row(ws, &mut r, "Duty flow [m3/h]", Some(m3h(s.flow_m3_s)), "")?;
-    num_row(
-        ws,
-        &mut r,
-        "Static head [m]",
-        Some(s.static_head_m),
-        &s.static_head_basis,
-    )?;
-    num_row(
-        ws,
-        &mut r,
-        "Line losses [m]",
-        Some(s.losses_head_m),
-        "each line at its own flow",
-    )?;
-    num_row(ws, &mut r, "Required head [m]", Some(s.required_head_m), "")?;
-    num_row(
-        ws,
-        &mut r,
-        "Pump head at duty [m]",
-        s.pump_head_m,
-        &s.pump_head_basis,
-    )?;
-    num_row(ws, &mut r, "Margin [m]", s.margin_m, "pump minus required")?;
-    if let Some(op) = s.operating_point {
-        ws.write_string_with_format(r, 0, "Operating point", &st.bold)?;
-        ws.write_string(
-            r,
-            1,
-            format!(
-                "{:.1} m3/h at {:.2} m (pump curve meets system curve)",
-                m3h(op.flow_m3_s),
-                op.head_m
-            ),
-        )?;
-        r += 1;
-    }
+    r = write_figures(ws, r, &duty_figures(s), st)?;
     if let Some(t) = s.npsh_terms {
         ws.write_string_with_format(r, 0, "NPSH available", &st.bold)?;
         ws.write_string(
@@ -517,33 +591,16 @@ fn write_system(
         ("at the operating point", s.npsh_at_operating_point.as_ref()),
     ] {
         let Some(c) = c else { continue };
-        ws.write_string_with_format(r, 0, format!("NPSH {label}"), &st.bold)?;
-        ws.write_string_with_format(
-            r,
-            1,
-            format!(
-                "{:.1} m3/h: available {:.3} m with the suction losses at the high end of their K band ({:.3} m), {:.3} m nominal ({:.3} m); required {}; the margin rule asks for {} — {}",
-                m3h(c.flow_m3_s),
-                c.available_m,
-                c.suction_losses_high_m,
-                c.available_nominal_m,
-                c.suction_losses_m,
-                c.required_m
-                    .map(|x| format!("{x:.3} m ({})", c.required_basis))
-                    .unwrap_or_else(|| "not given".into()),
-                c.needed_m
-                    .map(|x| format!("{x:.3} m"))
-                    .unwrap_or_else(|| "—".into()),
-                if c.fails {
-                    "FAIL"
-                } else if c.needed_m.is_some() {
-                    "pass"
-                } else {
-                    "not checked"
-                }
-            ),
-            if c.fails { &st.bad } else { &st.wrap },
-        )?;
+        r = write_figures(ws, r, &npsh_figures(label, c), st)?;
+        let (text, fmt) = if c.fails {
+            ("FAIL", &st.bad)
+        } else if c.needed_m.is_some() {
+            ("pass", &st.good)
+        } else {
+            ("not checked", &st.bold)
+        };
+        ws.write_string_with_format(r, 0, format!("NPSH {label}: result"), &st.bold)?;
+        ws.write_string_with_format(r, 1, text, fmt)?;
         r += 1;
     }
     for (k, v) in super::station::station_rows(s, &audit.rules, &audit.energy.currency) {
@@ -562,38 +619,40 @@ fn write_system(
         r += 1;
     }
     r += 1;
-    // Curve table.
+    // Curve table, in the report's units: flow factor `fq`, head factor `fh`.
     let hr = r;
-    for (c, h) in [
-        "Flow [m3/h]",
-        "% of duty",
-        "Required head [m]",
-        "Pump curve flow [m3/h]",
-        "Pump curve head [m]",
-        "Duty flow [m3/h]",
-        "Duty head [m]",
-    ]
-    .iter()
-    .enumerate()
-    {
-        ws.write_string_with_format(hr, c as u16 + 1, *h, &st.header)?;
+    let (flow_label, fq) = header_in("Flow [m3/h]", st.units);
+    let (head_label, fh) = header_in("Head [m]", st.units);
+    let unit = |l: &str| l[l.find('[').unwrap_or(l.len())..].to_string();
+    let (qu, hu) = (unit(&flow_label), unit(&head_label));
+    let headers = [
+        format!("Flow {qu}"),
+        "% of duty".to_string(),
+        format!("Required head {hu}"),
+        format!("Pump curve flow {qu}"),
+        format!("Pump curve head {hu}"),
+        format!("Duty flow {qu}"),
+        format!("Duty head {hu}"),
+    ];
+    for (c, h) in headers.iter().enumerate() {
+        ws.write_string_with_format(hr, c as u16 + 1, h, &st.header)?;
     }
     ws.set_row_height(hr, 30)?;
     for (i, p) in s.curve.iter().enumerate() {
         let rr = hr + 1 + i as u32;
-        ws.write_number_with_format(rr, 1, m3h(p.flow_m3_s), &st.n2)?;
+        ws.write_number_with_format(rr, 1, m3h(p.flow_m3_s) * fq, &st.n2)?;
         if s.flow_m3_s > 0.0 {
             ws.write_number_with_format(rr, 2, p.flow_m3_s / s.flow_m3_s, &st.pct)?;
         }
-        ws.write_number_with_format(rr, 3, p.head_m, &st.n3)?;
+        ws.write_number_with_format(rr, 3, p.head_m * fh, &st.n3)?;
     }
     for (i, p) in s.pump_curve.iter().enumerate() {
         let rr = hr + 1 + i as u32;
-        ws.write_number_with_format(rr, 4, m3h(p.flow_m3_s), &st.n2)?;
-        ws.write_number_with_format(rr, 5, p.head_m, &st.n3)?;
+        ws.write_number_with_format(rr, 4, m3h(p.flow_m3_s) * fq, &st.n2)?;
+        ws.write_number_with_format(rr, 5, p.head_m * fh, &st.n3)?;
     }
-    ws.write_number_with_format(hr + 1, 6, m3h(s.flow_m3_s), &st.n2)?;
-    ws.write_number_with_format(hr + 1, 7, s.required_head_m, &st.n3)?;
+    ws.write_number_with_format(hr + 1, 6, m3h(s.flow_m3_s) * fq, &st.n2)?;
+    ws.write_number_with_format(hr + 1, 7, s.required_head_m * fh, &st.n3)?;
     let last = hr + s.curve.len().max(s.pump_curve.len()).max(1) as u32;
 
     let mut chart = Chart::new(ChartType::ScatterStraightWithMarkers);
@@ -624,8 +683,8 @@ fn write_system(
     chart
         .title()
         .set_name(format!("System {}: head against flow", s.system).as_str());
-    chart.x_axis().set_name("Flow [m3/h]");
-    chart.y_axis().set_name("Head [m]");
+    chart.x_axis().set_name(&flow_label);
+    chart.y_axis().set_name(&head_label);
     chart.set_width(620).set_height(340);
     ws.insert_chart(start, 9, &chart)?;
     Ok(last.max(start + 18))
@@ -633,12 +692,12 @@ fn write_system(
 
 /// The energy block of `Summary`: total annual loss cost, systems that fail, the top five items.
 /// Returns the next free row.
-pub fn write_summary_block(
+pub(crate) fn write_summary_block(
     ws: &mut Worksheet,
     audit: &Audit,
     start: u32,
+    st: &Styles,
 ) -> Result<u32, XlsxError> {
-    let st = Styles::new();
     let cur = &audit.energy.currency;
     let mut r = start;
     ws.write_string_with_format(r, 0, format!("Annual cost of losses [{cur}]"), &st.bold)?;
@@ -661,14 +720,16 @@ pub fn write_summary_block(
         r += 1;
     }
     r += 1;
-    r = write_summary_systems(ws, audit, r, &st)?;
+    r = write_summary_systems(ws, audit, r, st)?;
     r += 1;
     ws.write_string_with_format(r, 0, "Top five items (see Fitting ranking)", &st.bold)?;
     r += 1;
-    let h = ["Rank", "Item", "Line", "Kind", "Head [m]"]
+    let (head_label, fh) = header_in("Head [m]", st.units);
+    let h = ["Rank", "Item", "Line", "Kind"]
         .iter()
         .map(|s| s.to_string())
         .chain([
+            head_label,
             format!("Annual cost [{cur}]"),
             "Suggestion (estimate)".to_string(),
         ]);
@@ -681,7 +742,7 @@ pub fn write_summary_block(
         ws.write_string(r, 1, label(f))?;
         ws.write_string(r, 2, &f.line)?;
         ws.write_string(r, 3, f.kind)?;
-        opt(ws, r, 4, Some(f.head_m), &st.n3)?;
+        opt(ws, r, 4, Some(f.head_m * fh), &st.n3)?;
         opt(ws, r, 5, f.annual_cost, &st.n2)?;
         if let Some(s) = &f.suggestion {
             ws.write_string(r, 6, suggestion_text(s, "*"))?;
@@ -714,13 +775,17 @@ fn write_summary_systems(
     }
     ws.write_string_with_format(r, 0, SYSTEMS_CAUTION, &st.bold)?;
     r += 1;
+    let (flow_label, fq) = header_in("At flow [m3/h]", st.units);
+    let (has, fh) = header_in("Has [m]", st.units);
+    let (nominal, _) = header_in("Nominal [m]", st.units);
+    let (needs, _) = header_in("Needs [m]", st.units);
     for (c, h) in [
         "System",
         "Check",
-        "At flow [m3/h]",
-        "Has [m]",
-        "Nominal [m]",
-        "Needs [m]",
+        &flow_label,
+        &has,
+        &nominal,
+        &needs,
         "Result",
         "Note",
     ]
@@ -729,15 +794,16 @@ fn write_summary_systems(
     {
         ws.write_string_with_format(r, c as u16, *h, &st.header)?;
     }
+    let head = |v: Option<f64>| v.map(|x| x * fh);
     for s in &audit.systems {
         for c in &s.checks {
             r += 1;
             ws.write_string(r, 0, &s.system)?;
             ws.write_string(r, 1, c.check)?;
-            opt(ws, r, 2, Some(m3h(c.flow_m3_s)), &st.n2)?;
-            opt(ws, r, 3, c.available_m, &st.n2)?;
-            opt(ws, r, 4, c.nominal_m, &st.n2)?;
-            opt(ws, r, 5, c.needed_m, &st.n2)?;
+            opt(ws, r, 2, Some(m3h(c.flow_m3_s) * fq), &st.n2)?;
+            opt(ws, r, 3, head(c.available_m), &st.n2)?;
+            opt(ws, r, 4, head(c.nominal_m), &st.n2)?;
+            opt(ws, r, 5, head(c.needed_m), &st.n2)?;
             let fmt = match c.outcome {
                 Outcome::Pass => &st.good,
                 Outcome::Fail => &st.bad,

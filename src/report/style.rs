@@ -3,8 +3,8 @@
 
 use rust_xlsxwriter::{Color, Format, FormatAlign, FormatBorder, FormatUnderline};
 
-use super::console::UnitSystem;
 use crate::error::Severity;
+use crate::units::UnitSystem;
 
 /// The formats in use, built once per workbook.
 pub(crate) struct Styles {
@@ -32,10 +32,12 @@ pub(crate) struct Styles {
     pub link: Format,
     /// Dates copied from the input.
     pub date: Format,
-    /// A result that fails (rank uncertain, duty not met).
+    /// A result that fails (duty not met, NPSH short).
     pub bad: Format,
     /// A result that holds.
     pub good: Format,
+    /// A rank that may move across the K bands: a caution, not a failure, so a fill of its own.
+    pub uncertain: Format,
     /// Units the report is written in.
     pub units: UnitSystem,
 }
@@ -75,6 +77,9 @@ impl Styles {
                 .set_bold()
                 .set_background_color(Color::RGB(0xEFB1AB)),
             good: Format::new().set_background_color(Color::RGB(0xDCE8F0)),
+            uncertain: Format::new()
+                .set_italic()
+                .set_background_color(Color::RGB(0xE4D7EE)),
             units: UnitSystem::Si,
         }
     }
@@ -102,9 +107,54 @@ impl Styles {
             &self.date,
             &self.bad,
             &self.good,
+            &self.uncertain,
         ];
         v.extend(&self.severity);
         v
+    }
+}
+
+impl Styles {
+    /// The fills used across the workbook and what each means, in the order the legend lists
+    /// them.
+    pub fn legend(&self) -> [(&Format, &'static str, &'static str); 7] {
+        [
+            (
+                self.severity(Severity::Error),
+                "error",
+                "input cell with an error finding (Findings)",
+            ),
+            (
+                self.severity(Severity::Warning),
+                "warning",
+                "input cell with a warning finding",
+            ),
+            (
+                self.severity(Severity::Info),
+                "info",
+                "input cell with an information finding",
+            ),
+            (
+                &self.assumed,
+                "assumed",
+                "value the audit supplied (a default, see Basis)",
+            ),
+            (
+                &self.bad,
+                "fails",
+                "a check that fails (duty not met, NPSH short)",
+            ),
+            (
+                &self.good,
+                "holds",
+                "a check that passes, a rank that holds",
+            ),
+            (
+                &self.uncertain,
+                "uncertain",
+                "a rank that can move across the K bands",
+            ),
+        ]
     }
 }
 

@@ -8,12 +8,12 @@ use rust_xlsxwriter::{
 };
 use std::collections::{BTreeMap, HashSet};
 
-use super::console::{UnitSystem, header_in};
 use super::style::{MAX_CELL_CHARS, Styles, shown, truncate};
 use crate::audit::{Audit, FittingResult, LineResult, RunResult};
 use crate::error::{Severity, quote_sheet};
 use crate::ingest::list::Became;
 use crate::ingest::{Input, Layout, SheetGrid, TableKind};
+use crate::units::{UnitSystem, header_in};
 
 /// Deflate level of the written workbook (1 fastest … 9 smallest).
 const ZIP_LEVEL: u8 = 1;
@@ -178,11 +178,12 @@ pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Wo
                 audit,
                 ranking_rows,
                 invented.as_deref(),
+                st,
             )?;
             let mut done = vec![summary, findings_ws, ranking_ws];
             if !audit.systems.is_empty() {
                 let mut ws = named(Worksheet::new(), &systems_name)?;
-                super::ranking::write_systems(&mut ws, &systems_name, audit)?;
+                super::ranking::write_systems(&mut ws, &systems_name, audit, st)?;
                 done.push(ws);
             }
             for job in rest {
@@ -706,38 +707,29 @@ fn write_summary(
         ws.write_string_with_format(r, 0, super::invented::label(&cell), &st.bold)?;
         r += 2;
     }
-    for (label, value) in [
-        ("Lines audited", audit.lines.len().to_string()),
-        ("Pipe runs", audit.runs.len().to_string()),
-        ("Fittings", audit.fittings.len().to_string()),
-        ("Sum of line losses [m]", format!("{total:.3}")),
-        (
-            "Findings (error / warning / info)",
-            format!(
-                "{} / {} / {}",
-                audit.count(Severity::Error),
-                audit.count(Severity::Warning),
-                audit.count(Severity::Info)
-            ),
-        ),
+    let (losses_label, fh) = header_in("Sum of line losses [m]", st.units);
+    let count = |n: usize| (n as f64, &st.n0);
+    for (label, (value, fmt)) in [
+        ("Lines audited", count(audit.lines.len())),
+        ("Pipe runs", count(audit.runs.len())),
+        ("Fittings", count(audit.fittings.len())),
+        (losses_label.as_str(), (total * fh, &st.n3)),
+        ("Findings: errors", count(audit.count(Severity::Error))),
+        ("Findings: warnings", count(audit.count(Severity::Warning))),
+        ("Findings: info", count(audit.count(Severity::Info))),
     ] {
         ws.write_string_with_format(r, 0, label, &st.bold)?;
-        ws.write_string(r, 2, value)?;
+        ws.write_number_with_format(r, 2, value, fmt)?;
         r += 1;
     }
     if !input.report.left_out.is_empty() {
         ws.write_string_with_format(r, 0, "Rows left out by status", &st.bold)?;
-        ws.write_string(
-            r,
-            2,
-            format!(
-                "{} (decommissioned, removed, spare ...; listed in Basis)",
-                input.report.left_out.len()
-            ),
-        )?;
+        ws.write_number_with_format(r, 2, input.report.left_out.len() as f64, &st.n0)?;
+        ws.write_string(r, 3, "decommissioned, removed, spare ...; listed in Basis")?;
         r += 1;
     }
-    r = super::ranking::write_summary_block(ws, audit, r)?;
+    r = write_legend(ws, r + 1, st)? + 1;
+    r = super::ranking::write_summary_block(ws, audit, r, st)?;
     let headers = [
         "Line",
         "Service",
@@ -782,6 +774,18 @@ fn write_summary(
         ws.set_column_width(c, 17)?;
     }
     Ok(())
+}
+
+/// The legend of the workbook's fills: a sample cell in each fill, its name and meaning. Returns
+/// the next free row.
+fn write_legend(ws: &mut Worksheet, mut r: u32, st: &Styles) -> Result<u32, XlsxError> {
+    ws.write_string_with_format(r, 0, "Fills used in this workbook", &st.bold)?;
+    for (fill, name, meaning) in st.legend() {
+        r += 1;
+        ws.write_string_with_format(r, 1, name, fill)?;
+        ws.write_string(r, 2, meaning)?;
+    }
+    Ok(r + 1)
 }
 
 /// The Findings sheet, an Excel table with a link to each finding's cell. Written row by row

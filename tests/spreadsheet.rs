@@ -1,0 +1,203 @@
+//! The annotated workbook as a spreadsheet: figures are number cells (they can be summed and
+//! charted), and `--units us` converts every figure it labels in US units. Read back with
+//! calamine from the invented demo station.
+//!
+//! Expected conversions use the exact definitions of NIST SP 811 (2008) B.8: 1 ft = 0.3048 m;
+//! 1 US gallon = 3.785411784 L (so 1 m³/h = 1000 / 3.785411784 / 60 US gpm).
+
+use calamine::{Data, Range, Reader, Xlsx, open_workbook};
+use std::path::{Path, PathBuf};
+use std::process::Command;
+
+/// Relative tolerance on a converted figure written at full precision: both sides are f64
+/// products of the same value.
+const CONVERSION_TOL: f64 = 1e-12;
+/// Relative tolerance on a figure written to six significant figures (`report::style::shown`):
+/// each side is rounded once, by at most half a unit in the sixth figure.
+const SHOWN_TOL: f64 = 1e-5;
+/// Feet per metre, from 1 ft = 0.3048 m exactly (NIST SP 811 B.8).
+const FT_PER_M: f64 = 1.0 / 0.3048;
+/// US gpm per m³/h, from 1 US gal = 3.785411784 L exactly (NIST SP 811 B.8).
+const GPM_PER_M3H: f64 = 1000.0 / 3.785411784 / 60.0;
+
+fn temp_dir(name: &str) -> PathBuf {
+    let d = std::env::temp_dir().join(format!("lossledger-sheet-{name}-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&d);
+    std::fs::create_dir_all(&d).unwrap();
+    d
+}
+
+/// The demo's input, and its audit written in `units`.
+fn demo_audited(dir: &Path, units: &str) -> Xlsx<std::io::BufReader<std::fs::File>> {
+    let bin = env!("CARGO_BIN_EXE_lossledger");
+    let out = Command::new(bin)
+        .arg("demo")
+        .arg("--dir")
+        .arg(dir)
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let target = dir.join(format!("audit-{units}.xlsx"));
+    let out = Command::new(bin)
+        .arg("audit")
+        .arg(dir.join("kestrel-ridge.xlsx"))
+        .args(["--units", units, "-o"])
+        .arg(&target)
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    open_workbook(&target).unwrap()
+}
+
+/// Each row's column-A label and the cell `col` beside it.
+fn labelled(sheet: &Range<Data>, col: u32) -> Vec<(String, Data)> {
+    let (r0, _) = sheet.start().unwrap();
+    let (r1, _) = sheet.end().unwrap();
+    (r0..=r1)
+        .filter_map(|r| match sheet.get_value((r, 0)) {
+            Some(Data::String(s)) => Some((
+                s.clone(),
+                sheet.get_value((r, col)).cloned().unwrap_or(Data::Empty),
+            )),
+            _ => None,
+        })
+        .collect()
+}
+
+fn number(rows: &[(String, Data)], label: &str) -> f64 {
+    match rows.iter().find(|(l, _)| l == label) {
+        Some((_, Data::Float(x))) => *x,
+        Some((_, other)) => panic!("{label}: not a number cell: {other:?}"),
+        None => panic!(
+            "{label}: no such row in {:?}",
+            rows.iter().map(|r| &r.0).collect::<Vec<_>>()
+        ),
+    }
+}
+
+fn close(a: f64, b: f64, tol: f64) -> bool {
+    (a - b).abs() <= tol * a.abs().max(b.abs())
+}
+
+#[test]
+fn summary_counts_and_totals_are_number_cells() {
+    let dir = temp_dir("summary");
+    let mut wb = demo_audited(&dir, "si");
+    let rows = labelled(&wb.worksheet_range("Summary").unwrap(), 2);
+    // The demo station's size (src/demo.rs): counted, not compared to a pinned value, except
+    // that each count is a whole number and at least one.
+    for label in ["Lines audited", "Pipe runs", "Fittings"] {
+        let n = number(&rows, label);
+        assert!(n >= 1.0 && n.fract() == 0.0, "{label} = {n}");
+    }
+    let findings: f64 = ["Findings: errors", "Findings: warnings", "Findings: info"]
+        .iter()
+        .map(|l| number(&rows, l))
+        .sum();
+    assert!(findings >= 1.0, "the demo raises findings");
+    assert!(number(&rows, "Sum of line losses [m]") > 0.0);
+}
+
+#[test]
+fn summary_has_a_legend_of_the_fills() {
+    let dir = temp_dir("legend");
+    let mut wb = demo_audited(&dir, "si");
+    let summary = wb.worksheet_range("Summary").unwrap();
+    let names: Vec<String> = summary
+        .used_cells()
+        .filter(|(_, c, _)| *c == 1)
+        .filter_map(|(_, _, d)| match d {
+            Data::String(s) => Some(s.clone()),
+            _ => None,
+        })
+        .collect();
+    for fill in [
+        "error",
+        "warning",
+        "info",
+        "assumed",
+        "fails",
+        "holds",
+        "uncertain",
+    ] {
+        assert!(
+            names.iter().any(|n| n == fill),
+            "legend lacks {fill}: {names:?}"
+        );
+    }
+}
+
+#[test]
+fn system_figures_are_number_cells_converted_by_units_us() {
+    let dir = temp_dir("systems");
+    let mut si = demo_audited(&dir, "si");
+    let mut us = demo_audited(&dir, "us");
+    // The demo's input has a Systems sheet, so the checks sheet is named "System checks".
+    let si_rows = labelled(&si.worksheet_range("System checks").unwrap(), 1);
+    let us_rows = labelled(&us.worksheet_range("System checks").unwrap(), 1);
+    for (si_label, us_label, factor) in [
+        ("Required head [m]", "Required head [ft]", FT_PER_M),
+        ("Line losses [m]", "Line losses [ft]", FT_PER_M),
+        ("Duty flow [m3/h]", "Duty flow [US gpm]", GPM_PER_M3H),
+        (
+            "NPSH available at duty [m]",
+            "NPSH available at duty [ft]",
+            FT_PER_M,
+        ),
+    ] {
+        let (a, b) = (number(&si_rows, si_label), number(&us_rows, us_label));
+        assert!(
+            close(a * factor, b, SHOWN_TOL),
+            "{si_label}: {a} × {factor} ≠ {b}"
+        );
+    }
+}
+
+#[test]
+fn units_us_converts_the_summary_and_ranking_heads() {
+    let dir = temp_dir("ranking");
+    let mut si = demo_audited(&dir, "si");
+    let mut us = demo_audited(&dir, "us");
+    let (a, b) = (
+        number(
+            &labelled(&si.worksheet_range("Summary").unwrap(), 2),
+            "Sum of line losses [m]",
+        ),
+        number(
+            &labelled(&us.worksheet_range("Summary").unwrap(), 2),
+            "Sum of line losses [ft]",
+        ),
+    );
+    assert!(close(a * FT_PER_M, b, CONVERSION_TOL), "{a} m vs {b} ft");
+    // The ranking's head column: find it by header in each workbook, compare the first items.
+    let head_col = |sheet: &Range<Data>, header: &str| -> (u32, u32) {
+        sheet
+            .used_cells()
+            .find(|(_, _, d)| matches!(d, Data::String(s) if s == header))
+            .map(|(r, c, _)| (r as u32, c as u32))
+            .unwrap_or_else(|| panic!("no {header} header"))
+    };
+    let rs = si.worksheet_range("Fitting ranking").unwrap();
+    let ru = us.worksheet_range("Fitting ranking").unwrap();
+    let (hr, hc) = head_col(&rs, "Head [m]");
+    let (ur, uc) = head_col(&ru, "Head [ft]");
+    for i in 1..=5 {
+        let cell = |s: &Range<Data>, r: u32, c: u32| match s.get((r as usize + i, c as usize)) {
+            Some(Data::Float(x)) => *x,
+            other => panic!("ranking row {i}: {other:?}"),
+        };
+        let (a, b) = (cell(&rs, hr, hc), cell(&ru, ur, uc));
+        assert!(
+            close(a * FT_PER_M, b, SHOWN_TOL),
+            "row {i}: {a} m vs {b} ft"
+        );
+    }
+}
