@@ -735,10 +735,12 @@ fn demo_station_figures_follow_their_definitions_in_json_and_workbook() {
         .rows()
         .flat_map(|r| r.iter().map(|c| c.to_string()))
         .collect();
-    assert!(
-        text.iter()
-            .any(|t| t == "Test point (measured operating point)")
-    );
+    // The invented test point of Duty A (src/demo.rs: 185 m3/h) as a number cell beside its label.
+    let test_flow = systems
+        .rows()
+        .find(|r| r.first() == Some(&Data::String("Test flow [m3/h]".into())))
+        .expect("a Test flow row");
+    assert_eq!(test_flow.get(1), Some(&Data::Float(185.0)));
     assert!(
         text.iter()
             .any(|t| t.contains("Energy and operating-point figures are screening estimates"))

@@ -1,6 +1,7 @@
 //! Outputs: the annotated workbook, JSON, and the console summary.
 
 pub mod console;
+pub(crate) mod figures;
 pub mod invented;
 pub mod json;
 pub mod ranking;

@@ -4,6 +4,7 @@ use rust_xlsxwriter::{
     Chart, ChartMarker, ChartMarkerType, ChartType, Format, Url, Worksheet, XlsxError,
 };
 
+use super::figures::{Figure, figure, write_figures};
 use super::style::{MAX_CELL_CHARS, Styles, shown, truncate};
 use crate::audit::energy::{OPERATING_POINT_CAUTION, RankBasis, SAVINGS_CAUTION};
 use crate::audit::system::{Outcome, SystemResult};
@@ -432,22 +433,6 @@ pub(crate) fn write_systems(
     Ok(())
 }
 
-/// One figure of a system block: its label with the SI unit (`Name [m]`), the value in SI, and
-/// where it came from. Written as a number cell in the report's units, the source beside it.
-struct Figure {
-    label: String,
-    value: Option<f64>,
-    basis: String,
-}
-
-fn figure(label: impl Into<String>, value: Option<f64>, basis: impl Into<String>) -> Figure {
-    Figure {
-        label: label.into(),
-        value,
-        basis: basis.into(),
-    }
-}
-
 /// The duty, head and operating-point figures of a system.
 fn duty_figures(s: &SystemResult) -> Vec<Figure> {
     let mut v = vec![
@@ -523,29 +508,6 @@ fn npsh_figures(at: &str, c: &crate::audit::system::NpshCheck) -> Vec<Figure> {
     ]
 }
 
-/// Write `figures` from row `r`: label, number (or a dash when missing) and source. Returns the
-/// next free row.
-fn write_figures(
-    ws: &mut Worksheet,
-    mut r: u32,
-    figures: &[Figure],
-    st: &Styles,
-) -> Result<u32, XlsxError> {
-    for f in figures {
-        let (label, factor) = header_in(&f.label, st.units);
-        ws.write_string_with_format(r, 0, label, &st.bold)?;
-        match f.value.filter(|x| x.is_finite()) {
-            Some(x) => ws.write_number_with_format(r, 1, shown(x * factor), &st.n3)?,
-            None => ws.write_string(r, 1, "—")?,
-        };
-        if !f.basis.is_empty() {
-            ws.write_string(r, 2, &f.basis)?;
-        }
-        r += 1;
-    }
-    Ok(r)
-}
-
 fn write_system(
     ws: &mut Worksheet,
     sheet: &str,
@@ -603,11 +565,8 @@ fn write_system(
         ws.write_string_with_format(r, 1, text, fmt)?;
         r += 1;
     }
-    for (k, v) in super::station::station_rows(s, &audit.rules, &audit.energy.currency) {
-        ws.write_string_with_format(r, 0, k, &st.bold)?;
-        ws.write_string_with_format(r, 1, truncate(&v, MAX_CELL_CHARS), &st.wrap)?;
-        r += 1;
-    }
+    let station = super::station::station_figures(s, &audit.rules, &audit.energy.currency);
+    r = write_figures(ws, r, &station, st)?;
     if !s.defaults.is_empty() {
         ws.write_string_with_format(r, 0, "Defaults applied", &st.bold)?;
         ws.write_string_with_format(r, 1, s.defaults.join("; "), &st.wrap)?;

@@ -3,116 +3,227 @@
 
 use crate::audit::Rules;
 use crate::audit::station::STATION_CAUTION;
+use crate::audit::station::TestResult;
 use crate::audit::system::SystemResult;
+
+use super::figures::{Figure, figure, share, text};
 
 fn m3h(q: f64) -> f64 {
     q * 3600.0
-}
-
-fn per_metre(x: Option<f64>) -> String {
-    x.map_or("—".into(), |v| format!("{v:.6}"))
 }
 
 fn pct(x: f64) -> String {
     format!("{:.1} %", x * 100.0)
 }
 
-/// The rows shown for one system, as (label, text), in order; only those with figures.
-pub fn station_rows(s: &SystemResult, rules: &Rules, cur: &str) -> Vec<(&'static str, String)> {
-    let mut rows = vec![
-        (
-            "Control",
-            format!("{} ({})", s.control.id(), s.control_basis),
-        ),
-        (
+/// The station-energy figures of one system (Systems sheet), in order; only those with values.
+pub(crate) fn station_figures(s: &SystemResult, rules: &Rules, cur: &str) -> Vec<Figure> {
+    let mut v = vec![
+        text("Control", s.control.id(), &s.control_basis),
+        figure(
             "Minimum energy to lift [kWh/m3/m]",
-            format!(
-                "{:.6} (ρ g / 3.6e6 at the system's density)",
-                s.minimum_specific_energy_kwh_m3_m
-            ),
+            Some(s.minimum_specific_energy_kwh_m3_m),
+            "ρ g / 3.6e6 at the system's density",
         ),
     ];
-    if let Some(x) = s.loss_share {
-        rows.push((
+    if s.loss_share.is_some() {
+        v.push(share(
             "Piping share of the head",
-            format!("{} (line losses over required head at duty)", pct(x)),
+            s.loss_share,
+            "line losses over required head at duty",
         ));
     }
     if let Some(m) = s.measured {
-        rows.push(("Metered performance", format!(
-            "{:.0} kWh for {:.0} m3 a year: {:.4} kWh/m3, {} kWh/m3/m of the computed {:.2} m; wire-to-water {}",
-            m.energy_kwh, m.volume_m3, m.specific_energy_kwh_m3, per_metre(m.specific_energy_kwh_m3_m), m.head_m, pct(m.wire_to_water)
-        )));
+        let basis = "metered (Systems sheet)";
+        v.extend([
+            figure("Metered energy [kWh/yr]", Some(m.energy_kwh), basis),
+            figure("Metered volume [m3/yr]", Some(m.volume_m3), basis),
+            figure(
+                "Specific energy, metered [kWh/m3]",
+                Some(m.specific_energy_kwh_m3),
+                "",
+            ),
+            figure(
+                "Head the metered figures are referred to [m]",
+                Some(m.head_m),
+                "computed required head at duty",
+            ),
+            figure(
+                "Specific energy per metre, metered [kWh/m3/m]",
+                m.specific_energy_kwh_m3_m,
+                "",
+            ),
+            share(
+                "Wire-to-water, metered",
+                Some(m.wire_to_water),
+                "minimum energy over the metered specific energy",
+            ),
+        ]);
     }
     if let Some(t) = s.test {
-        rows.push(("Test point (measured operating point)", format!(
-            "{:.1} m3/h at {:.2} m drawing {:.2} kW: {:.4} kWh/m3, {} kWh/m3/m; wire-to-water {}; computed system head there {:.2} m ({:+.2} m)",
-            m3h(t.point.flow_m3_s), t.point.head_m, t.power_w / 1e3, t.specific_energy_kwh_m3, per_metre(t.specific_energy_kwh_m3_m), pct(t.wire_to_water), t.computed_head_m, t.head_difference_m
-        )));
+        test_figures(&t, &mut v);
     }
-    pump_rows(s, rules, &mut rows);
-    savings_rows(s, rules, cur, &mut rows);
-    rows.push(("Caution on energy figures", STATION_CAUTION.to_string()));
-    rows
+    pump_figures(s, rules, &mut v);
+    savings_figures(s, rules, cur, &mut v);
+    v.push(text("Caution on energy figures", STATION_CAUTION, ""));
+    v
 }
 
-fn pump_rows(s: &SystemResult, rules: &Rules, rows: &mut Vec<(&'static str, String)>) {
+fn test_figures(t: &TestResult, v: &mut Vec<Figure>) {
+    let basis = "test point (Systems sheet)";
+    v.extend([
+        figure("Test flow [m3/h]", Some(m3h(t.point.flow_m3_s)), basis),
+        figure("Test head [m]", Some(t.point.head_m), basis),
+        figure("Test motor input [kW]", Some(t.power_w / 1e3), basis),
+        figure(
+            "Specific energy, test [kWh/m3]",
+            Some(t.specific_energy_kwh_m3),
+            "",
+        ),
+        figure(
+            "Specific energy per metre, test [kWh/m3/m]",
+            t.specific_energy_kwh_m3_m,
+            "",
+        ),
+        share("Wire-to-water, test", Some(t.wire_to_water), ""),
+        figure(
+            "Computed system head at the test flow [m]",
+            Some(t.computed_head_m),
+            "system curve",
+        ),
+        figure(
+            "Test head minus computed [m]",
+            Some(t.head_difference_m),
+            "large: the register or the gauges are wrong",
+        ),
+    ]);
+}
+
+fn pump_figures(s: &SystemResult, rules: &Rules, v: &mut Vec<Figure>) {
     let Some(p) = s.pump_efficiency else { return };
     let b = p.best;
-    rows.push((
-        "Best efficiency (pump curve)",
-        format!(
-            "{:.1} m3/h at {:.2} m, pump efficiency {}{}",
-            m3h(b.flow_m3_s),
-            b.head_m,
-            pct(b.efficiency),
-            if b.at_end_of_points {
-                " (at the end of the points given: the best may lie beyond)"
-            } else {
-                ""
-            }
-        ),
-    ));
-    if let (Some(e), Some(w)) = (p.pump_efficiency, p.wire_to_water) {
-        rows.push(("Efficiency where it runs", format!(
-            "pump {} at {:.1} m3/h × motor {} = {} wire-to-water (used for the system's energy where Lines and Systems give none)",
-            pct(e), m3h(p.flow_m3_s), pct(rules.station.motor_efficiency), pct(w)
-        )));
+    let basis = if b.at_end_of_points {
+        "pump curve; at the end of the points given: the best may lie beyond"
+    } else {
+        "pump curve"
+    };
+    v.extend([
+        figure("Best-efficiency flow [m3/h]", Some(m3h(b.flow_m3_s)), basis),
+        figure("Best-efficiency head [m]", Some(b.head_m), basis),
+        share("Best pump efficiency", Some(b.efficiency), basis),
+    ]);
+    if p.pump_efficiency.is_some() {
+        v.extend([
+            figure("Flow where it runs [m3/h]", Some(m3h(p.flow_m3_s)), ""),
+            share(
+                "Pump efficiency where it runs",
+                p.pump_efficiency,
+                "pump curve",
+            ),
+            share(
+                "Motor efficiency",
+                Some(rules.station.motor_efficiency),
+                "rule [station] motor_efficiency",
+            ),
+            share(
+                "Wire-to-water where it runs",
+                p.wire_to_water,
+                "used for the system's energy where Lines and Systems give none",
+            ),
+        ]);
     }
-    rows.push(("Preferred operating region", format!(
-        "{:.1}–{:.1} m3/h ({:.0}–{:.0} % of best-efficiency flow, ANSI/HI 9.6.3): duty at {:.0} %{}{}",
-        m3h(p.preferred_min_m3_s), m3h(p.preferred_max_m3_s), rules.station.preferred_min * 100.0, rules.station.preferred_max * 100.0,
-        p.duty_ratio * 100.0,
-        p.operating_ratio.map(|r| format!(", operating point at {:.0} %", r * 100.0)).unwrap_or_default(),
-        if p.outside_preferred { " — OUTSIDE" } else { " — inside" }
-    )));
+    let region = format!(
+        "{:.0}–{:.0} % of best-efficiency flow (ANSI/HI 9.6.3)",
+        rules.station.preferred_min * 100.0,
+        rules.station.preferred_max * 100.0
+    );
+    v.extend([
+        figure(
+            "Preferred region from [m3/h]",
+            Some(m3h(p.preferred_min_m3_s)),
+            &region,
+        ),
+        figure(
+            "Preferred region to [m3/h]",
+            Some(m3h(p.preferred_max_m3_s)),
+            &region,
+        ),
+        share(
+            "Duty flow over best-efficiency flow",
+            Some(p.duty_ratio),
+            "",
+        ),
+    ]);
+    if p.operating_ratio.is_some() {
+        v.push(share(
+            "Operating flow over best-efficiency flow",
+            p.operating_ratio,
+            "",
+        ));
+    }
+    let inside = if p.outside_preferred {
+        "OUTSIDE"
+    } else {
+        "inside"
+    };
+    v.push(text("Preferred region check", inside, &region));
 }
 
-fn savings_rows(
-    s: &SystemResult,
-    rules: &Rules,
-    cur: &str,
-    rows: &mut Vec<(&'static str, String)>,
-) {
-    let Some(v) = &s.savings else { return };
+fn savings_figures(s: &SystemResult, rules: &Rules, cur: &str, v: &mut Vec<Figure>) {
+    let Some(x) = &s.savings else { return };
     let lc = rules.life_cycle;
-    rows.push(("Savings of the suggestions (estimate)", format!(
-        "{:.2} m at duty ({:.2} m of it throttling), {:.0} kWh and {cur} {:.0} a year; present value {cur} {:.0} over {} years at {} % — {}",
-        v.head_saving_m, v.throttling_head_m, v.annual_saving_kwh, v.annual_saving, v.present_value, lc.years, lc.discount_rate * 100.0, v.note
-    )));
-    if let Some(c) = v.speed {
-        rows.push(("Speed control (affinity laws)", format!(
-            "speed {} → {} holds {:.1} m3/h at {:.2} m instead of {:.2} m; wire-to-water {} → {} ({}); {:.2} kW → {:.2} kW",
-            pct(c.speed_ratio_before), pct(c.speed_ratio_after), m3h(s.flow_m3_s), c.head_after_m, c.head_before_m,
-            pct(c.efficiency_before), pct(c.efficiency_after), if c.efficiency_from_curve { "pump curve × motor" } else { "held" },
-            c.power_before_w / 1e3, c.power_after_w / 1e3
-        )));
+    let pv = format!("over {} years at {} %", lc.years, lc.discount_rate * 100.0);
+    v.extend([
+        text("Savings of the suggestions (estimate)", &x.note, ""),
+        figure("Head saved at duty [m]", Some(x.head_saving_m), ""),
+        figure("Of it throttling [m]", Some(x.throttling_head_m), ""),
+        figure("Energy saved [kWh/yr]", Some(x.annual_saving_kwh), ""),
+        figure(format!("Annual saving [{cur}]"), Some(x.annual_saving), ""),
+        figure(
+            format!("Present value of the saving [{cur}]"),
+            Some(x.present_value),
+            pv,
+        ),
+    ]);
+    if let Some(c) = x.speed {
+        let eff = if c.efficiency_from_curve {
+            "pump curve × motor"
+        } else {
+            "held"
+        };
+        v.extend([
+            share(
+                "Speed before (speed control)",
+                Some(c.speed_ratio_before),
+                "affinity laws",
+            ),
+            share("Speed after", Some(c.speed_ratio_after), "affinity laws"),
+            figure("Head at duty before [m]", Some(c.head_before_m), ""),
+            figure("Head at duty after [m]", Some(c.head_after_m), ""),
+            share("Wire-to-water before", Some(c.efficiency_before), ""),
+            share("Wire-to-water after", Some(c.efficiency_after), eff),
+            figure("Power before [kW]", Some(c.power_before_w / 1e3), ""),
+            figure("Power after [kW]", Some(c.power_after_w / 1e3), ""),
+        ]);
     }
-    if let Some(c) = v.fixed {
-        rows.push(("Fixed speed with the losses removed", format!(
-            "the operating point moves from {:.1} m3/h at {:.2} m ({:.2} kW) to {:.1} m3/h at {:.2} m ({:.2} kW): check NPSH and motor current there",
-            m3h(c.before.flow_m3_s), c.before.head_m, c.power_before_w / 1e3, m3h(c.after.flow_m3_s), c.after.head_m, c.power_after_w / 1e3
-        )));
+    if let Some(c) = x.fixed {
+        let basis = "fixed speed, losses removed: check NPSH and motor current there";
+        v.extend([
+            figure(
+                "Operating flow before [m3/h]",
+                Some(m3h(c.before.flow_m3_s)),
+                "",
+            ),
+            figure("Operating head before [m]", Some(c.before.head_m), ""),
+            figure("Power before [kW]", Some(c.power_before_w / 1e3), ""),
+            figure(
+                "Operating flow after [m3/h]",
+                Some(m3h(c.after.flow_m3_s)),
+                basis,
+            ),
+            figure("Operating head after [m]", Some(c.after.head_m), basis),
+            figure("Power after [kW]", Some(c.power_after_w / 1e3), basis),
+        ]);
     }
 }
 
