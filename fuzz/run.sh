@@ -7,7 +7,7 @@
 set -euo pipefail
 cd "$(dirname "$0")"
 SECS=${1:-600}
-for t in cell_parser ingest_bytes station_cells describe_text list_sheet; do
+for t in cell_parser ingest_bytes station_cells describe_text list_sheet station_layout; do
     mkdir -p "corpus/$t"
     cargo +nightly fuzz run -s none "$t" "corpus/$t" "seeds/$t" -- -max_total_time="$SECS" -rss_limit_mb=4096 2>&1 | tail -n 20
 done

@@ -32,6 +32,45 @@ pub enum FailOn {
     Error,
 }
 
+/// What one input file may cost to read; past a limit the file is refused (exit 2) instead of
+/// exhausting memory. The defaults fit any real register (docs/reliability.md).
+#[derive(Args, Debug, Clone, Copy)]
+pub struct LimitArgs {
+    /// Refuse a file holding more cells than this (values and formulas, all sheets).
+    #[arg(long, value_name = "N", default_value_t = ingest::limits::DEFAULT_MAX_CELLS)]
+    pub max_cells: u64,
+    /// Refuse a workbook whose parts unzip to more than this many MB in total (for .xls and
+    /// .csv: the file's size).
+    #[arg(long, value_name = "MB", default_value_t = ingest::limits::DEFAULT_MAX_UNZIPPED_MB)]
+    pub max_unzipped_mb: u64,
+    /// Refuse a workbook part of 32 MB or more unzipped that is more than this many times its
+    /// compressed size.
+    #[arg(long, value_name = "N", default_value_t = ingest::limits::DEFAULT_MAX_RATIO)]
+    pub max_ratio: u64,
+}
+
+impl LimitArgs {
+    /// The limits as the reader takes them.
+    pub fn limits(&self) -> ingest::Limits {
+        ingest::Limits {
+            max_cells: self.max_cells,
+            max_unzipped_mb: self.max_unzipped_mb,
+            max_ratio: self.max_ratio,
+        }
+    }
+}
+
+impl Default for LimitArgs {
+    fn default() -> Self {
+        let l = ingest::Limits::default();
+        LimitArgs {
+            max_cells: l.max_cells,
+            max_unzipped_mb: l.max_unzipped_mb,
+            max_ratio: l.max_ratio,
+        }
+    }
+}
+
 /// Where the input comes from: workbooks, CSV files or folders, plus CSV tables named by flag.
 #[derive(Args, Debug, Clone, Default)]
 pub struct InputArgs {
@@ -50,6 +89,9 @@ pub struct InputArgs {
     /// Header map (TOML) for headers the aliases do not reach (`lossledger check` prints one).
     #[arg(long, value_name = "FILE")]
     pub map: Option<PathBuf>,
+    /// Reading limits.
+    #[command(flatten)]
+    pub limits: LimitArgs,
 }
 
 impl InputArgs {
@@ -84,7 +126,10 @@ impl InputArgs {
             .map(ingest::HeaderMap::from_file)
             .transpose()
         {
-            Ok(map) => Ok(ingest::ReadOptions { map }),
+            Ok(map) => Ok(ingest::ReadOptions {
+                map,
+                limits: self.limits.limits(),
+            }),
             Err(e) => {
                 eprintln!("error: {e}");
                 Err(2)
@@ -132,6 +177,9 @@ pub struct CompareArgs {
     /// Units of the console summary and the workbook (JSON stays SI).
     #[arg(long, value_enum, default_value = "si")]
     pub units: crate::units::UnitSystem,
+    /// Reading limits, applied to each revision.
+    #[command(flatten)]
+    pub limits: LimitArgs,
 }
 
 /// Subcommands.
@@ -607,7 +655,10 @@ fn compare(args: &CompareArgs) -> u8 {
             return 2;
         }
     };
-    let options = ingest::ReadOptions { map };
+    let options = ingest::ReadOptions {
+        map,
+        limits: args.limits.limits(),
+    };
     let old = compare_side(Side::Old, &args.old, &options, &rules);
     let new = compare_side(Side::New, &args.new, &options, &rules);
     let (Some(old), Some(new)) = (old, new) else {

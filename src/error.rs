@@ -146,6 +146,21 @@ pub enum InputError {
         /// What the reader said.
         reason: String,
     },
+    /// Reading the file would pass a limit (cells, unzipped size, compression ratio); nothing
+    /// was read further.
+    #[error(
+        "{file}: {what}, over the limit of {limit}; nothing was written (if the file is genuine, raise the limit with {flag})"
+    )]
+    OverLimit {
+        /// File name.
+        file: String,
+        /// What was found, with its size.
+        what: String,
+        /// The limit passed.
+        limit: String,
+        /// The flag that raises it.
+        flag: &'static str,
+    },
     /// A file type the tool does not read.
     #[error("{file}: unsupported file type (expected .xlsx, .xlsm, .xls, .ods or .csv)")]
     UnsupportedType {

@@ -34,6 +34,16 @@ struct Case {
     file: &'static str,
     bytes: Vec<u8>,
     expect: Expect,
+    /// Extra arguments for `lossledger audit` (the reading limits).
+    args: Vec<&'static str>,
+}
+
+impl Case {
+    /// The same case run with extra arguments.
+    fn with_args(mut self, args: &[&'static str]) -> Case {
+        self.args = args.to_vec();
+        self
+    }
 }
 
 fn refused(
@@ -51,6 +61,7 @@ fn refused(
             says,
             never: None,
         },
+        args: Vec::new(),
     }
 }
 
@@ -81,6 +92,7 @@ fn finding(name: &'static str, bytes: Vec<u8>, code: &'static str) -> Case {
             code: Some(code),
             holds: None,
         },
+        args: Vec::new(),
     }
 }
 
@@ -95,6 +107,7 @@ fn completes(name: &'static str, bytes: Vec<u8>, code: Option<&'static str>, hol
             code,
             holds: Some(holds.trim_matches('"').to_string()),
         },
+        args: Vec::new(),
     }
 }
 
@@ -234,6 +247,7 @@ fn cases() -> Vec<Case> {
                 says: "cannot read",
                 never: None,
             },
+            args: Vec::new(),
         },
         refused(
             "password-protected",
@@ -267,6 +281,7 @@ fn cases() -> Vec<Case> {
                 says: "has no header row",
                 never: None,
             },
+            args: Vec::new(),
         },
         Case {
             name: "xls-extension",
@@ -277,6 +292,7 @@ fn cases() -> Vec<Case> {
                 says: "cannot read",
                 never: None,
             },
+            args: Vec::new(),
         },
         // --- workbook without usable tables ---
         refused(
@@ -709,8 +725,95 @@ fn cases() -> Vec<Case> {
             None,
             "L1",
         ),
+        // --- far cells and large files (sparse and bounded reading) ---
+        completes("stray-cells-far-on-every-sheet", far_strays(), None, "L1"),
+        completes("stray-cell-at-xfd1048576", at_last_cell(), None, "L1"),
+        // 40 MB of spaces in the Pipes sheet compress about a thousandfold.
+        refused("inflated-sheet-part", inflated(), None, "--max-ratio"),
+        completes("inflated-sheet-part-allowed", inflated(), None, "L1")
+            .with_args(&["--max-ratio", "100000"]),
+        refused(
+            "inflated-sheet-part-over-size-limit",
+            inflated(),
+            None,
+            "--max-unzipped-mb",
+        )
+        .with_args(&["--max-ratio", "100000", "--max-unzipped-mb", "16"]),
+        refused(
+            "zip-directory-understates-a-part",
+            understated(),
+            None,
+            "cannot read",
+        ),
+        refused("too-many-cells", valid.clone(), None, "--max-cells")
+            .with_args(&["--max-cells", "20"]),
+        completes("cells-under-a-raised-limit", valid.clone(), None, "L1")
+            .with_args(&["--max-cells", "40"]),
     ];
     v
+}
+
+/// Rows and columns of a worksheet (the `.xlsx` limits: `XFD1048576` is the last cell).
+const LAST_ROW: u32 = 1_048_575;
+const LAST_COL: u16 = 16_383;
+
+/// The base station with, on every sheet, a value in the last column of its first data row and a
+/// value in the last row.
+fn far_strays() -> Vec<u8> {
+    let mut st = base_station();
+    for (i, sh) in st.iter_mut().enumerate() {
+        sh.put(1, LAST_COL, n(100.0 + i as f64));
+        sh.put(LAST_ROW, 2, s("stray at the bottom"));
+    }
+    xlsx(&st)
+}
+
+/// The base station with one value at `XFD1048576` of the Pipes sheet.
+fn at_last_cell() -> Vec<u8> {
+    let mut st = base_station();
+    sheet(&mut st, "Pipes").put(LAST_ROW, LAST_COL, n(7.0));
+    xlsx(&st)
+}
+
+/// The base station with 40 MB of spaces inside the Pipes sheet's XML (sheet2.xml).
+fn inflated() -> Vec<u8> {
+    support::padded(
+        &xlsx(&base_station()),
+        "xl/worksheets/sheet2.xml",
+        "<sheetData>",
+        40 << 20,
+    )
+}
+
+/// A stored zip whose central directory says the Pipes sheet is 100 bytes, while it holds more:
+/// the reader must stop at the declared size (an unreadable file), not inflate past it.
+fn understated() -> Vec<u8> {
+    use std::io::Read;
+    let good = xlsx(&base_station());
+    let mut z = zip::ZipArchive::new(std::io::Cursor::new(&good[..])).expect("zip");
+    let mut parts: Vec<(String, Vec<u8>)> = Vec::new();
+    for i in 0..z.len() {
+        let mut f = z.by_index(i).expect("part");
+        let mut data = Vec::new();
+        f.read_to_end(&mut data).expect("read");
+        parts.push((f.name().expect("part name").to_string(), data));
+    }
+    let entries: Vec<(&str, &[u8])> = parts
+        .iter()
+        .map(|(n, d)| (n.as_str(), d.as_slice()))
+        .collect();
+    let mut bytes = zip(&entries);
+    // Central directory header of the sheet: signature PK\x01\x02, uncompressed size at +24
+    // (PKWARE APPNOTE 4.3.12), file name at +46.
+    let name = b"xl/worksheets/sheet2.xml";
+    let at = (0..bytes.len() - 46 - name.len())
+        .find(|&i| {
+            bytes[i..i + 4] == [0x50, 0x4b, 0x01, 0x02]
+                && &bytes[i + 46..i + 46 + name.len()] == name
+        })
+        .expect("central header of the sheet");
+    bytes[at + 24..at + 28].copy_from_slice(&100u32.to_le_bytes());
+    bytes
 }
 
 /// A line id with control characters (SOH, BEL, tab inside).
@@ -723,12 +826,14 @@ fn check(case: &Case) -> Result<(), String> {
     let input = dir.join(case.file);
     std::fs::write(&input, &case.bytes).map_err(|e| e.to_string())?;
     let json = dir.join("out.json");
-    let out = support::run(&[
+    let mut args = vec![
         OsStr::new("audit"),
         input.as_os_str(),
         OsStr::new("--json"),
         json.as_os_str(),
-    ]);
+    ];
+    args.extend(case.args.iter().map(OsStr::new));
+    let out = support::run(&args);
     let stderr = String::from_utf8_lossy(&out.stderr).into_owned();
     let stdout = String::from_utf8_lossy(&out.stdout).into_owned();
     let code = out.status.code();
@@ -880,12 +985,10 @@ fn baseline_nulls() -> &'static std::collections::HashSet<String> {
 }
 
 fn check_workbook_finite(path: &std::path::Path) -> Result<(), String> {
-    use calamine::{Data, Reader, Xlsx, open_workbook};
-    let mut wb: Xlsx<_> =
-        open_workbook(path).map_err(|e| format!("annotated copy unreadable: {e}"))?;
-    for name in wb.sheet_names() {
-        let range = wb.worksheet_range(&name).map_err(|e| e.to_string())?;
-        for (r, c, d) in range.used_cells() {
+    use calamine::Data;
+    // Read cell by cell: a copy keeping a stray value at XFD1048576 is no dense range.
+    for (name, cells) in support::read_cells(path) {
+        for (&(r, c), d) in &cells {
             let bad = match d {
                 Data::Float(x) => !x.is_finite(),
                 Data::String(t) => {
@@ -1013,5 +1116,101 @@ fn list_rows_skipped_with_their_reasons() {
         "{}",
         String::from_utf8_lossy(&audit.stderr)
     );
+    let _ = std::fs::remove_dir_all(&dir);
+}
+
+/// A value far from every table (the last column of a data row, the last row, `XFD1048576`) is
+/// read sparsely: the audit completes, the annotated copy holds each stray value at its place,
+/// the run reports it as outside every table, and the computed columns stay beside their table.
+#[test]
+fn far_stray_cells_are_kept_and_reported() {
+    let dir = support::temp_dir("far-strays");
+    let input = dir.join("station.xlsx");
+    let mut st = base_station();
+    for (i, sh) in st.iter_mut().enumerate() {
+        sh.put(1, LAST_COL, n(100.0 + i as f64));
+        sh.put(LAST_ROW, 2, s("stray at the bottom"));
+    }
+    sheet(&mut st, "Pipes").put(LAST_ROW, LAST_COL, n(7.0));
+    std::fs::write(&input, xlsx(&st)).expect("write");
+    let out = dir.join("out.xlsx");
+    let res = support::run(&[
+        OsStr::new("audit"),
+        input.as_os_str(),
+        OsStr::new("-o"),
+        out.as_os_str(),
+    ]);
+    let stderr = String::from_utf8_lossy(&res.stderr);
+    assert_eq!(res.status.code(), Some(0), "{stderr}");
+    for name in ["Lines", "Pipes", "Fittings"] {
+        // One line per sheet, naming its first stray cell (the last column of row 2).
+        assert!(
+            stderr.contains(&format!("{name}!XFD2: ")) && stderr.contains("outside every table"),
+            "{name}: {stderr}"
+        );
+    }
+    assert!(stderr.contains("Pipes!XFD1048576"), "{stderr}");
+    let copy = support::read_cells(&out);
+    for (i, name) in ["Lines", "Pipes", "Fittings"].iter().enumerate() {
+        let cells = &copy[*name];
+        assert_eq!(
+            cells.get(&(1, u32::from(LAST_COL))),
+            Some(&calamine::Data::Float(100.0 + i as f64)),
+            "{name}: the value in the last column is kept"
+        );
+        assert_eq!(
+            cells.get(&(LAST_ROW, 2)),
+            Some(&calamine::Data::String("stray at the bottom".into())),
+            "{name}: the value in the last row is kept"
+        );
+    }
+    assert_eq!(
+        copy["Pipes"].get(&(LAST_ROW, u32::from(LAST_COL))),
+        Some(&calamine::Data::Float(7.0))
+    );
+    // Pipes holds columns A–F: the computed columns start at H, one free column after the table
+    // (docs/workbook.md), not beyond the stray value in column XFD.
+    assert_eq!(
+        copy["Pipes"].get(&(0, 7)),
+        Some(&calamine::Data::String("Bore [mm]".into()))
+    );
+    let _ = std::fs::remove_dir_all(&dir);
+}
+
+/// The limit flags work on `check` and `compare` too: the same file is refused under a low limit
+/// (exit 2, the file and the flag named, nothing written) and read under the default.
+#[test]
+fn limit_flags_apply_to_check_and_compare() {
+    let dir = support::temp_dir("limit-flags");
+    let input = dir.join("station.xlsx");
+    std::fs::write(&input, xlsx(&base_station())).expect("write");
+    let low = [OsStr::new("--max-cells"), OsStr::new("20")];
+    let check = |extra: &[&OsStr]| {
+        let mut args = vec![OsStr::new("check"), input.as_os_str()];
+        args.extend_from_slice(extra);
+        support::run(&args)
+    };
+    let refused = check(&low);
+    let err = String::from_utf8_lossy(&refused.stderr);
+    assert_eq!(refused.status.code(), Some(2), "{err}");
+    assert!(
+        err.contains("station.xlsx") && err.contains("--max-cells") && err.contains("20 cells"),
+        "{err}"
+    );
+    assert_eq!(check(&[]).status.code(), Some(0));
+    let out = dir.join("cmp.xlsx");
+    let mut args = vec![
+        OsStr::new("compare"),
+        input.as_os_str(),
+        input.as_os_str(),
+        OsStr::new("-o"),
+        out.as_os_str(),
+    ];
+    args.extend_from_slice(&low);
+    let cmp = support::run(&args);
+    let err = String::from_utf8_lossy(&cmp.stderr);
+    assert_eq!(cmp.status.code(), Some(2), "{err}");
+    assert!(err.contains("--max-cells"), "{err}");
+    assert_eq!(support::entries(&dir), ["station.xlsx"]);
     let _ = std::fs::remove_dir_all(&dir);
 }

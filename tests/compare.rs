@@ -798,6 +798,7 @@ fn each_messy_fixture_compares_to_no_changes_against_its_canonical_twin() {
             map: map_file
                 .exists()
                 .then(|| lossledger::ingest::HeaderMap::from_file(&map_file).unwrap()),
+            ..ReadOptions::default()
         };
         let read = |p: &Path| {
             read_and_audit(

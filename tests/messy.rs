@@ -20,6 +20,7 @@ fn dir() -> PathBuf {
 fn read(name: &str, map: Option<&str>) -> Input {
     let options = ReadOptions {
         map: map.map(|m| HeaderMap::from_file(&dir().join(m)).expect("map file")),
+        ..ReadOptions::default()
     };
     let input =
         ingest::read_inputs(&[InputSource::Path(dir().join(name))], &options).expect("readable");

@@ -30,7 +30,7 @@ fn set(
         let col = (0..g.end_col())
             .find(|&c| g.value(0, c) == &Data::String((*header).to_string()))
             .unwrap_or_else(|| panic!("{header}"));
-        g.values.set_value((row, col), v.clone());
+        g.set_value(row, col, v.clone());
     }
 }
 

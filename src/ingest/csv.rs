@@ -7,9 +7,10 @@
 //! as a plain decimal number becomes a number cell; every other non-empty field stays text and is
 //! read like a text cell of a workbook (decimal comma, thousands, units...).
 
-use calamine::{Data, Range};
+use calamine::Data;
 
 use super::grid::SheetGrid;
+use super::sparse::{SparseBuilder, SparseCells};
 
 /// The separator of a CSV text: the most frequent of `,`, `;` and tab on its first line, outside
 /// quotes (`,` when none appears).
@@ -115,21 +116,18 @@ fn cell(field: &str) -> Data {
 /// A CSV text as a sheet named `name`.
 pub fn sheet_from_text(name: &str, text: &str) -> SheetGrid {
     let recs = records(text, detect_separator(text));
-    let rows = recs.len();
-    let cols = recs.iter().map(Vec::len).max().unwrap_or(0);
-    if rows == 0 || cols == 0 {
-        return SheetGrid::from_values(name, Range::empty());
-    }
-    let mut range = Range::new((0, 0), (rows as u32 - 1, cols as u32 - 1));
+    // Held sparsely: a line with a million separators costs its fields, not a million columns
+    // on every line.
+    let mut cells = SparseBuilder::default();
     for (r, rec) in recs.iter().enumerate() {
         for (c, f) in rec.iter().enumerate() {
             let d = cell(f);
             if d != Data::Empty {
-                range.set_value((r as u32, c as u32), d);
+                cells.push(r as u32, c as u32, d);
             }
         }
     }
-    SheetGrid::from_values(name, range)
+    SheetGrid::new(name, cells.finish(), SparseCells::default())
 }
 
 #[cfg(test)]

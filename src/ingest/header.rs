@@ -177,7 +177,8 @@ fn map_texts(
 
 /// One header row's texts.
 fn one_row(grid: &SheetGrid, row: u32) -> Vec<(u32, Vec<String>)> {
-    (0..grid.end_col())
+    grid.shown_cols(row)
+        .into_iter()
         .filter_map(|col| cell_text(grid, row, col).map(|t| (col, vec![t])))
         .collect()
 }
@@ -185,7 +186,11 @@ fn one_row(grid: &SheetGrid, row: u32) -> Vec<(u32, Vec<String>)> {
 /// A header spread over two rows: per column the joined text (`Line` over `No.` is `Line No.`),
 /// then the lower text, then the upper one.
 fn two_rows(grid: &SheetGrid, row: u32) -> Vec<(u32, Vec<String>)> {
-    (0..grid.end_col())
+    let mut cols = grid.shown_cols(row);
+    cols.extend(grid.shown_cols(row + 1));
+    cols.sort_unstable();
+    cols.dedup();
+    cols.into_iter()
         .filter_map(|col| {
             let top = cell_text(grid, row, col);
             let bottom = cell_text(grid, row + 1, col);
@@ -201,12 +206,8 @@ fn two_rows(grid: &SheetGrid, row: u32) -> Vec<(u32, Vec<String>)> {
 }
 
 fn row_has_numbers(grid: &SheetGrid, row: u32) -> bool {
-    (0..grid.end_col()).any(|c| {
-        matches!(
-            grid.value(row, c),
-            Data::Float(_) | Data::Int(_) | Data::DateTime(_)
-        )
-    })
+    grid.row(row)
+        .any(|(_, d)| matches!(d, Data::Float(_) | Data::Int(_) | Data::DateTime(_)))
 }
 
 /// Find a table's header row in a sheet: the first row within [`HEADER_SEARCH_ROWS`] whose cells
@@ -223,7 +224,7 @@ pub fn find_layout_with(
     table: TableKind,
     map: Option<&HeaderMap>,
 ) -> Option<Layout> {
-    let start = grid.values.start().map(|(r, _)| r).unwrap_or(0);
+    let start = grid.start_row();
     let last = grid.end_row().min(start + HEADER_SEARCH_ROWS);
     find_layout_in(grid, sheet_index, table, map, 0..last)
 }

@@ -9,12 +9,15 @@ pub mod describe;
 pub mod grid;
 pub mod header;
 pub mod legacy;
+pub mod limits;
 pub mod list;
 pub mod map;
 pub mod parse;
 pub mod quantity;
 pub mod rows;
 pub mod schema;
+pub mod sparse;
+pub mod stray;
 
 use sha2::{Digest, Sha256};
 use std::collections::{HashMap, HashSet};
@@ -23,6 +26,7 @@ use std::path::{Path, PathBuf};
 use crate::error::{CellRef, Diagnostic, InputError, Severity};
 pub use grid::SheetGrid;
 pub use header::Layout;
+pub use limits::Limits;
 pub use map::HeaderMap;
 pub use rows::{FittingRow, FluidRow, LineRow, PipeRow, PumpCurveRow, Service, SystemRow};
 pub use schema::TableKind;
@@ -97,6 +101,8 @@ pub struct ParseReport {
 pub struct ReadOptions {
     /// The user's header map (`--map`).
     pub map: Option<HeaderMap>,
+    /// What one file may cost to read (`--max-cells`, `--max-unzipped-mb`, `--max-ratio`).
+    pub limits: Limits,
 }
 
 /// One thing to read: a workbook, a CSV file, or a folder of them.
@@ -245,6 +251,7 @@ fn extension(path: &Path) -> String {
 fn read_file(
     path: &Path,
     table: Option<TableKind>,
+    limits: &Limits,
 ) -> Result<(Source, Vec<SheetGrid>), InputError> {
     let file = path.display().to_string();
     let bytes = std::fs::read(path).map_err(|e| InputError::Unreadable {
@@ -253,15 +260,30 @@ fn read_file(
     })?;
     let sha256 = hex(&Sha256::digest(&bytes));
     let sheets = match extension(path).as_str() {
-        "xlsx" | "xlsm" if table.is_none() => grid::read_xlsx_bytes(&bytes, &file)?,
-        "xls" | "ods" if table.is_none() => legacy::read_bytes(&bytes, &file)?,
+        "xlsx" | "xlsm" if table.is_none() => grid::read_xlsx_with(&bytes, &file, limits)?,
+        "xls" | "ods" if table.is_none() => legacy::read_bytes_with(&bytes, &file, limits)?,
         "csv" | "txt" => {
+            limits::check_size(&file, bytes.len() as u64, "the file holds", limits)?;
             let (text, _) = csv::decode(&bytes);
             let name = match table {
                 Some(t) => t.sheet_name().to_string(),
                 None => sheet_name_of(path),
             };
-            vec![csv::sheet_from_text(&name, &text)]
+            let sheet = csv::sheet_from_text(&name, &text);
+            if sheet.cell_count() as u64 > limits.max_cells {
+                return Err(limits::too_many_cells(&file, &name, limits));
+            }
+            if sheet.end_row() > SHEET_ROWS || sheet.end_col() > SHEET_COLS {
+                return Err(InputError::Unreadable {
+                    file,
+                    reason: format!(
+                        "the file has {} lines and up to {} fields a line; a sheet holds at most {SHEET_ROWS} rows of {SHEET_COLS} cells",
+                        sheet.end_row(),
+                        sheet.end_col()
+                    ),
+                });
+            }
+            vec![sheet]
         }
         _ => return Err(InputError::UnsupportedType { file }),
     };
@@ -273,6 +295,11 @@ fn read_file(
     };
     Ok((source, sheets))
 }
+
+/// Rows of a worksheet (the `.xlsx` format's limit, which the annotated copy must respect).
+pub const SHEET_ROWS: u32 = 1_048_576;
+/// Columns of a worksheet (`A` to `XFD`).
+pub const SHEET_COLS: u32 = 16_384;
 
 /// A sheet name for a CSV file: its stem, cut to the 31 characters a sheet name may have and
 /// without the characters a sheet name may not hold.
@@ -329,7 +356,7 @@ pub fn read_inputs(sources: &[InputSource], options: &ReadOptions) -> Result<Inp
     let mut parts = Vec::new();
     for (path, table) in &files {
         crate::worker::enter(crate::worker::Phase::Read, &path.display().to_string());
-        let (mut source, mut sheets) = read_file(path, *table)?;
+        let (mut source, mut sheets) = read_file(path, *table, &options.limits)?;
         for (sheet, name) in sheets.iter_mut().zip(source.sheets.iter_mut()) {
             let unique = unique_sheet_name(&sheet.name, &taken);
             taken.insert(unique.to_lowercase());
@@ -381,6 +408,7 @@ fn parse_part(source: Source, sheets: Vec<SheetGrid>, options: &ReadOptions) -> 
     input.diagnostics = diagnostics;
     rows::read_all(&mut input);
     list::read_lists(&mut input, options);
+    stray::report(&mut input);
     input
 }
 
@@ -617,18 +645,21 @@ fn locate_tables(
     layouts
 }
 
+/// More blank rows than this in a row end a table: what lies further down (a value typed at the
+/// bottom of the sheet) is outside it. Our choice; registers break pages with a few blank rows.
+pub const TABLE_GAP_ROWS: u32 = 1_000;
+
 /// Several tables on one sheet: under a table, after a blank row, a header row of another table
 /// (a line list above a takeoff) starts a second table; the first ends at the blank row. Only
 /// tables not found elsewhere in the file are looked for, so a repeated header (page break)
-/// stays part of its table.
+/// stays part of its table. A run of more than [`TABLE_GAP_ROWS`] blank rows ends a table too.
 fn stacked_tables(sheets: &[SheetGrid], map: Option<&HeaderMap>, layouts: &mut Vec<Layout>) {
     let mut i = 0;
     while i < layouts.len() {
         let l = &layouts[i];
         let grid = &sheets[l.sheet_index];
-        let (end, width) = (grid.end_row(), grid.end_col());
         let blank = |r: u32| {
-            (0..width).all(|c| match grid.value(r, c) {
+            grid.row(r).all(|(_, d)| match d {
                 calamine::Data::Empty => true,
                 calamine::Data::String(s) => s.trim().is_empty(),
                 _ => false,
@@ -636,21 +667,29 @@ fn stacked_tables(sheets: &[SheetGrid], map: Option<&HeaderMap>, layouts: &mut V
         };
         let taken: Vec<TableKind> = layouts.iter().map(|x| x.table).collect();
         let mut found = None;
-        let mut r = l.data_start;
-        while r < end && found.is_none() {
-            if !blank(r) {
-                r += 1;
+        // The first row of each run of blank rows, and the filled row after it.
+        let mut gap = l.data_start;
+        for h in grid.used_rows(l.data_start..grid.end_row()) {
+            if blank(h) {
                 continue;
             }
-            let Some(h) = (r + 1..end).find(|&x| !blank(x)) else {
+            if h > gap
+                && let Some(t) = another_table_at(grid, l, h, map, &taken)
+            {
+                found = Some((gap, Some(t)));
                 break;
-            };
-            found = another_table_at(grid, l, h, map, &taken).map(|t| (r, t));
-            r = h;
+            }
+            if h - gap > TABLE_GAP_ROWS {
+                found = Some((gap, None));
+                break;
+            }
+            gap = h + 1;
         }
         if let Some((gap, next)) = found {
-            layouts[i].data_end = Some(gap);
-            layouts.push(next);
+            if layouts[i].data_end.is_none_or(|e| e > gap) {
+                layouts[i].data_end = Some(gap);
+            }
+            layouts.extend(next);
         }
         i += 1;
     }

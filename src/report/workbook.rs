@@ -114,7 +114,7 @@ pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Wo
         .sheets
         .iter()
         .enumerate()
-        .max_by_key(|(_, s)| s.values.get_size().0 * s.values.get_size().1)
+        .max_by_key(|(_, s)| s.cell_count())
         .map(|(i, _)| i);
     let mut copies = Vec::with_capacity(input.sheets.len());
     for (i, sheet) in input.sheets.iter().enumerate() {
@@ -133,17 +133,25 @@ pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Wo
         }
         // Several tables on one sheet (a mixed list's runs and fittings) get their computed
         // columns side by side, one gap column apart.
-        let mut next_col = sheet.end_col() + 1;
-        let blocks: Vec<_> = input
-            .layouts
-            .iter()
-            .filter(|l| l.sheet_index == i)
-            .filter_map(|l| {
-                let b = computed_block(input, audit, l, st.units, next_col)?;
-                next_col = b.first_col() + b.headers().len() as u32 + 1;
-                Some(b)
-            })
-            .collect();
+        let mut next_col = 0;
+        let mut blocks = Vec::new();
+        for l in input.layouts.iter().filter(|l| l.sheet_index == i) {
+            let Some(width) = computed_width(l.table) else {
+                continue;
+            };
+            let from = next_col.max(last_table_col(l) + 2);
+            let first = free_columns(sheet, l, from, width).ok_or_else(|| {
+                XlsxError::ParameterError(format!(
+                    "sheet '{}' has no {width} free columns right of its {} table for the computed columns",
+                    sheet.name,
+                    l.table.sheet_name()
+                ))
+            })?;
+            if let Some(b) = computed_block(input, audit, l, st.units, first) {
+                next_col = first + width + 1;
+                blocks.push(b);
+            }
+        }
         copies.push((ws, sheet, blocks));
     }
     let mut ranking_ws = named(wb.new_worksheet_with_constant_memory()?, &ranking_name)?;
@@ -296,7 +304,6 @@ fn copy_sheet(
     };
     // Computed headers by row; computed columns take a column format set once.
     let mut headers: BTreeMap<u32, Vec<(u16, String)>> = BTreeMap::new();
-    let mut last_computed_row = 0;
     for block in blocks.iter() {
         for (i, (h, three)) in block.headers().iter().enumerate() {
             let col = (block.first_col() + i as u32) as u16;
@@ -307,7 +314,6 @@ fn copy_sheet(
                 .or_default()
                 .push((col, h.clone()));
         }
-        last_computed_row = last_computed_row.max(block.header_row() + 1);
     }
     let mut merges: BTreeMap<u32, Vec<&calamine::Dimensions>> = BTreeMap::new();
     for m in &sheet.merged {
@@ -317,20 +323,20 @@ fn copy_sheet(
     }
     let mut notes_left = MAX_NOTES_PER_SHEET;
     let plain = Format::new();
-    let last_row = sheet
-        .end_row()
-        .max(last_computed_row)
-        .max(marks.keys().next_back().map_or(0, |k| k.0 + 1));
-    let first_col = sheet
-        .values
-        .start()
-        .map_or(0, |s| s.1)
-        .min(sheet.formulas.start().map_or(u32::MAX, |s| s.1));
-    let end_col = sheet.end_col();
-    let has_formulas = !sheet.formulas.is_empty();
     let mut marks_iter = marks.iter().peekable();
     let mut row_marks: Vec<(u32, &Mark)> = Vec::new();
-    for row in 0..last_row {
+    let mut cells: Vec<(u32, &Data, Option<&str>)> = Vec::new();
+    // Only rows that hold something are visited: a stray cell a million rows down is one row.
+    let mut rows: Vec<u32> = sheet.stored_rows().collect();
+    rows.extend(merges.keys());
+    rows.extend(headers.keys());
+    rows.extend(marks.keys().map(|k| k.0));
+    for b in blocks.iter() {
+        rows.extend(b.rows());
+    }
+    rows.sort_unstable();
+    rows.dedup();
+    for row in rows {
         for m in merges.get(&row).into_iter().flatten() {
             ws.merge_range(
                 m.start.0,
@@ -350,14 +356,14 @@ fn copy_sheet(
             row_marks.push((c, m));
             marks_iter.next();
         }
-        for col in first_col..end_col {
+        row_cells(sheet, row, &mut cells);
+        for &(col, d, formula) in &cells {
             let c16 = col as u16;
             let fmt = row_marks
                 .iter()
                 .find(|(c, _)| *c == col)
                 .map(|(_, m)| mark_format(m));
-            let d = sheet.value(row, col);
-            if has_formulas && let Some(formula) = sheet.formula(row, col) {
+            if let Some(formula) = formula {
                 let formula = Formula::new(formula).set_result(data_result(d));
                 match fmt {
                     Some(f) => ws.write_formula_with_format(row, c16, formula, f)?,
@@ -398,7 +404,7 @@ fn copy_sheet(
             block.write_row(ws, row)?;
         }
         for &(col, m) in &row_marks {
-            if col >= end_col || col < first_col {
+            if !cells.iter().any(|c| c.0 == col) {
                 ws.write_blank(row, col as u16, mark_format(m))?;
             }
             if notes_left > 0 {
@@ -415,6 +421,72 @@ fn copy_sheet(
         }
     }
     Ok(())
+}
+
+/// The cells of one row of an input sheet in column order: value (`Empty` for a formula whose
+/// cached result is empty) and formula, reusing `out`.
+fn row_cells<'a>(sheet: &'a SheetGrid, row: u32, out: &mut Vec<(u32, &'a Data, Option<&'a str>)>) {
+    static EMPTY: Data = Data::Empty;
+    out.clear();
+    out.extend(sheet.row(row).map(|(c, d)| (c, d, None)));
+    if !sheet.has_formulas() {
+        return;
+    }
+    for (c, f) in sheet.row_formulas(row) {
+        match out.binary_search_by_key(&c, |x| x.0) {
+            Ok(i) => out[i].2 = Some(f),
+            Err(i) => out.insert(i, (c, &EMPTY, Some(f))),
+        }
+    }
+}
+
+/// Columns of the computed block of a table kind, when it has one.
+fn computed_width(table: TableKind) -> Option<u32> {
+    let n = match table {
+        TableKind::Pipes => RUN_COLUMNS.len(),
+        TableKind::Fittings => FITTING_COLUMNS.len(),
+        TableKind::Lines => LINE_COLUMNS.len(),
+        _ => return None,
+    };
+    Some(n as u32)
+}
+
+/// The last column of a table's header (matched or not).
+fn last_table_col(layout: &Layout) -> u32 {
+    let mapped = layout.columns.iter().map(|c| c.col);
+    let unknown = layout.unknown.iter().map(|(c, _)| *c);
+    mapped.chain(unknown).max().unwrap_or(0)
+}
+
+/// The first column at or right of `from` where `width` computed columns, with a free column
+/// before them, meet no input cell in the table's rows (header to last row), within the sheet's
+/// 16,384 columns. Cells elsewhere (a title above, a stray value far to the right) do not push
+/// the computed columns away from the table.
+fn free_columns(sheet: &SheetGrid, layout: &Layout, from: u32, width: u32) -> Option<u32> {
+    let rows = layout.header_row..layout.end_row(sheet).max(layout.data_start);
+    let mut taken: Vec<u32> = Vec::new();
+    for r in sheet.used_rows(rows.clone()) {
+        taken.extend(sheet.row(r).map(|(c, _)| c));
+        taken.extend(sheet.row_formulas(r).map(|(c, _)| c));
+    }
+    for m in sheet
+        .merged
+        .iter()
+        .filter(|m| m.start.0 < rows.end && m.end.0 >= rows.start)
+    {
+        taken.extend(m.start.1..=m.end.1);
+    }
+    taken.sort_unstable();
+    taken.dedup();
+    let mut c = from.max(1);
+    while c + width <= crate::ingest::SHEET_COLS {
+        let lo = taken.partition_point(|&t| t < c - 1);
+        match taken.get(lo) {
+            Some(&t) if t < c + width => c = t + 2,
+            _ => return Some(c),
+        }
+    }
+    None
 }
 
 /// Copy an input sheet cell for cell (values, formulas with their cached results, merged
@@ -552,6 +624,8 @@ trait Block {
     /// Write the computed cells of source row `row`, if a result comes from it. Rows must be
     /// asked for in increasing order.
     fn write_row(&mut self, ws: &mut Worksheet, row: u32) -> Result<(), XlsxError>;
+    /// The source rows results come from.
+    fn rows(&self) -> Vec<u32>;
 }
 
 struct Computed<'a, T: 'static> {
@@ -602,6 +676,9 @@ impl<T: 'static> Block for Computed<'_, T> {
     }
     fn headers(&self) -> &[(String, bool)] {
         &self.headers
+    }
+    fn rows(&self) -> Vec<u32> {
+        self.items.iter().map(|(r, _)| *r).collect()
     }
     fn write_row(&mut self, ws: &mut Worksheet, row: u32) -> Result<(), XlsxError> {
         while self.items.get(self.next).is_some_and(|(r, _)| *r < row) {

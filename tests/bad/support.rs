@@ -34,13 +34,15 @@ pub fn n(x: f64) -> Cell {
     Cell::N(x)
 }
 
-/// One sheet: name, hidden flag, rows, merged ranges (r0, c0, r1, c1).
+/// One sheet: name, hidden flag, rows, merged ranges (r0, c0, r1, c1), and cells far from the
+/// rows (row, column, cell), which would make the grid of rows too large.
 #[derive(Clone, Debug)]
 pub struct Sheet {
     pub name: String,
     pub hidden: bool,
     pub rows: Vec<Vec<Cell>>,
     pub merged: Vec<(u32, u16, u32, u16)>,
+    pub far: Vec<(u32, u16, Cell)>,
 }
 
 impl Sheet {
@@ -51,7 +53,13 @@ impl Sheet {
             hidden: false,
             rows,
             merged: Vec::new(),
+            far: Vec::new(),
         }
+    }
+
+    /// Put a cell anywhere, as far as `XFD1048576`, without growing the rows.
+    pub fn put(&mut self, row: u32, col: u16, cell: Cell) {
+        self.far.push((row, col, cell));
     }
 
     /// Set a cell by zero-based row and column, growing the grid as needed.
@@ -147,30 +155,36 @@ pub fn xlsx(sheets: &[Sheet]) -> Vec<u8> {
             ws.merge_range(r0, c0, r1, c1, "", &Format::new())
                 .expect("merge");
         }
-        for (r, row) in sh.rows.iter().enumerate() {
-            for (c, cell) in row.iter().enumerate() {
-                let (r, c) = (r as u32, c as u16);
-                match cell {
-                    Cell::S(t) => {
-                        ws.write_string(r, c, t).expect("string");
-                    }
-                    Cell::N(x) => {
-                        ws.write_number(r, c, *x).expect("number");
-                    }
-                    Cell::F(f, v) => {
-                        ws.write_formula(r, c, Formula::new(f).set_result(v))
-                            .expect("formula");
-                    }
-                    Cell::D(iso) => {
-                        let dt = ExcelDateTime::parse_from_str(iso).expect("date");
-                        ws.write_datetime_with_format(r, c, &dt, &date)
-                            .expect("date");
-                    }
-                    Cell::B(b) => {
-                        ws.write_boolean(r, c, *b).expect("bool");
-                    }
-                    Cell::E => {}
+        let rows = sh.rows.iter().enumerate().flat_map(|(r, row)| {
+            row.iter()
+                .enumerate()
+                .map(move |(c, cell)| (r as u32, c as u16, cell))
+        });
+        let mut cells: Vec<(u32, u16, &Cell)> = rows.collect();
+        cells.extend(sh.far.iter().map(|(r, c, cell)| (*r, *c, cell)));
+        // Row order, as the constant-memory writers of spreadsheet files need it too.
+        cells.sort_by_key(|(r, c, _)| (*r, *c));
+        for (r, c, cell) in cells {
+            match cell {
+                Cell::S(t) => {
+                    ws.write_string(r, c, t).expect("string");
                 }
+                Cell::N(x) => {
+                    ws.write_number(r, c, *x).expect("number");
+                }
+                Cell::F(f, v) => {
+                    ws.write_formula(r, c, Formula::new(f).set_result(v))
+                        .expect("formula");
+                }
+                Cell::D(iso) => {
+                    let dt = ExcelDateTime::parse_from_str(iso).expect("date");
+                    ws.write_datetime_with_format(r, c, &dt, &date)
+                        .expect("date");
+                }
+                Cell::B(b) => {
+                    ws.write_boolean(r, c, *b).expect("bool");
+                }
+                Cell::E => {}
             }
         }
         if sh.hidden {
@@ -332,4 +346,62 @@ pub fn list_station() -> Vec<Sheet> {
             ],
         ),
     ]
+}
+
+/// Every non-empty cell of every sheet of an `.xlsx`, by sheet and (row, column), read with
+/// calamine's streaming reader (a dense range up to `XFD1048576` would not fit in memory).
+pub fn read_cells(
+    path: &Path,
+) -> std::collections::HashMap<String, std::collections::HashMap<(u32, u32), calamine::Data>> {
+    use calamine::{Reader, Xlsx, open_workbook};
+    let mut wb: Xlsx<_> = open_workbook(path).expect("readable workbook");
+    let mut out = std::collections::HashMap::new();
+    for name in wb.sheet_names() {
+        let mut cells = std::collections::HashMap::new();
+        let mut reader = wb.worksheet_cells_reader(&name).expect("sheet");
+        while let Some(cell) = reader.next_cell().expect("cell") {
+            let d = calamine::Data::from(cell.get_value().clone());
+            if d != calamine::Data::Empty {
+                cells.insert(cell.get_position(), d);
+            }
+        }
+        drop(reader);
+        out.insert(name, cells);
+    }
+    out
+}
+
+/// An `.xlsx` with `pad` bytes of spaces put into part `part` right after the first `after`
+/// (whitespace between elements is valid XML): a part that inflates far beyond its compressed
+/// size, as a zip bomb does. The other parts are copied as they are.
+pub fn padded(xlsx: &[u8], part: &str, after: &str, pad: usize) -> Vec<u8> {
+    use std::io::{Read, Write};
+    let mut zin = zip::ZipArchive::new(std::io::Cursor::new(xlsx)).expect("zip");
+    let mut zout = zip::ZipWriter::new(std::io::Cursor::new(Vec::new()));
+    let opts = zip::write::SimpleFileOptions::default()
+        .compression_method(zip::CompressionMethod::Deflated)
+        .large_file(true);
+    for i in 0..zin.len() {
+        let mut f = zin.by_index(i).expect("part");
+        let name = f.name().expect("part name").to_string();
+        let mut data = Vec::new();
+        f.read_to_end(&mut data).expect("read part");
+        zout.start_file(name.as_str(), opts).expect("start");
+        if name == part {
+            let text = String::from_utf8(data).expect("xml");
+            let at = text.find(after).expect("marker") + after.len();
+            zout.write_all(&text.as_bytes()[..at]).expect("write");
+            let chunk = vec![b' '; 1 << 20];
+            let mut left = pad;
+            while left > 0 {
+                let n = left.min(chunk.len());
+                zout.write_all(&chunk[..n]).expect("pad");
+                left -= n;
+            }
+            zout.write_all(&text.as_bytes()[at..]).expect("write");
+        } else {
+            zout.write_all(&data).expect("write");
+        }
+    }
+    zout.finish().expect("zip").into_inner()
 }

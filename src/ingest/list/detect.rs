@@ -136,8 +136,8 @@ pub fn resolve_item_numbers(
     let end = layout.end_row(grid).min(layout.data_start + EVIDENCE_ROWS);
     // Heading and note rows (one filled cell) say nothing about the column.
     let filled = |r: u32| {
-        (0..grid.end_col())
-            .filter(|&c| !matches!(grid.value(r, c), Data::Empty))
+        grid.row(r)
+            .filter(|(_, d)| !matches!(d, Data::Empty))
             .take(2)
             .count()
     };

@@ -89,8 +89,8 @@ pub fn heading_text(grid: &SheetGrid, layout: &Layout, row: u32) -> Option<Strin
         }
     }
     let mut texts = Vec::new();
-    for col in 0..grid.end_col() {
-        match grid.value(row, col) {
+    for (_, d) in grid.row(row) {
+        match d {
             Data::Empty => {}
             Data::String(s) if s.trim().is_empty() => {}
             Data::String(s) => texts.push(s.trim().to_string()),

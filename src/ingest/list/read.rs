@@ -105,26 +105,28 @@ pub fn read_list(
         .map(|c| schema::fold(&c.header))
         .collect();
     // Every cell of the row counts: a heading may sit in a column with no header.
-    let width = grid.end_col();
     let is_blank = |row: u32| {
-        (0..width).all(|col| match grid.merged_value(row, col) {
-            Data::Empty => true,
-            Data::String(s) => s.trim().is_empty(),
-            _ => false,
-        }) && (0..width).all(|col| grid.formula(row, col).is_none())
+        grid.shown_cols(row)
+            .into_iter()
+            .all(|col| match grid.merged_value(row, col) {
+                Data::Empty => true,
+                Data::String(s) => s.trim().is_empty(),
+                _ => false,
+            })
+            && grid.row_formulas(row).next().is_none()
     };
     let end = layout.end_row(grid);
-    let last = (layout.data_start..end)
-        .rev()
-        .find(|&r| !is_blank(r))
-        .unwrap_or(0);
+    // Only rows holding something are visited; blank rows before the last filled one are counted.
+    let filled: Vec<u32> = grid
+        .used_rows(layout.data_start..end)
+        .filter(|&r| !is_blank(r))
+        .collect();
+    if let Some(&last) = filled.last() {
+        out.blank_rows += (last - layout.data_start) as usize + 1 - filled.len();
+    }
     let mut heading: Option<(String, CellRef)> = None;
     let mut poisoned = false;
-    for row in layout.data_start..end {
-        if is_blank(row) {
-            out.blank_rows += usize::from(row < last);
-            continue;
-        }
+    for row in filled {
         let first = CellRef::new(
             &layout.sheet,
             row,
@@ -303,9 +305,9 @@ fn text_col_of(layout: &Layout) -> u32 {
 
 /// The first filled cell of a row (where a heading's text is).
 fn text_col(grid: &SheetGrid, row: u32) -> u32 {
-    (0..grid.end_col())
-        .find(|&c| !matches!(grid.value(row, c), Data::Empty))
-        .unwrap_or(0)
+    grid.row(row)
+        .find(|(_, d)| !matches!(d, Data::Empty))
+        .map_or(0, |(c, _)| c)
 }
 
 struct RowContext<'a> {

@@ -338,26 +338,32 @@ pub fn format_number(v: f64) -> String {
 }
 
 pub(crate) fn decimal_comma_columns(grid: &SheetGrid, layout: &Layout) -> HashMap<u32, bool> {
-    let mut out = HashMap::new();
-    for c in &layout.columns {
-        if !matches!(c.spec.ty, ColumnType::Number(_) | ColumnType::Plain) {
-            continue;
-        }
-        let (mut decimal, mut other) = (0, 0);
-        for row in layout.data_start..layout.end_row(grid) {
-            if let Data::String(s) = grid.value(row, c.col)
+    let cols: Vec<u32> = layout
+        .columns
+        .iter()
+        .filter(|c| matches!(c.spec.ty, ColumnType::Number(_) | ColumnType::Plain))
+        .map(|c| c.col)
+        .collect();
+    // Per column: texts with a comma that read as a decimal comma, and other texts with one.
+    let mut counts: HashMap<u32, (usize, usize)> = cols.iter().map(|&c| (c, (0, 0))).collect();
+    for row in grid.used_rows(layout.data_start..layout.end_row(grid)) {
+        for &col in &cols {
+            if let Data::String(s) = grid.value(row, col)
                 && s.contains(',')
+                && let Some(n) = counts.get_mut(&col)
             {
                 if parse::looks_decimal_comma(s) {
-                    decimal += 1;
+                    n.0 += 1;
                 } else {
-                    other += 1;
+                    n.1 += 1;
                 }
             }
         }
-        out.insert(c.col, decimal > 0 && other == 0);
     }
-    out
+    counts
+        .into_iter()
+        .map(|(col, (decimal, other))| (col, decimal > 0 && other == 0))
+        .collect()
 }
 
 /// Why a row inside a table is not data, when it is not: a header repeated (page breaks), a
@@ -385,7 +391,10 @@ pub(crate) fn skip_reason(
         return Some("the header repeated".into());
     }
     let first = layout.columns.iter().map(|c| c.col).min()?;
-    let mut filled = (0..grid.end_col()).filter(|&c| !matches!(grid.value(row, c), Data::Empty));
+    let mut filled = grid
+        .row(row)
+        .filter(|(_, d)| !matches!(d, Data::Empty))
+        .map(|(c, _)| c);
     let first_filled = filled.next();
     let only_one_filled = first_filled.is_some() && filled.next().is_none();
     let leading = first_filled.and_then(text).unwrap_or_default();
@@ -468,18 +477,16 @@ pub(crate) fn for_each_row(
                 .iter()
                 .all(|c| grid.formula(row, c.col).is_none())
     };
-    let last_data = (layout.data_start..end)
-        .rev()
-        .find(|&r| !is_blank(r))
-        .unwrap_or(0);
-    for row in layout.data_start..end {
-        if is_blank(row) {
-            // Blank rows after the last data row are not worth counting.
-            if row < last_data {
-                blanks += 1;
-            }
-            continue;
-        }
+    // Only rows holding something are visited: a stray cell a million rows down costs nothing.
+    let filled: Vec<u32> = grid
+        .used_rows(layout.data_start..end)
+        .filter(|&r| !is_blank(r))
+        .collect();
+    // Blank rows before the last data row (those after it are not worth counting).
+    if let Some(&last_data) = filled.last() {
+        blanks = (last_data - layout.data_start) as usize + 1 - filled.len();
+    }
+    for row in filled {
         if let Some(reason) = skip_reason(grid, &layout, &folded_headers, row) {
             let cell = CellRef::new(&layout.sheet, row, 0);
             sink.diagnostics.push(Diagnostic {
