@@ -241,7 +241,7 @@ fn worst_fittings_rank_all_stations_together() {
     let header = 24;
     assert_eq!(sheet.get((header, 0)), Some(&Data::String("Rank".into())));
     let listed = (header + 1..header + 40)
-        .take_while(|&r| matches!(sheet.get((r as usize, 0)), Some(Data::Float(_))))
+        .take_while(|&r| matches!(sheet.get((r, 0)), Some(Data::Float(_))))
         .count();
     assert_eq!(listed, 15);
     assert_eq!(
