@@ -2,7 +2,7 @@
 //! units), a width and what each row shows, written with an autofilter over the rows. Used by the
 //! comparison and review workbooks.
 
-use rust_xlsxwriter::{Url, Worksheet, XlsxError};
+use rust_xlsxwriter::{Formula, Url, Worksheet, XlsxError};
 
 use super::console::header_in;
 use super::style::{MAX_CELL_CHARS, Styles, shown, truncate};
@@ -26,7 +26,8 @@ pub(crate) enum Cell<'a> {
     Owned(String),
     /// A link to a cell of this workbook (its name as text when the sheet is not linked).
     Link(Option<&'a CellRef>, String),
-    /// A link to another file, or to a cell in it: (target, text). No target: the text alone.
+    /// A link to another file, or to a cell in it (`path#Sheet!A1`, the path relative to this
+    /// workbook): (target, text), written as a `HYPERLINK` formula. No target: the text alone.
     External(Option<String>, String),
 }
 
@@ -72,6 +73,20 @@ pub(crate) fn write_table_at<T>(
     st: &Styles,
     linked: bool,
 ) -> Result<(), XlsxError> {
+    write_rows(ws, top, cols, rows.iter().map(Ok), st, linked).map(|_| ())
+}
+
+/// [`write_table_at`] with the rows from an iterator, written in order (so the sheet may be a
+/// constant-memory one); the first error a row brings stops the writing. Returns the rows
+/// written.
+pub(crate) fn write_rows<T, R: std::borrow::Borrow<T>>(
+    ws: &mut Worksheet,
+    top: u32,
+    cols: &[Col<T>],
+    rows: impl IntoIterator<Item = Result<R, XlsxError>>,
+    st: &Styles,
+    linked: bool,
+) -> Result<u32, XlsxError> {
     let mut factors = Vec::with_capacity(cols.len());
     for (c, column) in cols.iter().enumerate() {
         let (h, factor) = header_in(column.header, st.units);
@@ -80,16 +95,19 @@ pub(crate) fn write_table_at<T>(
         factors.push(factor);
     }
     ws.set_freeze_panes(top + 1, 0)?;
-    for (i, item) in rows.iter().enumerate() {
-        let r = top + i as u32 + 1;
+    let mut n = 0u32;
+    for item in rows {
+        let item = item?;
+        n += 1;
         for (c, column) in cols.iter().enumerate() {
-            write_cell(ws, r, c as u16, (column.get)(item), factors[c], st, linked)?;
+            let cell = (column.get)(item.borrow());
+            write_cell(ws, top + n, c as u16, cell, factors[c], st, linked)?;
         }
     }
-    if !rows.is_empty() {
-        ws.autofilter(top, 0, top + rows.len() as u32, cols.len() as u16 - 1)?;
+    if n > 0 {
+        ws.autofilter(top, 0, top + n, cols.len() as u16 - 1)?;
     }
-    Ok(())
+    Ok(n)
 }
 
 fn write_cell(
@@ -132,7 +150,16 @@ fn write_cell(
             ws.write_string(r, c, t)?;
         }
         Cell::External(Some(target), text) => {
-            ws.write_url_with_format(r, c, Url::new(target).set_text(text), &st.link)?;
+            // A HYPERLINK formula, not a hyperlink object: it streams with its row, where a
+            // hyperlink object (one relationship each) stays in memory until the sheet is saved.
+            let quoted = |t: &str| t.replace('"', "\"\"");
+            let formula = Formula::new(format!(
+                "=HYPERLINK(\"{}\",\"{}\")",
+                quoted(&target),
+                quoted(&text)
+            ))
+            .set_result(&text);
+            ws.write_formula_with_format(r, c, formula, &st.link)?;
         }
         Cell::External(None, text) => {
             ws.write_string(r, c, truncate(&text, MAX_CELL_CHARS))?;

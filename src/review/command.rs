@@ -84,6 +84,7 @@ pub fn execute(req: &Request) -> u8 {
         strict: req.strict,
         copies_dir: copies.path.clone(),
         copies_link: copies_link.clone(),
+        output: req.output.clone(),
     };
     let bar = indicatif::ProgressBar::hidden();
     bar.set_length(stations.len() as u64);
@@ -191,12 +192,14 @@ fn finish(req: &Request, review: &Review) -> u8 {
     let text = summary(review, &req.output, width);
     if req.json.as_deref() == Some("-") {
         eprint!("{text}");
-        match review.to_json() {
-            Ok(j) => println!("{j}"),
-            Err(e) => {
-                eprintln!("internal error: building JSON failed: {e}");
-                return 3;
-            }
+        let mut out = std::io::stdout().lock();
+        let written = review.write_json(&mut out).and_then(|()| {
+            use std::io::Write;
+            writeln!(out).map_err(serde_json::Error::io)
+        });
+        if let Err(e) = written {
+            eprintln!("error: writing the JSON to standard output failed: {e}");
+            return 2;
         }
     } else {
         print!("{text}");

@@ -5,15 +5,16 @@ use std::path::{Path, PathBuf};
 
 use super::Review;
 use crate::error::OutputError;
-use crate::report::{Staged, stage, stage_book};
+use crate::report::{Staged, stage_book, stage_with};
 
-/// The folder the audited copies go into, created for the run when it did not exist; a run that
-/// writes nothing removes it again ([`CopiesDir::discard`]).
+/// The folder the audited copies go into, created for the run (with any missing parents) when it
+/// did not exist; a run that writes nothing removes what it created ([`CopiesDir::discard`]).
 #[derive(Debug)]
 pub struct CopiesDir {
     /// The folder.
     pub path: PathBuf,
-    created: bool,
+    /// The folders this run created, innermost first.
+    created: Vec<PathBuf>,
 }
 
 impl CopiesDir {
@@ -22,27 +23,27 @@ impl CopiesDir {
     /// # Errors
     /// [`OutputError::Io`] when it cannot be created, or the name is taken by a file.
     pub fn prepare(path: &Path) -> Result<CopiesDir, OutputError> {
-        let io = |source| OutputError::Io {
+        let created: Vec<PathBuf> = path
+            .ancestors()
+            .take_while(|p| !p.as_os_str().is_empty() && !p.exists())
+            .map(Path::to_path_buf)
+            .collect();
+        std::fs::create_dir_all(path).map_err(|source| OutputError::Io {
             path: path.display().to_string(),
             source,
-        };
-        if path.is_dir() {
-            return Ok(CopiesDir {
-                path: path.to_path_buf(),
-                created: false,
-            });
-        }
-        std::fs::create_dir_all(path).map_err(io)?;
+        })?;
         Ok(CopiesDir {
             path: path.to_path_buf(),
-            created: true,
+            created,
         })
     }
 
-    /// Remove the folder when this run created it and it is empty (nothing was written).
+    /// Remove the folders this run created, when they are empty (nothing was written).
     pub fn discard(self) {
-        if self.created {
-            let _ = std::fs::remove_dir(&self.path);
+        for dir in &self.created {
+            if std::fs::remove_dir(dir).is_err() {
+                break;
+            }
         }
     }
 }
@@ -52,8 +53,8 @@ impl CopiesDir {
 /// nothing behind (the staged files are removed when dropped).
 ///
 /// # Errors
-/// [`OutputError::Xlsx`] when the workbook cannot be assembled, [`OutputError::Json`] likewise
-/// for the JSON, [`OutputError::Io`] from the disk.
+/// [`OutputError::Xlsx`] when the workbook cannot be assembled, [`OutputError::Io`] from the disk
+/// (or the findings' temporary file).
 pub fn write(
     review: &Review,
     out: &Path,
@@ -67,13 +68,9 @@ pub fn write(
     let staged = stage_book(out, &mut book)?;
     drop(book);
     let staged_json = match json {
-        Some(path) => {
-            let text = review.to_json().map_err(|source| OutputError::Json {
-                path: path.display().to_string(),
-                source,
-            })?;
-            Some(stage(path, text.as_bytes())?)
-        }
+        Some(path) => Some(stage_with(path, |f| {
+            review.write_json(f).map_err(std::io::Error::other)
+        })?),
         None => None,
     };
     for c in copies {

@@ -11,6 +11,7 @@
 pub mod command;
 pub mod files;
 pub mod run;
+pub mod spill;
 pub mod stations;
 pub mod summary;
 pub mod workbook;
@@ -20,7 +21,8 @@ use serde::Serialize;
 
 use crate::audit::Rules;
 use crate::report::console::UnitSystem;
-use summary::{StationFinding, StationRow};
+use spill::FindingSpill;
+use summary::StationRow;
 use worst::WorstFitting;
 
 /// The review of an estate: the content of the review workbook, and its JSON.
@@ -41,8 +43,9 @@ pub struct Review {
     pub worst_fittings: Vec<WorstFitting>,
     /// Fittings of the estate not listed in `worst_fittings`.
     pub fittings_not_listed: usize,
-    /// Every audited station's findings, station by station (each station's worst first).
-    pub findings: Vec<StationFinding>,
+    /// Every audited station's findings, station by station (each station's worst first), kept
+    /// on disk until written.
+    pub findings: FindingSpill,
     /// The rules and cautions in force.
     pub basis: Basis,
 }
@@ -153,12 +156,13 @@ impl Review {
         }
     }
 
-    /// The review as pretty JSON (SI field names, as `audit --json`).
+    /// Write the review as pretty JSON (SI field names, as `audit --json`) to `out`, the
+    /// findings streamed from disk.
     ///
     /// # Errors
-    /// What serde_json reports (nothing here is expected to fail).
-    pub fn to_json(&self) -> serde_json::Result<String> {
-        serde_json::to_string_pretty(self)
+    /// What serde_json reports: writing to `out` failed, or reading the findings back did.
+    pub fn write_json(&self, out: impl std::io::Write) -> serde_json::Result<()> {
+        serde_json::to_writer_pretty(out, self)
     }
 }
 

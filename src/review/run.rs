@@ -11,8 +11,9 @@ use std::path::{Path, PathBuf};
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 use std::sync::mpsc;
 
+use super::spill::FindingSpill;
 use super::stations::Station;
-use super::summary::{Reduced, StationFinding, StationRow, copy_link, not_audited, reduce};
+use super::summary::{Reduced, StationRow, copy_link, not_audited, reduce};
 use super::worst::{Leaderboard, WorstFitting};
 use crate::audit::Rules;
 use crate::error::{Diagnostic, OutputError, Severity};
@@ -38,6 +39,8 @@ pub struct RunOptions {
     pub copies_dir: PathBuf,
     /// That folder as the review links to it (relative to the review workbook).
     pub copies_link: String,
+    /// The review workbook: the findings are spilled to a temporary file beside it.
+    pub output: PathBuf,
 }
 
 /// What the stations gave: every row in station order, the estate ranking, all findings, and
@@ -50,8 +53,8 @@ pub struct Merged {
     pub worst: Vec<WorstFitting>,
     /// Fittings of the estate not listed in `worst`.
     pub not_listed: usize,
-    /// Every audited station's findings, station by station.
-    pub findings: Vec<StationFinding>,
+    /// Every audited station's findings, station by station, on disk.
+    pub findings: FindingSpill,
     /// The audited copies, staged.
     pub staged: Vec<Staged>,
     /// True when some station could not be audited.
@@ -81,7 +84,7 @@ pub fn run(
     let (tx, rx) = mpsc::channel::<(usize, Outcome)>();
     let n = options.book.ranking_rows;
     let mut rows: Vec<Option<StationRow>> = vec![None; stations.len()];
-    let mut findings: Vec<Vec<StationFinding>> = vec![Vec::new(); stations.len()];
+    let mut findings = FindingSpill::create(&options.output, stations.len())?;
     let mut totals: Vec<[f64; 2]> = vec![[0.0; 2]; stations.len()];
     let mut board = Leaderboard::new(n);
     let mut staged = Vec::new();
@@ -114,7 +117,10 @@ pub fn run(
                     } = *reduced;
                     totals[i] = ranking.totals;
                     board.merge(ranking);
-                    findings[i] = f;
+                    if let Err(e) = findings.append(i, &f) {
+                        stop.store(true, Ordering::Relaxed);
+                        failed.get_or_insert(e);
+                    }
                     staged.push(copy);
                     rows[i] = Some(row);
                 }
@@ -137,6 +143,7 @@ pub fn run(
     if let Some(e) = failed {
         return Err(e);
     }
+    findings.close()?;
     let not_listed = board.count();
     let estate = totals
         .iter()
@@ -152,7 +159,7 @@ pub fn run(
         rows,
         not_listed: not_listed - worst.len(),
         worst,
-        findings: findings.into_iter().flatten().collect(),
+        findings,
         staged,
         any_bad,
     })

@@ -84,7 +84,7 @@ pub struct StationFinding {
     /// How serious.
     pub severity: Severity,
     /// Stable code.
-    pub code: &'static str,
+    pub code: String,
     /// Line id.
     pub line: Option<String>,
     /// Fitting tag.
@@ -130,7 +130,7 @@ pub fn reduce(
         .map(|f| StationFinding {
             station: station.name.clone(),
             severity: f.severity,
-            code: f.code,
+            code: f.code.to_string(),
             line: f.line.clone(),
             tag: f.tag.clone(),
             cell: f.cell.clone(),

@@ -14,7 +14,7 @@ use crate::error::{CellRef, quote_sheet};
 use crate::report::console::UnitSystem;
 use crate::report::ranking::{CHART_ITEMS, pareto_chart, suggestion_text};
 use crate::report::style::{MAX_CELL_CHARS, Styles, truncate};
-use crate::report::table::{Cell, Col, col, write_table_at};
+use crate::report::table::{Cell, Col, col, write_rows, write_table_at};
 
 /// Sheet names.
 const STATIONS: &str = "Stations";
@@ -28,11 +28,7 @@ const CHARTED_HEADER: u32 = 24;
 /// A link to `cell` in the audited copy `copy` (relative to the review workbook).
 fn cell_in_copy(copy: &str, cell: &CellRef) -> Cell<'static> {
     Cell::External(
-        Some(format!(
-            "file:///{copy}#{}!{}",
-            quote_sheet(&cell.sheet),
-            cell.a1()
-        )),
+        Some(format!("{copy}#{}!{}", quote_sheet(&cell.sheet), cell.a1())),
         cell.to_string(),
     )
 }
@@ -82,7 +78,7 @@ const STATION_COLS: &[Col<StationRow>] = &[
         worst_of(r, |w| Cell::Num(Some(w.head_m)))
     }),
     col("Audited copy", 28.0, |r| match &r.copy {
-        Some(c) => Cell::External(Some(format!("file:///{c}")), c.clone()),
+        Some(c) => Cell::External(Some(c.clone()), c.clone()),
         None => Cell::Text(""),
     }),
     col("Problem (file and cell)", 70.0, |r| Cell::Owned(problem(r))),
@@ -204,7 +200,7 @@ fn fitting(w: &WorstFitting) -> String {
 const FINDING_COLS: &[Col<StationFinding>] = &[
     col("Station", 18.0, |f| Cell::Text(&f.station)),
     col("Severity", 10.0, |f| Cell::Severity(f.severity)),
-    col("Code", 18.0, |f| Cell::Text(f.code)),
+    col("Code", 18.0, |f| Cell::Text(&f.code)),
     col("Line", 12.0, |f| {
         Cell::Text(f.line.as_deref().unwrap_or(""))
     }),
@@ -241,21 +237,26 @@ pub fn build(review: &Review) -> Result<Workbook, XlsxError> {
     for f in st.all() {
         wb.register_format(f);
     }
-    let sheet = |name: &str| -> Result<Worksheet, XlsxError> {
-        let mut ws = Worksheet::new();
+    let sheet = |mut ws: Worksheet, name: &str| -> Result<Worksheet, XlsxError> {
         ws.set_name(name)?;
         Ok(ws)
     };
-    let mut stations = sheet(STATIONS)?;
+    // The sheets with a row per station, fitting or finding stream row by row (constant
+    // memory, inline strings): an estate's findings are many.
+    let mut stations = sheet(wb.new_worksheet_with_constant_memory()?, STATIONS)?;
     write_stations(&mut stations, review, &st)?;
-    let mut worst = sheet(WORST)?;
+    let mut worst = sheet(wb.new_worksheet_with_constant_memory()?, WORST)?;
     write_worst(&mut worst, review, &st)?;
-    let mut findings = sheet(FINDINGS)?;
-    write_table_at(&mut findings, 0, FINDING_COLS, &review.findings, &st, true)?;
+    let mut findings = sheet(wb.new_worksheet_with_constant_memory()?, FINDINGS)?;
     if let Some(label) = &review.invented_data_note {
         findings.write_string_with_format(0, FINDING_COLS.len() as u16 + 1, label, &st.bold)?;
     }
-    let mut basis = sheet(BASIS)?;
+    let rows = review
+        .findings
+        .iter()
+        .map(|f| f.map_err(XlsxError::IoError));
+    write_rows(&mut findings, 0, FINDING_COLS, rows, &st, true)?;
+    let mut basis = sheet(Worksheet::new(), BASIS)?;
     write_basis(&mut basis, review, &st)?;
     for ws in [stations, worst, findings, basis] {
         wb.push_worksheet(ws);
