@@ -9,7 +9,9 @@
 #   floor time   = input floor's read + output floor's write: what the audit cannot avoid.
 #
 # Usage: scripts/bench.sh [SIZES...]      (default: 2000 20000 60000 lines)
-# Env:   RUNS=3 (alternating runs per size; the median is reported), BENCH_DIR=/tmp/lossledger-bench
+#        scripts/bench.sh review [STATIONS MIN_LINES MAX_LINES]   (default: 200 20 200)
+# Env:   RUNS=3 (alternating runs per size; the median is reported), BENCH_DIR=/tmp/lossledger-bench,
+#        JOBS (review: stations at once, default every core)
 #
 # Prints wall time (median of RUNS), peak resident memory (largest of RUNS) for each program, the
 # ratios audit/floor (time against the floor time, memory against the output floor's), and the
@@ -18,6 +20,10 @@
 set -euo pipefail
 
 cd "$(dirname "$0")/.."
+if [ "${1:-}" = review ]; then
+    shift
+    exec "$(dirname "$0")/bench_review.sh" "$@"
+fi
 SIZES=("${@:-2000 20000 60000}")
 # shellcheck disable=SC2206
 SIZES=(${SIZES[*]})

@@ -1,7 +1,7 @@
 //! Command line: argument parsing, exit codes, and the glue between layers.
 //!
 //! Exit codes (as in the README): 0 audit written; 1 findings at or above `--fail-on`; 2 input or
-//! usage error (nothing written); 3 internal error.
+//! usage error (nothing written); 3 internal error. `review`'s are in [`crate::review::command`].
 
 use clap::{Args, Parser, Subcommand, ValueEnum};
 use std::path::{Path, PathBuf};
@@ -182,6 +182,61 @@ pub struct CompareArgs {
     pub limits: LimitArgs,
 }
 
+/// `lossledger review INPUT...`.
+#[derive(Args, Debug)]
+pub struct ReviewArgs {
+    /// Station workbooks, or folders of them: each file is one station.
+    #[arg(required = true, value_name = "INPUT")]
+    pub input: Vec<PathBuf>,
+    /// Review workbook; each station's audited copy goes into the folder `<OUTPUT stem>-stations`
+    /// beside it.
+    #[arg(short, long, default_value = "review.xlsx")]
+    pub output: PathBuf,
+    /// Also write the review as JSON to this path ("-" for standard output).
+    #[arg(long, value_name = "PATH")]
+    pub json: Option<String>,
+    /// Rules file (TOML) applied to every station; keys not given keep their defaults.
+    #[arg(long, value_name = "FILE")]
+    pub rules: Option<PathBuf>,
+    /// Header map (TOML) applied to every station.
+    #[arg(long, value_name = "FILE")]
+    pub map: Option<PathBuf>,
+    /// Units of the workbooks' figures (JSON stays SI).
+    #[arg(long, value_enum, default_value = "si")]
+    pub units: crate::units::UnitSystem,
+    /// Rows of the Worst fittings sheet (the estate's worst N fittings, or "all"), and of each
+    /// audited copy's Fitting ranking.
+    #[arg(long, value_name = "N|all", default_value = "1000", value_parser = parse_rows)]
+    pub ranking_rows: RankingRows,
+    /// Stations audited at once [default: one per core].
+    #[arg(long, value_name = "N", value_parser = clap::value_parser!(u16).range(1..))]
+    pub jobs: Option<u16>,
+    /// Exit 2 with nothing written when any station cannot be audited (by default it is
+    /// reported, listed as not audited and left out of the review).
+    #[arg(long)]
+    pub strict: bool,
+    /// Reading limits, applied to each station.
+    #[command(flatten)]
+    pub limits: LimitArgs,
+}
+
+impl ReviewArgs {
+    fn request(&self) -> crate::review::command::Request {
+        crate::review::command::Request {
+            inputs: self.input.clone(),
+            output: self.output.clone(),
+            json: self.json.clone(),
+            rules: self.rules.clone(),
+            map: self.map.clone(),
+            units: self.units,
+            ranking_rows: self.ranking_rows.0,
+            jobs: self.jobs.map(usize::from),
+            strict: self.strict,
+            limits: self.limits.limits(),
+        }
+    }
+}
+
 /// Subcommands.
 #[derive(Subcommand, Debug)]
 pub enum Command {
@@ -213,6 +268,9 @@ pub enum Command {
     /// Compare two revisions of a takeoff: what changed, and what it does to the losses, the
     /// findings and the pumps. Writes a comparison workbook (and JSON if asked).
     Compare(CompareArgs),
+    /// Review an estate: audit every station workbook as its own station, write each audited
+    /// copy, and one review workbook ranking the whole estate (and JSON if asked).
+    Review(ReviewArgs),
     /// Read and validate inputs only: print every diagnostic with its cell, the header mapping
     /// used (as a map file) and the defaults that would apply. Exit 0 when clean, 2 on errors.
     Check {
@@ -259,6 +317,7 @@ impl Command {
                 | Command::Compare(_)
                 | Command::Check { .. }
                 | Command::Demo { .. }
+                | Command::Review(_)
         )
     }
 }
@@ -368,6 +427,7 @@ fn run(cli: Cli) -> u8 {
             0
         }
         Command::Compare(args) => compare(&args),
+        Command::Review(args) => crate::review::command::execute(&args.request()),
         Command::Demo { dir } => crate::demo::run(&dir),
         Command::Check { inputs } => check(&inputs),
         Command::Template { out, units, layout } => {
@@ -618,7 +678,7 @@ fn compare_side(
             }
             Some(a)
         }
-        Err(AuditError::Invalid { file, errors }) => {
+        Err(AuditError::Invalid { file, errors, .. }) => {
             for d in &errors {
                 eprintln!("{label}: {d}");
             }
@@ -806,22 +866,12 @@ impl Drop for Progress {
 }
 
 fn progress(first: &'static str) -> Progress {
-    use std::io::IsTerminal;
     let bar = indicatif::ProgressBar::hidden();
     if let Ok(style) = indicatif::ProgressStyle::with_template("{spinner} {elapsed} {msg}") {
         bar.set_style(style);
     }
     bar.set_message(first);
-    if std::io::stderr().is_terminal() {
-        let shown = bar.clone();
-        std::thread::spawn(move || {
-            std::thread::sleep(std::time::Duration::from_secs(1));
-            if !shown.is_finished() {
-                shown.set_draw_target(indicatif::ProgressDrawTarget::stderr());
-                shown.enable_steady_tick(std::time::Duration::from_millis(120));
-            }
-        });
-    }
+    report::console::show_after_a_second(&bar);
     Progress {
         bar,
         phase: std::cell::RefCell::new((first, std::time::Instant::now())),

@@ -14,6 +14,7 @@ pub mod ingest;
 pub mod physics;
 pub mod pipeline;
 pub mod report;
+pub mod review;
 pub mod table;
 pub mod template;
 pub mod units;

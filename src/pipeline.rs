@@ -29,6 +29,10 @@ pub enum AuditError {
         file: String,
         /// Every error-level diagnostic, with its cell.
         errors: Vec<Diagnostic>,
+        /// The input's SHA-256 (as [`Input::sha256`]).
+        sha256: String,
+        /// The cell marking the input's data as invented, if any ([`crate::report::invented`]).
+        invented: Option<CellRef>,
     },
 }
 
@@ -46,7 +50,9 @@ pub fn read_and_audit(
     match audit(&input, rules) {
         Ok(audit) => Ok(Audited { input, audit }),
         Err(errors) => Err(AuditError::Invalid {
-            file: input.file.clone(),
+            invented: crate::report::invented::marker(&input),
+            file: input.file,
+            sha256: input.sha256,
             errors,
         }),
     }

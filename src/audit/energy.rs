@@ -152,7 +152,8 @@ pub struct Ranking {
     pub cumulative_share: f64,
 }
 
-fn greater(a: f64, b: f64) -> bool {
+/// Whether `a` exceeds `b` by more than [`TIE_TOLERANCE`] (relative): the ranking's order.
+pub(crate) fn greater(a: f64, b: f64) -> bool {
     a > b && (a - b) > TIE_TOLERANCE * a.abs().max(b.abs())
 }
 

@@ -7,7 +7,7 @@ use super::Comparison;
 use super::workbook::{BasisNotes, build};
 use crate::error::OutputError;
 use crate::ingest::Input;
-use crate::report::{Staged, check_not_input, stage, stage_with};
+use crate::report::{Staged, check_not_input, stage, stage_book};
 
 /// Default output path: `NEW.compare.xlsx` beside the new input.
 pub fn default_output(new: &Path) -> PathBuf {
@@ -50,20 +50,7 @@ pub fn write(
     };
     crate::worker::enter(crate::worker::Phase::Write, &out.display().to_string());
     let mut book = build(c, new, notes).map_err(xlsx)?;
-    let mut internal = None;
-    let staged = stage_with(out, |f| {
-        book.save_to_writer(f).map_err(|e| match e {
-            rust_xlsxwriter::XlsxError::IoError(io) => io,
-            other => {
-                internal = Some(other);
-                std::io::Error::other("the workbook could not be assembled")
-            }
-        })
-    });
-    if let Some(e) = internal {
-        return Err(xlsx(e));
-    }
-    let staged = staged?;
+    let staged = stage_book(out, &mut book)?;
     let staged_json: Option<Staged> = match json {
         Some(path) => {
             let text = c.to_json().map_err(|source| OutputError::Json {

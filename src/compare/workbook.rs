@@ -1,15 +1,15 @@
 //! The comparison workbook: `Changes`, `Line effects`, `Systems`, `Basis`, then a plain copy of
 //! every sheet of the new input, so each change links to its cell.
 
-use rust_xlsxwriter::{DocProperties, ExcelDateTime, Format, Url, Workbook, Worksheet, XlsxError};
+use rust_xlsxwriter::{DocProperties, ExcelDateTime, Format, Workbook, Worksheet, XlsxError};
 use std::collections::HashSet;
 
 use super::effects::{LineEffect, Pair, SystemEffect, Verdict};
 use super::{Change, Comparison, Value};
-use crate::error::{CellRef, quote_sheet};
 use crate::ingest::Input;
-use crate::report::style::{MAX_CELL_CHARS, Styles, shown, truncate};
-use crate::units::{UnitSystem, header_in};
+use crate::report::style::{MAX_CELL_CHARS, Styles, truncate};
+use crate::report::table::{Cell, Col, col, write_table};
+use crate::units::UnitSystem;
 
 /// What the comparison workbook records about how it was made.
 #[derive(Clone, Debug, Default)]
@@ -22,85 +22,6 @@ pub struct BasisNotes {
     pub units: UnitSystem,
     /// The rules in force (the same for both sides).
     pub rules: crate::audit::Rules,
-}
-
-/// One cell of a report row.
-enum Cell<'a> {
-    Severity(crate::error::Severity),
-    Num(Option<f64>),
-    Pct(Option<f64>),
-    Text(&'a str),
-    Owned(String),
-    Link(Option<&'a CellRef>, String),
-}
-
-/// A column of a report sheet: header (`Name [unit]`, converted to the report's units), width,
-/// and what each row shows.
-struct Col<T> {
-    header: &'static str,
-    width: f64,
-    get: fn(&T) -> Cell<'_>,
-}
-
-const fn col<T>(header: &'static str, width: f64, get: fn(&T) -> Cell<'_>) -> Col<T> {
-    Col { header, width, get }
-}
-
-fn link_to(c: &CellRef) -> Url {
-    Url::new(format!("internal:{}!{}", quote_sheet(&c.sheet), c.a1())).set_text(c.to_string())
-}
-
-/// Write a header row and one row per item; numbers converted to the report's units.
-fn write_table<T>(
-    ws: &mut Worksheet,
-    cols: &[Col<T>],
-    rows: &[T],
-    st: &Styles,
-    linked: bool,
-) -> Result<(), XlsxError> {
-    let mut factors = Vec::with_capacity(cols.len());
-    for (c, column) in cols.iter().enumerate() {
-        let (h, factor) = header_in(column.header, st.units);
-        ws.write_string_with_format(0, c as u16, h, &st.header)?;
-        ws.set_column_width(c as u16, column.width)?;
-        factors.push(factor);
-    }
-    ws.set_freeze_panes(1, 0)?;
-    for (i, item) in rows.iter().enumerate() {
-        let r = i as u32 + 1;
-        for (c, column) in cols.iter().enumerate() {
-            let c16 = c as u16;
-            match (column.get)(item) {
-                Cell::Num(Some(x)) if x.is_finite() => {
-                    ws.write_number_with_format(r, c16, shown(x * factors[c]), &st.n3)?;
-                }
-                Cell::Pct(Some(x)) if x.is_finite() => {
-                    ws.write_number_with_format(r, c16, shown(x), &st.pct)?;
-                }
-                Cell::Num(_) | Cell::Pct(_) => {}
-                Cell::Severity(sev) => {
-                    ws.write_string_with_format(r, c16, sev.label(), st.severity(sev))?;
-                }
-                Cell::Text(t) => {
-                    ws.write_string(r, c16, truncate(t, MAX_CELL_CHARS))?;
-                }
-                Cell::Owned(t) => {
-                    ws.write_string(r, c16, truncate(&t, MAX_CELL_CHARS))?;
-                }
-                Cell::Link(Some(cell), _) if linked => {
-                    ws.write_url_with_format(r, c16, link_to(cell), &st.link)?;
-                }
-                Cell::Link(cell, text) => {
-                    let t = cell.map_or(text, |c| c.to_string());
-                    ws.write_string(r, c16, t)?;
-                }
-            }
-        }
-    }
-    if !rows.is_empty() {
-        ws.autofilter(0, 0, rows.len() as u32, cols.len() as u16 - 1)?;
-    }
-    Ok(())
 }
 
 fn opt_text(s: &Option<String>) -> Cell<'_> {
@@ -407,18 +328,8 @@ fn write_basis(
     ));
     rows.push((String::new(), String::new(), false));
     rows.push(("Rules in force (both sides)".into(), String::new(), true));
-    let toml = toml::to_string(&notes.rules).unwrap_or_default();
-    let mut section = String::new();
-    for l in toml.lines().map(str::trim).filter(|l| !l.is_empty()) {
-        if let Some(name) = l.strip_prefix('[') {
-            section = name.trim_end_matches(']').to_string();
-        } else if let Some((k, v)) = l.split_once('=') {
-            rows.push((
-                format!("{section}.{}", k.trim()),
-                v.trim().to_string(),
-                false,
-            ));
-        }
+    for (k, v) in crate::report::rules_in_force(&notes.rules) {
+        rows.push((k, v, false));
     }
     rows.push((String::new(), String::new(), false));
     rows.push((

@@ -529,7 +529,8 @@ fn duplicate_lines(input: &mut Input) {
     input.diagnostics.extend(diags);
 }
 
-fn hex(bytes: &[u8]) -> String {
+/// Bytes as lower-case hex (how SHA-256 digests are shown).
+pub(crate) fn hex(bytes: &[u8]) -> String {
     bytes.iter().map(|b| format!("{b:02x}")).collect()
 }
 

@@ -139,3 +139,19 @@ pub fn summary_fitted(audit: &Audit, units: UnitSystem, width: Option<usize>) ->
     ));
     out
 }
+
+/// Draw `bar` on stderr once the run has taken more than a second, and only when stderr is a
+/// terminal (short runs and redirected output print nothing extra). The bar starts hidden.
+pub(crate) fn show_after_a_second(bar: &indicatif::ProgressBar) {
+    use std::io::IsTerminal;
+    if std::io::stderr().is_terminal() {
+        let shown = bar.clone();
+        std::thread::spawn(move || {
+            std::thread::sleep(std::time::Duration::from_secs(1));
+            if !shown.is_finished() {
+                shown.set_draw_target(indicatif::ProgressDrawTarget::stderr());
+                shown.enable_steady_tick(std::time::Duration::from_millis(120));
+            }
+        });
+    }
+}

@@ -7,6 +7,7 @@ pub mod json;
 pub mod ranking;
 pub mod station;
 pub(crate) mod style;
+pub(crate) mod table;
 pub mod text_table;
 pub mod workbook;
 
@@ -130,4 +131,49 @@ pub fn stage_with(
     f.flush().map_err(io)?;
     f.get_ref().sync_all().map_err(io)?;
     Ok(staged)
+}
+
+/// Save `book` into a file staged beside `path` (see [`stage_with`]): written straight to disk,
+/// never held whole in memory.
+///
+/// # Errors
+/// [`OutputError::Xlsx`] when the workbook cannot be assembled (ours), [`OutputError::Io`] when
+/// it cannot be written (the disk's); either way nothing is left behind.
+pub fn stage_book(
+    path: &Path,
+    book: &mut rust_xlsxwriter::Workbook,
+) -> Result<Staged, OutputError> {
+    let mut internal = None;
+    let staged = stage_with(path, |f| {
+        book.save_to_writer(f).map_err(|e| match e {
+            rust_xlsxwriter::XlsxError::IoError(io) => io,
+            other => {
+                internal = Some(other);
+                std::io::Error::other("the workbook could not be assembled")
+            }
+        })
+    });
+    match internal {
+        Some(source) => Err(OutputError::Xlsx {
+            path: path.display().to_string(),
+            source,
+        }),
+        None => staged,
+    }
+}
+
+/// The rules in force as `section.key` and value pairs, in the order `lossledger rules` prints
+/// them (for Basis sheets).
+pub fn rules_in_force(rules: &crate::audit::Rules) -> Vec<(String, String)> {
+    let toml = toml::to_string(rules).unwrap_or_default();
+    let mut section = String::new();
+    let mut out = Vec::new();
+    for l in toml.lines().map(str::trim).filter(|l| !l.is_empty()) {
+        if let Some(name) = l.strip_prefix('[') {
+            section = name.trim_end_matches(']').to_string();
+        } else if let Some((k, v)) = l.split_once('=') {
+            out.push((format!("{section}.{}", k.trim()), v.trim().to_string()));
+        }
+    }
+    out
 }

@@ -37,7 +37,8 @@ fn num(ws: &mut Worksheet, r: u32, c: u16, v: Option<f64>) -> Result<(), XlsxErr
     }
 }
 
-fn label(f: &FittingResult) -> String {
+/// A fitting's name in a list: its tag, else its item and line.
+pub(crate) fn label(f: &FittingResult) -> String {
     if f.tag.is_empty() {
         format!("{} ({})", f.item, f.line)
     } else {
@@ -48,21 +49,29 @@ fn label(f: &FittingResult) -> String {
 /// The first `n` fittings in rank order (ties in input order); all of them for `None`. Only the
 /// first `n` are sorted: a huge register needs its worst few, not a full sort, several times.
 pub fn ranked(audit: &Audit, n: Option<usize>) -> Vec<&FittingResult> {
-    let mut v: Vec<((usize, usize), &FittingResult)> = audit
+    ranked_indices(audit, n)
+        .into_iter()
+        .map(|i| &audit.fittings[i])
+        .collect()
+}
+
+/// [`ranked`] as indices into [`Audit::fittings`].
+pub fn ranked_indices(audit: &Audit, n: Option<usize>) -> Vec<usize> {
+    let mut v: Vec<(usize, usize)> = audit
         .fittings
         .iter()
         .enumerate()
-        .map(|(i, f)| ((f.rank.unwrap_or(usize::MAX), i), f))
+        .map(|(i, f)| (f.rank.unwrap_or(usize::MAX), i))
         .collect();
     if let Some(n) = n.filter(|&n| n < v.len()) {
         if n == 0 {
             return Vec::new();
         }
-        v.select_nth_unstable_by_key(n - 1, |(k, _)| *k);
+        v.select_nth_unstable(n - 1);
         v.truncate(n);
     }
-    v.sort_unstable_by_key(|(k, _)| *k);
-    v.into_iter().map(|(_, f)| f).collect()
+    v.sort_unstable();
+    v.into_iter().map(|(_, i)| i).collect()
 }
 
 /// How a ranking column's numbers are shown (set once per column).
@@ -348,44 +357,51 @@ pub(crate) fn write_ranking(
             "Head [m]"
         });
         let (tag, cumulative) = (column("Tag"), column("Cumulative share"));
-        let mut bars = Chart::new(ChartType::Column);
-        bars.add_series()
-            .set_categories((sheet, first, tag, last, tag))
-            .set_values((sheet, first, value_col, last, value_col))
-            .set_name(
-                if by_cost {
-                    format!("Annual cost [{cur}]")
-                } else {
-                    headers[11].clone()
-                }
-                .as_str(),
-            );
-        let mut line = Chart::new(ChartType::Line);
-        line.add_series()
-            .set_categories((sheet, first, tag, last, tag))
-            .set_values((sheet, first, cumulative, last, cumulative))
-            .set_name("Cumulative share")
-            .set_secondary_axis(true);
-        bars.combine(&line);
-        bars.title()
-            .set_name(format!("Worst {n} fittings").as_str());
-        bars.y_axis().set_name(
-            if by_cost {
-                format!("Annual cost [{cur}]")
-            } else {
-                headers[11].clone()
-            }
-            .as_str(),
+        let value_name = headers[value_col as usize].clone();
+        let bars = pareto_chart(
+            sheet,
+            (first, last),
+            (tag, value_col, cumulative),
+            &value_name,
+            &format!("Worst {n} fittings"),
         );
-        bars.y2_axis()
-            .set_name("Cumulative share")
-            .set_num_format("0%")
-            .set_max(1.0)
-            .set_min(0.0);
-        bars.set_width(900).set_height(380);
         ws.insert_chart(3, 3, &bars)?;
     }
     Ok(())
+}
+
+/// A Pareto chart: one column per item (`cols.1`, named `value_name`) with the cumulative share
+/// (`cols.2`, a fraction) as a line on a second axis from 0 to 100 %, both over the rows
+/// `rows.0..=rows.1` of `sheet`, categories from `cols.0`.
+pub(crate) fn pareto_chart(
+    sheet: &str,
+    rows: (u32, u32),
+    cols: (u16, u16, u16),
+    value_name: &str,
+    title: &str,
+) -> Chart {
+    let ((first, last), (cat, value, cumulative)) = (rows, cols);
+    let mut bars = Chart::new(ChartType::Column);
+    bars.add_series()
+        .set_categories((sheet, first, cat, last, cat))
+        .set_values((sheet, first, value, last, value))
+        .set_name(value_name);
+    let mut line = Chart::new(ChartType::Line);
+    line.add_series()
+        .set_categories((sheet, first, cat, last, cat))
+        .set_values((sheet, first, cumulative, last, cumulative))
+        .set_name("Cumulative share")
+        .set_secondary_axis(true);
+    bars.combine(&line);
+    bars.title().set_name(title);
+    bars.y_axis().set_name(value_name);
+    bars.y2_axis()
+        .set_name("Cumulative share")
+        .set_num_format("0%")
+        .set_max(1.0)
+        .set_min(0.0);
+    bars.set_width(900).set_height(380);
+    bars
 }
 
 fn m3h(q: f64) -> f64 {
