@@ -26,13 +26,16 @@ struct Spilled {
     action: String,
 }
 
+/// One station's findings on disk: (station name, copy link, byte offset, bytes, findings).
+type Chunk = (String, String, u64, u64, usize);
+
 /// The findings of the estate, on disk.
 #[derive(Debug)]
 pub struct FindingSpill {
     path: PathBuf,
     writer: Option<BufWriter<File>>,
     /// Per station: (station name, copy link, byte offset, bytes, findings).
-    chunks: Vec<Option<(String, String, u64, u64, usize)>>,
+    chunks: Vec<Option<Chunk>>,
     end: u64,
 }
 
