@@ -142,7 +142,7 @@ fn workbook(l: &Layout) -> Option<Vec<u8>> {
             for (c, (h, v)) in header.iter().zip(row.iter()).enumerate() {
                 ws.write_string(0, c as u16, *h).ok()?;
                 match v.strip_prefix('#') {
-                    Some(x) => ws.write_number(1, c as u16, x.parse().ok()?).ok()?,
+                    Some(x) => ws.write_number(1, c as u16, x.parse::<f64>().ok()?).ok()?,
                     None => ws.write_string(1, c as u16, *v).ok()?,
                 };
             }

@@ -23,7 +23,7 @@ pub const MARK_COLS: u32 = 10;
 pub fn marker(input: &Input) -> Option<CellRef> {
     input.sheets.iter().find_map(|s| {
         (0..MARK_ROWS.min(s.end_row())).find_map(|r| {
-            (0..MARK_COLS.min(s.end_col())).find_map(|c| match s.value(r, c) {
+            (0..MARK_COLS).find_map(|c| match s.value(r, c) {
                 Data::String(t) if starts_with_mark(t) => Some(CellRef::new(&s.name, r, c)),
                 _ => None,
             })
