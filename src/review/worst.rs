@@ -112,6 +112,26 @@ pub struct StationPart {
     pub totals: [f64; BASES],
 }
 
+impl StationPart {
+    /// Count one fitting's ranking key (basis, value, low, high).
+    fn add(&mut self, (b, v, lo, hi): (usize, f64, f64, f64)) {
+        self.values[b].push(v);
+        self.lows[b].push(lo);
+        self.highs[b].push(hi);
+        self.count[b] += 1;
+        self.totals[b] += v.max(0.0);
+    }
+
+    /// Keep only the band values that `n` listed rows can need.
+    fn trim(&mut self, n: Option<usize>) {
+        for b in 0..BASES {
+            for v in [&mut self.values[b], &mut self.lows[b], &mut self.highs[b]] {
+                keep_largest(v, kept(n));
+            }
+        }
+    }
+}
+
 /// Keep the `k` largest of `v` (all for `None`), largest first.
 fn keep_largest(v: &mut Vec<f64>, k: Option<usize>) {
     v.sort_unstable_by(|a, b| b.total_cmp(a));
@@ -135,18 +155,9 @@ pub fn station_part(
 ) -> StationPart {
     let mut part = StationPart::default();
     for f in &audit.fittings {
-        let (b, v, lo, hi) = key(f);
-        part.values[b].push(v);
-        part.lows[b].push(lo);
-        part.highs[b].push(hi);
-        part.count[b] += 1;
-        part.totals[b] += v.max(0.0);
+        part.add(key(f));
     }
-    for b in 0..BASES {
-        for v in [&mut part.values[b], &mut part.lows[b], &mut part.highs[b]] {
-            keep_largest(v, kept(n));
-        }
-    }
+    part.trim(n);
     part.items = ranked_indices(audit, n)
         .into_iter()
         .map(|i| item(&audit.fittings[i], station, copy, i))
@@ -338,18 +349,9 @@ mod tests {
             })
             .collect();
         for f in &all {
-            let (b, v, lo, hi) = f.key;
-            p.values[b].push(v);
-            p.lows[b].push(lo);
-            p.highs[b].push(hi);
-            p.count[b] += 1;
-            p.totals[b] += v.max(0.0);
+            p.add(f.key);
         }
-        for b in 0..BASES {
-            for v in [&mut p.values[b], &mut p.lows[b], &mut p.highs[b]] {
-                keep_largest(v, kept(n));
-            }
-        }
+        p.trim(n);
         all.sort_by(before);
         if let Some(n) = n {
             all.truncate(n);
