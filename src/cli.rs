@@ -1,7 +1,9 @@
 //! Command line: argument parsing, exit codes, and the glue between layers.
 //!
 //! Exit codes (as in the README): 0 audit written; 1 findings at or above `--fail-on`; 2 input or
-//! usage error (nothing written); 3 internal error. `review`'s are in [`crate::review::command`].
+//! usage error (nothing written); 3 internal error. `review`'s are in `cli/review.rs`.
+
+mod review;
 
 use clap::{Args, Parser, Subcommand, ValueEnum};
 use std::path::{Path, PathBuf};
@@ -11,6 +13,7 @@ use crate::audit::{self, Rules};
 use crate::error::Severity;
 use crate::ingest;
 use crate::physics::fitting;
+use crate::pipeline::{AuditError, AuditJob, JsonOut, WriteError};
 use crate::report;
 
 /// Audit pipe runs and fittings from spreadsheet schedules: friction and fitting losses,
@@ -118,23 +121,20 @@ impl InputArgs {
         out
     }
 
-    /// The read options (the map file parsed). Prints the problem and returns `Err(2)` on a bad map.
-    pub fn options(&self) -> Result<ingest::ReadOptions, u8> {
-        match self
+    /// The read options (the map file parsed).
+    ///
+    /// # Errors
+    /// The map file's problem when it cannot be read or parsed.
+    pub fn options(&self) -> Result<ingest::ReadOptions, ingest::map::MapError> {
+        let map = self
             .map
             .as_deref()
             .map(ingest::HeaderMap::from_file)
-            .transpose()
-        {
-            Ok(map) => Ok(ingest::ReadOptions {
-                map,
-                limits: self.limits.limits(),
-            }),
-            Err(e) => {
-                eprintln!("error: {e}");
-                Err(2)
-            }
-        }
+            .transpose()?;
+        Ok(ingest::ReadOptions {
+            map,
+            limits: self.limits.limits(),
+        })
     }
 
     /// The paths given (for "do not overwrite an input" checks and the default output name).
@@ -221,8 +221,8 @@ pub struct ReviewArgs {
 }
 
 impl ReviewArgs {
-    fn request(&self) -> crate::review::command::Request {
-        crate::review::command::Request {
+    fn request(&self) -> review::Request {
+        review::Request {
             inputs: self.input.clone(),
             output: self.output.clone(),
             json: self.json.clone(),
@@ -366,48 +366,22 @@ fn run(cli: Cli) -> u8 {
             units,
             ranking_rows,
         } => {
-            let rules = match rules.as_deref().map(Rules::from_file).transpose() {
-                Ok(r) => r.unwrap_or_default(),
-                Err(e) => {
-                    eprintln!("error: {e}");
-                    return 2;
-                }
+            let book = report::workbook::BookOptions {
+                units,
+                ranking_rows: ranking_rows.0,
             };
-            let options = match inputs.options() {
-                Ok(o) => o,
-                Err(code) => return code,
-            };
-            let paths = inputs.paths();
-            let Some(first) = paths.first() else {
-                eprintln!("error: no input given");
+            let Some(job) = audit_job(&inputs, output, json.as_deref(), rules.as_deref(), book)
+            else {
                 return 2;
             };
-            let out = output.unwrap_or_else(|| report::default_output(first));
-            match audit_sources_to_files(
-                &inputs.sources(),
-                &options,
-                &paths,
-                &out,
-                json.as_deref(),
-                &rules,
-                &report::workbook::BookOptions {
-                    units,
-                    ranking_rows: ranking_rows.0,
-                },
-            ) {
+            match run_job(&job) {
                 Ok(done) => {
                     let summary = report::console::summary_in(&done, units);
                     if json.as_deref() == Some("-") {
                         eprint!("{summary}");
                     } else {
                         print!("{summary}");
-                        print!(
-                            "{}",
-                            report::console::fitted_text(
-                                &format!("Wrote {}", out.display()),
-                                report::text_table::console_width(),
-                            )
-                        );
+                        print_fitted(&format!("Wrote {}", job.output().display()));
                     }
                     exit_for(&done, fail_on)
                 }
@@ -427,12 +401,106 @@ fn run(cli: Cli) -> u8 {
             0
         }
         Command::Compare(args) => compare(&args),
-        Command::Review(args) => crate::review::command::execute(&args.request()),
-        Command::Demo { dir } => crate::demo::run(&dir),
+        Command::Review(args) => review::execute(&args.request()),
+        Command::Demo { dir } => demo(&dir),
         Command::Check { inputs } => check(&inputs),
-        Command::Template { out, units, layout } => {
-            crate::template::run_layout(&out, units, layout)
+        Command::Template { out, units, layout } => template(&out, units, layout),
+    }
+}
+
+/// Print `error: {e}` and return exit 2 (bad input or usage).
+fn usage(e: &dyn std::fmt::Display) -> u8 {
+    eprintln!("error: {e}");
+    2
+}
+
+/// Print `internal error: {e}` and return exit 3.
+fn internal(e: &dyn std::fmt::Display) -> u8 {
+    eprintln!("internal error: {e}");
+    3
+}
+
+/// Print a line fitted to the terminal width.
+fn print_fitted(text: &str) {
+    print!(
+        "{}",
+        report::console::fitted_text(text, report::text_table::console_width())
+    );
+}
+
+/// The audit job of `lossledger audit`; `None` (the problem printed) when the rules file, the
+/// header map or the inputs are unusable.
+fn audit_job(
+    inputs: &InputArgs,
+    output: Option<PathBuf>,
+    json: Option<&str>,
+    rules: Option<&Path>,
+    book: report::workbook::BookOptions,
+) -> Option<AuditJob> {
+    let rules = match rules.map(Rules::from_file).transpose() {
+        Ok(r) => r.unwrap_or_default(),
+        Err(e) => {
+            usage(&e);
+            return None;
         }
+    };
+    let options = match inputs.options() {
+        Ok(o) => o,
+        Err(e) => {
+            usage(&e);
+            return None;
+        }
+    };
+    let Some(first) = inputs.paths().into_iter().next() else {
+        usage(&"no input given");
+        return None;
+    };
+    let out = output.unwrap_or_else(|| report::default_output(&first));
+    Some(
+        AuditJob::new(inputs.sources(), out)
+            .read_options(options)
+            .rules(rules)
+            .book(book)
+            .json(json.map(JsonOut::from_arg)),
+    )
+}
+
+/// `lossledger demo`: write the demo input, audit it into the same folder, print the summary.
+fn demo(dir: &Path) -> u8 {
+    let demo = match crate::demo::write_input(dir) {
+        Ok(d) => d,
+        Err(e @ crate::demo::DemoError::Build(_)) => return internal(&e),
+        Err(e) => return usage(&e),
+    };
+    match run_job(&demo.job) {
+        Ok(audit) => {
+            println!("{}", crate::demo::NOTE);
+            print!("{}", report::console::summary(&audit));
+            let json = demo.job.json_file().unwrap_or(Path::new(""));
+            print_fitted(&format!(
+                "Wrote {}, {} and {}",
+                demo.input.display(),
+                demo.job.output().display(),
+                json.display()
+            ));
+            0
+        }
+        Err(code) => code,
+    }
+}
+
+/// `lossledger template`: write the blank input workbook.
+fn template(out: &Path, units: crate::units::UnitSystem, layout: crate::template::Layout) -> u8 {
+    match crate::template::write(out, units, layout) {
+        Ok(()) => {
+            println!(
+                "Wrote {} (example rows are invented; see its Read me sheet)",
+                out.display()
+            );
+            0
+        }
+        Err(e @ crate::template::TemplateError::Build(_)) => internal(&e),
+        Err(e) => usage(&e),
     }
 }
 
@@ -458,198 +526,74 @@ fn exit_for(audit: &audit::Audit, fail_on: Option<FailOn>) -> u8 {
     u8::from(audit.findings.iter().any(|f| f.severity >= threshold))
 }
 
-/// Read, audit and write. On any input error prints every diagnostic and returns `Err(2)` with
-/// nothing written; on an output error returns `Err(2)` or `Err(3)`.
-pub fn audit_to_files(
-    input_path: &Path,
-    out: &Path,
-    json: Option<&str>,
-    rules: &Rules,
-) -> Result<audit::Audit, u8> {
-    let sources = [ingest::InputSource::Path(input_path.to_path_buf())];
-    let paths = [input_path.to_path_buf()];
-    audit_sources_to_files(
-        &sources,
-        &ingest::ReadOptions::default(),
-        &paths,
-        out,
-        json,
-        rules,
-        &report::workbook::BookOptions::default(),
-    )
-}
-
 /// `lossledger check`: read and validate, print what was found; 0 when clean, 2 on errors.
 fn check(inputs: &InputArgs) -> u8 {
     let options = match inputs.options() {
         Ok(o) => o,
-        Err(code) => return code,
+        Err(e) => return usage(&e),
     };
-    let input = match ingest::read_inputs(&inputs.sources(), &options) {
-        Ok(i) => i,
-        Err(e) => {
-            eprintln!("error: {e}");
-            return 2;
-        }
+    let checked = match crate::pipeline::check(&inputs.sources(), &options) {
+        Ok(c) => c,
+        Err(e) => return usage(&e),
     };
-    let mut diagnostics = input.diagnostics.clone();
-    if input.error_count() == 0
-        && let Err(errors) = audit::run(&input, &Rules::default())
-    {
-        diagnostics.extend(errors);
-    }
-    print!("{}", ingest::describe(&input));
-    let errors = diagnostics
-        .iter()
-        .filter(|d| d.severity == Severity::Error)
-        .count();
-    let warnings = diagnostics
-        .iter()
-        .filter(|d| d.severity == Severity::Warning)
-        .count();
-    if !diagnostics.is_empty() {
+    print!("{}", ingest::describe(&checked.input));
+    let errors = checked.count(Severity::Error);
+    let warnings = checked.count(Severity::Warning);
+    if !checked.diagnostics.is_empty() {
         println!("\nDiagnostics:");
-        for d in &diagnostics {
+        for d in &checked.diagnostics {
             println!("{d}");
         }
     }
     println!(
         "\n{errors} error(s), {warnings} warning(s) in {}",
-        input.file
+        checked.input.file
     );
     if errors > 0 { 2 } else { 0 }
 }
 
-/// Read several sources, audit and write (see [`audit_to_files`]); `paths` are the input files,
-/// never overwritten.
-#[allow(clippy::too_many_arguments)]
-pub fn audit_sources_to_files(
-    sources: &[ingest::InputSource],
-    options: &ingest::ReadOptions,
-    paths: &[PathBuf],
-    out: &Path,
-    json: Option<&str>,
-    rules: &Rules,
-    book: &report::workbook::BookOptions,
-) -> Result<audit::Audit, u8> {
+/// Run an audit job, with a progress line on stderr and every diagnostic printed: the warnings
+/// and notes after reading, every error and what it stopped. Returns the audit, or the exit code
+/// (2 for bad input or a file that cannot be written, 3 for an internal error) with nothing
+/// written; the JSON asked on standard output is printed here.
+fn run_job(job: &AuditJob) -> Result<audit::Audit, u8> {
     let progress = progress("reading inputs");
     // Messages go around the progress line so they never garble it.
-    macro_rules! say {
-        ($($t:tt)*) => { progress.suspend(|| eprintln!($($t)*)) };
-    }
-    let input = match ingest::read_inputs(sources, options) {
-        Ok(i) => i,
-        Err(e) => {
-            say!("error: {e}");
-            return Err(2);
-        }
-    };
+    let say = |text: &dyn std::fmt::Display| progress.suspend(|| eprintln!("{text}"));
+    let input = job.read().map_err(|e| {
+        say(&format_args!("error: {e}"));
+        2
+    })?;
     for d in input
         .diagnostics
         .iter()
         .filter(|d| d.severity != Severity::Error)
     {
-        say!("{d}");
+        say(d);
     }
     progress.set_message("computing losses");
-    let done = match crate::pipeline::audit(&input, rules) {
-        Ok(a) => a,
-        Err(errors) => {
-            for d in &errors {
-                say!("{d}");
-            }
-            say!(
-                "{} error(s) in {}; nothing was written",
-                errors.len(),
-                input.file
-            );
-            return Err(2);
+    let done = job.audit(&input).map_err(|e| {
+        if let AuditError::Invalid { errors, .. } = &e {
+            errors.iter().for_each(|d| say(d));
         }
+        say(&e);
+        2
+    })?;
+    let written_or = |e: WriteError| {
+        let kind = if e.is_internal() {
+            "internal error"
+        } else {
+            "error"
+        };
+        say(&format_args!("{kind}: {e}"));
+        if e.is_internal() { 3 } else { 2 }
     };
-    let mut inputs: Vec<PathBuf> = paths.to_vec();
-    inputs.extend(input.sources.iter().map(|s| s.path.clone()));
-    if let Some(j) = json.filter(|j| *j != "-") {
-        if let Err(e) = report::check_not_input(Path::new(j), &inputs) {
-            say!("error: {e}");
-            return Err(2);
-        }
-        inputs.push(PathBuf::from(j));
-    }
-    if let Err(e) = report::check_not_input(out, &inputs) {
-        say!("error: {e}");
-        return Err(2);
-    }
     progress.set_message("writing the annotated workbook");
-    crate::worker::enter(crate::worker::Phase::Write, &out.display().to_string());
-    let mut book = match report::workbook::prepare(&input, &done, book) {
-        Ok(b) => b,
-        Err(e) => {
-            say!("internal error: building the workbook failed: {e}");
-            return Err(3);
-        }
-    };
-    // Saved straight into the staged file: a failure to assemble it is ours (exit 3), a failure
-    // to write it is the disk's (exit 2); either way nothing is left behind.
+    let prepared = job.prepare(&input, &done).map_err(written_or)?;
     progress.set_message("saving the workbook");
-    let mut internal = None;
-    let staged_book = report::stage_with(out, |f| {
-        book.save_to_writer(f).map_err(|e| match e {
-            rust_xlsxwriter::XlsxError::IoError(io) => io,
-            other => {
-                internal = Some(other);
-                std::io::Error::other("the workbook could not be assembled")
-            }
-        })
-    });
-    drop(book);
-    if let Some(e) = internal {
-        say!("internal error: building the workbook failed: {e}");
-        return Err(3);
-    }
-    let staged_book = match staged_book {
-        Ok(s) => s,
-        Err(e) => {
-            say!("error: {e}; nothing was written");
-            return Err(2);
-        }
-    };
-    let json_text = match json
-        .map(|_| report::json::to_string(&input, &done))
-        .transpose()
-    {
-        Ok(t) => t,
-        Err(e) => {
-            say!("internal error: building JSON failed: {e}");
-            return Err(3);
-        }
-    };
-    let staged_json = match (json, &json_text) {
-        (Some(path), Some(text)) if path != "-" => {
-            match report::stage(Path::new(path), text.as_bytes()) {
-                Ok(s) => Some(s),
-                Err(e) => {
-                    say!("error: {e}; nothing was written");
-                    return Err(2);
-                }
-            }
-        }
-        _ => None,
-    };
-    if let Err(e) = staged_book.commit() {
-        say!("error: {e}; nothing was written");
-        return Err(2);
-    }
-    if let Some(s) = staged_json
-        && let Err(e) = s.commit()
-    {
-        say!(
-            "error: {e}; the workbook {} was written, the JSON was not",
-            out.display()
-        );
-        return Err(2);
-    }
+    let written = prepared.save().map_err(written_or)?;
     progress.finish_and_clear();
-    if let (Some("-"), Some(text)) = (json, json_text) {
+    if let Some(text) = written.json {
         println!("{text}");
     }
     Ok(done)
@@ -663,7 +607,7 @@ fn compare_side(
     options: &ingest::ReadOptions,
     rules: &Rules,
 ) -> Option<crate::pipeline::Audited> {
-    use crate::pipeline::{AuditError, read_and_audit};
+    use crate::pipeline::read_and_audit;
     let label = side.label();
     let sources = [ingest::InputSource::Path(path.to_path_buf())];
     match read_and_audit(&sources, options, rules) {

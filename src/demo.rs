@@ -11,11 +11,14 @@
 use rust_xlsxwriter::{
     DocProperties, ExcelDateTime, Format, Formula, Workbook, Worksheet, XlsxError,
 };
-use std::path::Path;
+use std::path::{Path, PathBuf};
 
-use crate::audit::Rules;
+use crate::ingest::InputSource;
+use crate::pipeline::{AuditJob, JsonOut};
 
-const NOTE: &str = "INVENTED DATA for demonstration: Kestrel Ridge booster station is fictional.";
+/// The invented-data note on every demo sheet, printed above the demo's summary.
+pub const NOTE: &str =
+    "INVENTED DATA for demonstration: Kestrel Ridge booster station is fictional.";
 
 enum C {
     S(&'static str),
@@ -57,6 +60,9 @@ fn sheet(
 }
 
 /// Build the demo input workbook.
+///
+/// # Errors
+/// The workbook writer's error (an internal error: the demo is fixed data).
 pub fn input_workbook() -> Result<Vec<u8>, XlsxError> {
     use C::*;
     let mut wb = Workbook::new();
@@ -495,44 +501,65 @@ pub fn input_workbook() -> Result<Vec<u8>, XlsxError> {
     wb.save_to_buffer()
 }
 
-/// `lossledger demo`: write the demo input and its audit into `dir`, print the summary.
-pub fn run(dir: &Path) -> u8 {
-    if let Err(e) = std::fs::create_dir_all(dir) {
-        eprintln!("error: {}: {e}", dir.display());
-        return 2;
-    }
+/// The demo as written: its input workbook and the audit job that reads it and writes its
+/// annotated workbook and JSON beside it.
+#[derive(Debug)]
+pub struct Demo {
+    /// The demo input workbook.
+    pub input: PathBuf,
+    /// The audit of it: `kestrel-ridge.audit.xlsx` and `kestrel-ridge.audit.json` in the folder.
+    pub job: AuditJob,
+}
+
+/// Why the demo input could not be written.
+#[derive(Debug, thiserror::Error)]
+pub enum DemoError {
+    /// The folder could not be created.
+    #[error("{}: {source}", dir.display())]
+    Folder {
+        /// The folder.
+        dir: PathBuf,
+        /// What the file system said.
+        #[source]
+        source: std::io::Error,
+    },
+    /// The workbook could not be built (an internal error).
+    #[error("building the demo workbook failed: {0}")]
+    Build(#[source] XlsxError),
+    /// The workbook could not be written.
+    #[error(transparent)]
+    Write(#[from] crate::error::OutputError),
+}
+
+/// `lossledger demo`, first step: write the demo input workbook into `dir` (created if need be)
+/// and return the audit job that `lossledger demo` then runs ([`AuditJob::run`]).
+///
+/// # Errors
+/// [`DemoError::Folder`] when `dir` cannot be created, [`DemoError::Build`] when the workbook
+/// cannot be built, [`DemoError::Write`] when it cannot be written.
+///
+/// # Example
+/// ```
+/// let dir = std::env::temp_dir().join(format!("lossledger-doc-demo-{}", std::process::id()));
+/// let demo = lossledger::demo::write_input(&dir)?;
+/// let done = demo.job.run()?;
+/// assert!(demo.input.is_file() && demo.job.output().is_file());
+/// assert!(!done.audited.audit.findings.is_empty());
+/// std::fs::remove_dir_all(&dir)?;
+/// # Ok::<(), Box<dyn std::error::Error>>(())
+/// ```
+pub fn write_input(dir: &Path) -> Result<Demo, DemoError> {
+    std::fs::create_dir_all(dir).map_err(|source| DemoError::Folder {
+        dir: dir.to_path_buf(),
+        source,
+    })?;
     let input = dir.join("kestrel-ridge.xlsx");
-    let bytes = match input_workbook() {
-        Ok(b) => b,
-        Err(e) => {
-            eprintln!("internal error: building the demo workbook failed: {e}");
-            return 3;
-        }
-    };
-    if let Err(e) = crate::report::write_atomic(&input, &bytes) {
-        eprintln!("error: {e}");
-        return 2;
-    }
-    let out = crate::report::default_output(&input);
-    let json = dir.join("kestrel-ridge.audit.json");
-    match crate::cli::audit_to_files(&input, &out, json.to_str(), &Rules::default()) {
-        Ok(audit) => {
-            println!("{NOTE}");
-            print!("{}", crate::report::console::summary(&audit));
-            print!(
-                "{}",
-                crate::report::console::fitted_text(
-                    &format!(
-                        "Wrote {}, {} and {}",
-                        input.display(),
-                        out.display(),
-                        json.display()
-                    ),
-                    crate::report::text_table::console_width(),
-                )
-            );
-            0
-        }
-        Err(code) => code,
-    }
+    let bytes = input_workbook().map_err(DemoError::Build)?;
+    crate::report::write_atomic(&input, &bytes)?;
+    let job = AuditJob::new(
+        vec![InputSource::Path(input.clone())],
+        crate::report::default_output(&input),
+    )
+    .json(Some(JsonOut::File(dir.join("kestrel-ridge.audit.json"))));
+    Ok(Demo { input, job })
 }

@@ -138,13 +138,34 @@ impl fmt::Display for Diagnostic {
 #[derive(Debug, thiserror::Error)]
 #[non_exhaustive]
 pub enum InputError {
-    /// The file could not be opened or is not a readable workbook.
+    /// The file could not be opened or is not a readable workbook (no underlying error: an empty
+    /// folder, a reader that stopped on malformed XML, a CSV larger than a sheet).
     #[error("{file}: cannot read as a workbook: {reason}")]
     Unreadable {
         /// File name.
         file: String,
-        /// What the reader said.
+        /// What is wrong.
         reason: String,
+    },
+    /// The file or folder could not be read from the disk.
+    #[error("{file}: cannot read as a workbook: {source}")]
+    Io {
+        /// File name.
+        file: String,
+        /// What the file system said.
+        #[source]
+        source: std::io::Error,
+    },
+    /// The workbook reader (calamine) refused the file or one of its sheets.
+    #[error("{file}: cannot read as a workbook: {reason}")]
+    Workbook {
+        /// File name.
+        file: String,
+        /// What is wrong, in plain words (with the sheet when one is concerned).
+        reason: String,
+        /// What the reader said.
+        #[source]
+        source: WorkbookError,
     },
     /// Reading the file would pass a limit (cells, unzipped size, compression ratio); nothing
     /// was read further.
@@ -167,12 +188,17 @@ pub enum InputError {
         /// File name.
         file: String,
     },
-    /// The input has error-level diagnostics; nothing was written.
-    #[error("{count} error(s) in the input; nothing was written")]
-    Invalid {
-        /// Number of error-level diagnostics.
-        count: usize,
-    },
+}
+
+/// The workbook reader's own error, kept as the source of [`InputError::Workbook`].
+#[derive(Debug, thiserror::Error)]
+pub enum WorkbookError {
+    /// From the `.xlsx` reader.
+    #[error(transparent)]
+    Xlsx(#[from] calamine::XlsxError),
+    /// From the `.xls` / `.ods` reader.
+    #[error(transparent)]
+    Other(#[from] calamine::Error),
 }
 
 /// Errors while writing outputs.

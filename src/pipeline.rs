@@ -1,11 +1,21 @@
-//! Read → audit as library steps, shared by `audit` and `compare`.
+//! The audit as library steps: read → audit → write.
 //!
-//! [`read_and_audit`] reads a set of sources exactly as `lossledger audit` does and returns the
-//! parsed input with its [`Audit`], or a typed error carrying every diagnostic that stopped it.
+//! [`AuditJob`] says what to read (sources, header map, limits), which rules apply and where the
+//! annotated workbook and the JSON go. Its steps are [`AuditJob::read`], [`AuditJob::audit`] and
+//! [`AuditJob::write`] (itself [`AuditJob::prepare`] then [`Prepared::save`]); [`AuditJob::run`]
+//! takes all three. Each step returns a typed error that carries its context (the file, every
+//! diagnostic with its `Sheet!A1` cell, the underlying I/O or workbook error as its source) and
+//! prints nothing: the command line decides what to print and which exit code follows.
+//!
+//! [`read_and_audit`] reads and audits without writing (`compare`, `review`); [`check`] reads
+//! and validates only (`check`).
+
+use std::path::{Path, PathBuf};
 
 use crate::audit::{self, Audit, Rules};
-use crate::error::{CellRef, Diagnostic, InputError, Severity};
+use crate::error::{CellRef, Diagnostic, InputError, OutputError, Severity};
 use crate::ingest::{self, Input, InputSource, ReadOptions};
+use crate::report::workbook::BookOptions;
 
 /// An input read and audited.
 #[derive(Clone, Debug)]
@@ -36,11 +46,431 @@ pub enum AuditError {
     },
 }
 
-/// Read `sources` and audit them with `rules`.
+impl AuditError {
+    fn invalid(input: &Input, errors: Vec<Diagnostic>) -> Self {
+        AuditError::Invalid {
+            invented: crate::report::invented::marker(input),
+            file: input.file.clone(),
+            sha256: input.sha256.clone(),
+            errors,
+        }
+    }
+}
+
+/// Why the outputs of an audit could not be written. Nothing is left behind in any case, except
+/// for [`WriteError::JsonNotCommitted`], where the workbook is in place and the JSON is not.
+#[derive(Debug, thiserror::Error)]
+pub enum WriteError {
+    /// An output path is one of the inputs; nothing was written.
+    #[error(transparent)]
+    WouldOverwrite(OutputError),
+    /// The workbook could not be assembled (an internal error).
+    #[error("building the workbook failed: {source}")]
+    Book {
+        /// What the workbook writer said.
+        #[source]
+        source: rust_xlsxwriter::XlsxError,
+    },
+    /// The JSON could not be built (an internal error).
+    #[error("building JSON failed: {source}")]
+    Json {
+        /// What the serialiser said.
+        #[source]
+        source: serde_json::Error,
+    },
+    /// An output could not be staged or renamed into place; nothing was written.
+    #[error("{source}; nothing was written")]
+    Output {
+        /// The file and the I/O error.
+        #[source]
+        source: OutputError,
+    },
+    /// The workbook was renamed into place, the JSON beside it could not be.
+    #[error("{source}; the workbook {} was written, the JSON was not", workbook.display())]
+    JsonNotCommitted {
+        /// The workbook written.
+        workbook: PathBuf,
+        /// The JSON's file and the I/O error.
+        #[source]
+        source: OutputError,
+    },
+}
+
+impl WriteError {
+    /// Whether the failure is the program's own (the workbook or JSON could not be built) rather
+    /// than the disk's or the request's.
+    pub fn is_internal(&self) -> bool {
+        matches!(self, WriteError::Book { .. } | WriteError::Json { .. })
+    }
+}
+
+/// Why [`AuditJob::run`] stopped.
+#[derive(Debug, thiserror::Error)]
+pub enum Error {
+    /// Reading or auditing failed.
+    #[error(transparent)]
+    Audit(#[from] AuditError),
+    /// Writing failed.
+    #[error(transparent)]
+    Write(#[from] WriteError),
+}
+
+/// Where an audit's JSON goes.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum JsonOut {
+    /// A file, staged and renamed into place with the workbook.
+    File(PathBuf),
+    /// Returned as text ([`Written::json`]) for the caller to print.
+    Text,
+}
+
+impl JsonOut {
+    /// The command line's spelling: `-` for [`JsonOut::Text`] (standard output), else a file.
+    pub fn from_arg(arg: &str) -> Self {
+        if arg == "-" {
+            JsonOut::Text
+        } else {
+            JsonOut::File(PathBuf::from(arg))
+        }
+    }
+}
+
+/// One audit to run: what to read, the rules, and the outputs. Built with [`AuditJob::new`] and
+/// the setters; the defaults are those of `lossledger audit` without options.
+#[derive(Clone, Debug)]
+pub struct AuditJob {
+    sources: Vec<InputSource>,
+    read: ReadOptions,
+    rules: Rules,
+    book: BookOptions,
+    output: PathBuf,
+    json: Option<JsonOut>,
+}
+
+/// What [`AuditJob::write`] produced besides the files.
+#[derive(Debug, Default)]
+pub struct Written {
+    /// The JSON text when [`JsonOut::Text`] was asked.
+    pub json: Option<String>,
+}
+
+/// Everything [`AuditJob::run`] produced.
+#[derive(Debug)]
+pub struct Done {
+    /// The input and its audit.
+    pub audited: Audited,
+    /// The JSON text when [`JsonOut::Text`] was asked.
+    pub json: Option<String>,
+}
+
+impl AuditJob {
+    /// Audit `sources` into the workbook `output`, with the default reading options, rules and
+    /// workbook options and no JSON.
+    pub fn new(sources: Vec<InputSource>, output: impl Into<PathBuf>) -> Self {
+        AuditJob {
+            sources,
+            read: ReadOptions::default(),
+            rules: Rules::default(),
+            book: BookOptions::default(),
+            output: output.into(),
+            json: None,
+        }
+    }
+
+    /// Read with these options (header map, limits).
+    pub fn read_options(mut self, read: ReadOptions) -> Self {
+        self.read = read;
+        self
+    }
+
+    /// Audit with these rules.
+    pub fn rules(mut self, rules: Rules) -> Self {
+        self.rules = rules;
+        self
+    }
+
+    /// Shape the workbook so (units, ranking rows).
+    pub fn book(mut self, book: BookOptions) -> Self {
+        self.book = book;
+        self
+    }
+
+    /// Also write the JSON there.
+    pub fn json(mut self, json: Option<JsonOut>) -> Self {
+        self.json = json;
+        self
+    }
+
+    /// The annotated workbook's path.
+    pub fn output(&self) -> &Path {
+        &self.output
+    }
+
+    /// The JSON file's path, when one is written.
+    pub fn json_file(&self) -> Option<&Path> {
+        match &self.json {
+            Some(JsonOut::File(p)) => Some(p),
+            _ => None,
+        }
+    }
+
+    /// Read, audit and write: [`AuditJob::read`], [`AuditJob::audit`], [`AuditJob::write`].
+    ///
+    /// # Errors
+    /// [`Error::Audit`] when the input cannot be read or has errors, [`Error::Write`] when an
+    /// output cannot be written; nothing is written in either case (but see
+    /// [`WriteError::JsonNotCommitted`]).
+    ///
+    /// # Example
+    /// ```
+    /// use lossledger::pipeline::{AuditJob, JsonOut};
+    /// use lossledger::ingest::InputSource;
+    ///
+    /// let dir = std::env::temp_dir().join(format!("lossledger-doc-run-{}", std::process::id()));
+    /// std::fs::create_dir_all(&dir)?;
+    /// let input = dir.join("station.xlsx");
+    /// std::fs::write(&input, lossledger::demo::input_workbook()?)?;
+    /// let job = AuditJob::new(vec![InputSource::Path(input)], dir.join("station.audit.xlsx"))
+    ///     .json(Some(JsonOut::Text));
+    /// let done = job.run()?;
+    /// assert!(!done.audited.audit.lines.is_empty());
+    /// assert!(done.json.is_some_and(|j| j.contains("\"lines\"")));
+    /// assert!(job.output().is_file());
+    /// std::fs::remove_dir_all(&dir)?;
+    /// # Ok::<(), Box<dyn std::error::Error>>(())
+    /// ```
+    pub fn run(&self) -> Result<Done, Error> {
+        let input = self.read()?;
+        let audit = self.audit(&input)?;
+        let written = self.write(&input, &audit)?;
+        Ok(Done {
+            audited: Audited { input, audit },
+            json: written.json,
+        })
+    }
+
+    /// Read every source into one input (every sheet and cell kept, diagnostics collected).
+    ///
+    /// # Errors
+    /// [`AuditError::Read`] when a file cannot be read at all (missing, not a workbook, past a
+    /// limit). Problems inside a readable file are diagnostics in [`Input::diagnostics`].
+    ///
+    /// # Example
+    /// ```
+    /// use lossledger::pipeline::AuditJob;
+    /// use lossledger::ingest::InputSource;
+    ///
+    /// let dir = std::env::temp_dir().join(format!("lossledger-doc-read-{}", std::process::id()));
+    /// std::fs::create_dir_all(&dir)?;
+    /// let input = dir.join("blank.xlsx");
+    /// lossledger::template::write(&input, Default::default(), Default::default())?;
+    /// let read = AuditJob::new(vec![InputSource::Path(input)], dir.join("out.xlsx")).read()?;
+    /// assert!(read.sheets.iter().any(|s| s.name == "Pipes"));
+    /// std::fs::remove_dir_all(&dir)?;
+    /// # Ok::<(), Box<dyn std::error::Error>>(())
+    /// ```
+    pub fn read(&self) -> Result<Input, AuditError> {
+        Ok(ingest::read_inputs(&self.sources, &self.read)?)
+    }
+
+    /// Audit a read input with the job's rules (see [`audit()`]).
+    ///
+    /// # Errors
+    /// [`AuditError::Invalid`] with every error diagnostic, each at its cell, when the input has
+    /// errors or a result is not a finite number.
+    ///
+    /// # Example
+    /// ```
+    /// use lossledger::pipeline::{AuditError, AuditJob};
+    /// use lossledger::ingest::InputSource;
+    ///
+    /// let dir = std::env::temp_dir().join(format!("lossledger-doc-audit-{}", std::process::id()));
+    /// std::fs::create_dir_all(&dir)?;
+    /// let input = dir.join("blank.xlsx");
+    /// lossledger::template::write(&input, Default::default(), Default::default())?;
+    /// let job = AuditJob::new(vec![InputSource::Path(input)], dir.join("out.xlsx"));
+    /// let read = job.read()?;
+    /// // The template's example rows audit cleanly.
+    /// let audit = job.audit(&read)?;
+    /// assert!(!audit.runs.is_empty());
+    /// std::fs::remove_dir_all(&dir)?;
+    /// # Ok::<(), Box<dyn std::error::Error>>(())
+    /// ```
+    pub fn audit(&self, input: &Input) -> Result<Audit, AuditError> {
+        audit(input, &self.rules).map_err(|errors| AuditError::invalid(input, errors))
+    }
+
+    /// Write the annotated workbook and the JSON: [`AuditJob::prepare`], then [`Prepared::save`].
+    ///
+    /// # Errors
+    /// As [`AuditJob::prepare`] and [`Prepared::save`].
+    ///
+    /// # Example
+    /// ```
+    /// use lossledger::pipeline::{AuditJob, JsonOut};
+    /// use lossledger::ingest::InputSource;
+    ///
+    /// let dir = std::env::temp_dir().join(format!("lossledger-doc-write-{}", std::process::id()));
+    /// std::fs::create_dir_all(&dir)?;
+    /// let input = dir.join("station.xlsx");
+    /// std::fs::write(&input, lossledger::demo::input_workbook()?)?;
+    /// let json = dir.join("station.audit.json");
+    /// let job = AuditJob::new(vec![InputSource::Path(input)], dir.join("station.audit.xlsx"))
+    ///     .json(Some(JsonOut::File(json.clone())));
+    /// let read = job.read()?;
+    /// let audit = job.audit(&read)?;
+    /// job.write(&read, &audit)?;
+    /// assert!(job.output().is_file() && json.is_file());
+    /// std::fs::remove_dir_all(&dir)?;
+    /// # Ok::<(), Box<dyn std::error::Error>>(())
+    /// ```
+    pub fn write(&self, input: &Input, audit: &Audit) -> Result<Written, WriteError> {
+        self.prepare(input, audit)?.save()
+    }
+
+    /// Refuse outputs that would land on an input, then build every sheet of the annotated
+    /// workbook (the input copies wait in temporary files until [`Prepared::save`]).
+    ///
+    /// # Errors
+    /// [`WriteError::WouldOverwrite`] when the workbook or the JSON would overwrite an input;
+    /// [`WriteError::Book`] when the workbook cannot be built.
+    ///
+    /// # Example
+    /// ```
+    /// use lossledger::pipeline::{AuditJob, WriteError};
+    /// use lossledger::ingest::InputSource;
+    ///
+    /// let dir = std::env::temp_dir().join(format!("lossledger-doc-prep-{}", std::process::id()));
+    /// std::fs::create_dir_all(&dir)?;
+    /// let input = dir.join("station.xlsx");
+    /// std::fs::write(&input, lossledger::demo::input_workbook()?)?;
+    /// // Asked to write over its own input, the job refuses before building anything.
+    /// let job = AuditJob::new(vec![InputSource::Path(input.clone())], &input);
+    /// let read = job.read()?;
+    /// let audit = job.audit(&read)?;
+    /// assert!(matches!(job.prepare(&read, &audit), Err(WriteError::WouldOverwrite(_))));
+    /// std::fs::remove_dir_all(&dir)?;
+    /// # Ok::<(), Box<dyn std::error::Error>>(())
+    /// ```
+    pub fn prepare<'a>(
+        &'a self,
+        input: &'a Input,
+        audit: &'a Audit,
+    ) -> Result<Prepared<'a>, WriteError> {
+        self.check_outputs(input)
+            .map_err(WriteError::WouldOverwrite)?;
+        crate::worker::enter(
+            crate::worker::Phase::Write,
+            &self.output.display().to_string(),
+        );
+        let book = crate::report::workbook::prepare(input, audit, &self.book)
+            .map_err(|source| WriteError::Book { source })?;
+        Ok(Prepared {
+            job: self,
+            input,
+            audit,
+            book,
+        })
+    }
+
+    /// The paths given and the files read are never outputs.
+    fn check_outputs(&self, input: &Input) -> Result<(), OutputError> {
+        let mut inputs: Vec<PathBuf> = self
+            .sources
+            .iter()
+            .map(|s| match s {
+                InputSource::Path(p) | InputSource::Csv { path: p, .. } => p.clone(),
+            })
+            .collect();
+        inputs.extend(input.sources.iter().map(|s| s.path.clone()));
+        if let Some(j) = self.json_file() {
+            crate::report::check_not_input(j, &inputs)?;
+            inputs.push(j.to_path_buf());
+        }
+        crate::report::check_not_input(&self.output, &inputs)
+    }
+}
+
+/// An annotated workbook built and waiting to be saved ([`AuditJob::prepare`]).
+pub struct Prepared<'a> {
+    job: &'a AuditJob,
+    input: &'a Input,
+    audit: &'a Audit,
+    book: rust_xlsxwriter::Workbook,
+}
+
+impl Prepared<'_> {
+    /// Save the workbook straight into a temporary file beside its target, build and stage the
+    /// JSON, then rename both into place: an error never leaves output.
+    ///
+    /// # Errors
+    /// [`WriteError::Book`] or [`WriteError::Json`] when an output cannot be assembled (ours);
+    /// [`WriteError::Output`] when it cannot be written (the disk's), nothing left behind;
+    /// [`WriteError::JsonNotCommitted`] when the workbook was renamed into place and the JSON
+    /// could not be.
+    pub fn save(self) -> Result<Written, WriteError> {
+        let Prepared {
+            job,
+            input,
+            audit,
+            mut book,
+        } = self;
+        let staged_book =
+            crate::report::stage_book(&job.output, &mut book).map_err(|e| match e {
+                OutputError::Xlsx { source, .. } => WriteError::Book { source },
+                source => WriteError::Output { source },
+            })?;
+        drop(book);
+        let json = job
+            .json
+            .as_ref()
+            .map(|_| crate::report::json::to_string(input, audit))
+            .transpose()
+            .map_err(|source| WriteError::Json { source })?;
+        let staged_json = match (job.json_file(), &json) {
+            (Some(path), Some(text)) => Some(
+                crate::report::stage(path, text.as_bytes())
+                    .map_err(|source| WriteError::Output { source })?,
+            ),
+            _ => None,
+        };
+        staged_book
+            .commit()
+            .map_err(|source| WriteError::Output { source })?;
+        if let Some(s) = staged_json {
+            s.commit().map_err(|source| WriteError::JsonNotCommitted {
+                workbook: job.output.clone(),
+                source,
+            })?;
+        }
+        Ok(Written {
+            json: json.filter(|_| job.json == Some(JsonOut::Text)),
+        })
+    }
+}
+
+/// Read `sources` and audit them with `rules`, as `lossledger audit` does, writing nothing.
 ///
 /// # Errors
 /// [`AuditError::Read`] when a file cannot be read; [`AuditError::Invalid`] with every error
 /// diagnostic when the input has errors or a result is not a finite number.
+///
+/// # Example
+/// ```
+/// use lossledger::audit::Rules;
+/// use lossledger::ingest::{InputSource, ReadOptions};
+/// use lossledger::pipeline::read_and_audit;
+///
+/// let dir = std::env::temp_dir().join(format!("lossledger-doc-rna-{}", std::process::id()));
+/// std::fs::create_dir_all(&dir)?;
+/// let input = dir.join("station.xlsx");
+/// std::fs::write(&input, lossledger::demo::input_workbook()?)?;
+/// let sources = [InputSource::Path(input)];
+/// let audited = read_and_audit(&sources, &ReadOptions::default(), &Rules::default())?;
+/// assert!(audited.audit.lines.iter().any(|l| l.line == "KR-S1"));
+/// std::fs::remove_dir_all(&dir)?;
+/// # Ok::<(), Box<dyn std::error::Error>>(())
+/// ```
 pub fn read_and_audit(
     sources: &[InputSource],
     options: &ReadOptions,
@@ -49,13 +479,59 @@ pub fn read_and_audit(
     let input = ingest::read_inputs(sources, options)?;
     match audit(&input, rules) {
         Ok(audit) => Ok(Audited { input, audit }),
-        Err(errors) => Err(AuditError::Invalid {
-            invented: crate::report::invented::marker(&input),
-            file: input.file,
-            sha256: input.sha256,
-            errors,
-        }),
+        Err(errors) => Err(AuditError::invalid(&input, errors)),
     }
+}
+
+/// An input read and validated by [`check`].
+#[derive(Debug)]
+pub struct Checked {
+    /// The parsed input.
+    pub input: Input,
+    /// Every diagnostic: the reader's, then (when the reader found no error) those of applying
+    /// the physics with the default rules.
+    pub diagnostics: Vec<Diagnostic>,
+}
+
+impl Checked {
+    /// Diagnostics of this severity.
+    pub fn count(&self, severity: Severity) -> usize {
+        self.diagnostics
+            .iter()
+            .filter(|d| d.severity == severity)
+            .count()
+    }
+}
+
+/// Read and validate `sources` without writing anything, as `lossledger check` does.
+///
+/// # Errors
+/// The [`InputError`] when a file cannot be read at all; problems inside it are
+/// [`Checked::diagnostics`].
+///
+/// # Example
+/// ```
+/// use lossledger::error::Severity;
+/// use lossledger::ingest::{InputSource, ReadOptions};
+///
+/// let dir = std::env::temp_dir().join(format!("lossledger-doc-check-{}", std::process::id()));
+/// std::fs::create_dir_all(&dir)?;
+/// let input = dir.join("blank.xlsx");
+/// lossledger::template::write(&input, Default::default(), Default::default())?;
+/// let checked = lossledger::pipeline::check(&[InputSource::Path(input)], &ReadOptions::default())?;
+/// assert_eq!(checked.count(Severity::Error), 0);
+/// std::fs::remove_dir_all(&dir)?;
+/// # Ok::<(), Box<dyn std::error::Error>>(())
+/// ```
+pub fn check(sources: &[InputSource], options: &ReadOptions) -> Result<Checked, InputError> {
+    let input = ingest::read_inputs(sources, options)?;
+    let mut diagnostics = input.diagnostics.clone();
+    if input.error_count() == 0
+        && let Err(errors) = audit::run(&input, &Rules::default())
+    {
+        diagnostics.extend(errors);
+    }
+    Ok(Checked { input, diagnostics })
 }
 
 /// Audit a parsed input: [`audit::run`], then refuse any result that came out infinite or NaN.

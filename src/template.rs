@@ -121,6 +121,9 @@ fn example(table: TableKind, units: UnitSystem) -> Vec<(&'static str, Cell)> {
 }
 
 /// Build the template workbook in memory.
+///
+/// # Errors
+/// The workbook writer's error (an internal error: the template is fixed data).
 pub fn build(units: UnitSystem) -> Result<Vec<u8>, XlsxError> {
     let mut wb = Workbook::new();
     let created = ExcelDateTime::from_ymd(2000, 1, 1)?;
@@ -231,6 +234,9 @@ const LIST_EXAMPLES: [[&str; 6]; 4] = [
 
 /// Build the single-sheet template: Lines plus one `Item list` sheet holding runs and fittings
 /// together, with a Unit drop-down (`m`, `No` ...), four invented example rows, and the Read me.
+///
+/// # Errors
+/// As [`build`].
 pub fn build_list(units: UnitSystem) -> Result<Vec<u8>, XlsxError> {
     let mut wb = Workbook::new();
     let created = ExcelDateTime::from_ymd(2000, 1, 1)?;
@@ -486,51 +492,68 @@ fn write_readme(ws: &mut Worksheet, units: UnitSystem, header: &Format) -> Resul
     Ok(())
 }
 
-/// `lossledger template OUT.xlsx`: write the template; 0 on success, 2 when it cannot be written.
-pub fn run(out: &Path, units: UnitSystem) -> u8 {
-    run_layout(out, units, Layout::Canonical)
-}
-
 /// Which template `lossledger template` writes.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, clap::ValueEnum)]
 pub enum Layout {
     /// Lines, Pipes, Fittings and the optional tables, one sheet each.
+    #[default]
     Canonical,
     /// Lines plus one item list holding runs and fittings together.
     List,
 }
 
-/// [`run`] for a layout.
-pub fn run_layout(out: &Path, units: UnitSystem, layout: Layout) -> u8 {
+/// Why the template could not be written.
+#[derive(Debug, thiserror::Error)]
+pub enum TemplateError {
+    /// The target exists: the template never overwrites a file.
+    #[error(
+        "{}: already exists; choose another path (the template never overwrites a file)",
+        path.display()
+    )]
+    Exists {
+        /// The target.
+        path: std::path::PathBuf,
+    },
+    /// The workbook could not be built (an internal error).
+    #[error("building the template failed: {0}")]
+    Build(#[source] XlsxError),
+    /// The file could not be written.
+    #[error(transparent)]
+    Write(#[from] crate::error::OutputError),
+}
+
+/// `lossledger template OUT.xlsx`: write the template of `layout` with a units row in `units`
+/// to `out`, through a temporary file renamed into place.
+///
+/// # Errors
+/// [`TemplateError::Exists`] when `out` exists (nothing written), [`TemplateError::Build`] when
+/// the workbook cannot be built, [`TemplateError::Write`] when it cannot be written.
+///
+/// # Example
+/// ```
+/// use lossledger::template::{Layout, write};
+/// use lossledger::units::UnitSystem;
+///
+/// let dir = std::env::temp_dir().join(format!("lossledger-doc-template-{}", std::process::id()));
+/// std::fs::create_dir_all(&dir)?;
+/// let out = dir.join("input.xlsx");
+/// write(&out, UnitSystem::Si, Layout::List)?;
+/// // A second write refuses: the template never overwrites a file.
+/// assert!(write(&out, UnitSystem::Si, Layout::List).is_err());
+/// std::fs::remove_dir_all(&dir)?;
+/// # Ok::<(), Box<dyn std::error::Error>>(())
+/// ```
+pub fn write(out: &Path, units: UnitSystem, layout: Layout) -> Result<(), TemplateError> {
     if out.exists() {
-        eprintln!(
-            "error: {}: already exists; choose another path (the template never overwrites a file)",
-            out.display()
-        );
-        return 2;
+        return Err(TemplateError::Exists {
+            path: out.to_path_buf(),
+        });
     }
     let built = match layout {
         Layout::Canonical => build(units),
         Layout::List => build_list(units),
     };
-    let bytes = match built {
-        Ok(b) => b,
-        Err(e) => {
-            eprintln!("internal error: building the template failed: {e}");
-            return 3;
-        }
-    };
-    match crate::report::write_atomic(out, &bytes) {
-        Ok(()) => {
-            println!(
-                "Wrote {} (example rows are invented; see its Read me sheet)",
-                out.display()
-            );
-            0
-        }
-        Err(e) => {
-            eprintln!("error: {e}");
-            2
-        }
-    }
+    let bytes = built.map_err(TemplateError::Build)?;
+    crate::report::write_atomic(out, &bytes)?;
+    Ok(())
 }

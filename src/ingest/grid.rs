@@ -202,9 +202,9 @@ pub(crate) fn sparse_from_range<T: calamine::CellType + Clone>(
 /// [`InputError::Unreadable`] when the file cannot be read or is not a workbook,
 /// [`InputError::OverLimit`] past a limit.
 pub fn read_xlsx(path: &Path, file: &str) -> Result<Vec<SheetGrid>, InputError> {
-    let bytes = std::fs::read(path).map_err(|e| InputError::Unreadable {
+    let bytes = std::fs::read(path).map_err(|source| InputError::Io {
         file: file.to_string(),
-        reason: e.to_string(),
+        source,
     })?;
     read_xlsx_bytes(&bytes, file)
 }
@@ -258,9 +258,10 @@ pub fn read_xlsx_with(
 type Book<'a> = Xlsx<std::io::Cursor<&'a [u8]>>;
 
 fn open<'a>(bytes: &'a [u8], file: &str) -> Result<Book<'a>, InputError> {
-    Xlsx::new(std::io::Cursor::new(bytes)).map_err(|e| InputError::Unreadable {
+    Xlsx::new(std::io::Cursor::new(bytes)).map_err(|e| InputError::Workbook {
         file: file.to_string(),
         reason: describe_xlsx_error(&e),
+        source: e.into(),
     })
 }
 
@@ -299,15 +300,16 @@ fn stream_sheet<'w, 'd, T>(
         &mut calamine::XlsxCellReader<'w, std::io::Cursor<&'d [u8]>>,
     ) -> Result<Option<Option<(u32, u32, T)>>, calamine::XlsxError>,
 ) -> Result<Option<SparseCells<T>>, InputError> {
-    let unreadable = |e: &calamine::XlsxError| InputError::Unreadable {
+    let unreadable = |e: calamine::XlsxError| InputError::Workbook {
         file: count.file.to_string(),
-        reason: format!("sheet '{name}': {}", describe_xlsx_error(e)),
+        reason: format!("sheet '{name}': {}", describe_xlsx_error(&e)),
+        source: e.into(),
     };
     let mut reader = match wb.worksheet_cells_reader(name) {
         Ok(r) => r,
         Err(calamine::XlsxError::WorksheetNotFound(_)) => return Ok(None),
         Err(calamine::XlsxError::NotAWorksheet(_)) => return Ok(Some(SparseCells::default())),
-        Err(e) => return Err(unreadable(&e)),
+        Err(e) => return Err(unreadable(e)),
     };
     let mut cells = SparseBuilder::default();
     loop {
@@ -318,7 +320,7 @@ fn stream_sheet<'w, 'd, T>(
                 count.one(name)?;
                 cells.push(r, c, v);
             }
-            Err(e) => return Err(unreadable(&e)),
+            Err(e) => return Err(unreadable(e)),
         }
     }
     Ok(Some(cells.finish()))

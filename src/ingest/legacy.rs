@@ -53,12 +53,13 @@ pub fn read_bytes_with(
 }
 
 fn read_sheets(bytes: &[u8], file: &str, limits: &Limits) -> Result<Vec<SheetGrid>, InputError> {
-    let unreadable = |reason: String| InputError::Unreadable {
+    let unreadable = |reason: String, e: calamine::Error| InputError::Workbook {
         file: file.to_string(),
         reason,
+        source: e.into(),
     };
     let mut book = calamine::open_workbook_auto_from_rs(Cursor::new(bytes))
-        .map_err(|e| unreadable(format!("not a readable .xls or .ods workbook ({e})")))?;
+        .map_err(|e| unreadable(format!("not a readable .xls or .ods workbook ({e})"), e))?;
     let names: Vec<(String, bool)> = book
         .sheets_metadata()
         .iter()
@@ -69,7 +70,7 @@ fn read_sheets(bytes: &[u8], file: &str, limits: &Limits) -> Result<Vec<SheetGri
     for (name, hidden) in names {
         let values = match book.worksheet_range(&name) {
             Ok(r) => sparse_from_range(&r, |d| *d == Data::Empty),
-            Err(e) => return Err(unreadable(format!("sheet '{name}': {e}"))),
+            Err(e) => return Err(unreadable(format!("sheet '{name}': {e}"), e)),
         };
         let formulas = book
             .worksheet_formula(&name)

@@ -208,9 +208,9 @@ pub fn read_path_with(path: &Path, options: &ReadOptions) -> Result<Input, Input
 /// Files in a folder that can be inputs (`.xlsx`, `.xlsm`, `.csv`), sorted by name; spreadsheet
 /// lock files (`~$...`) and outputs of earlier audits (`*.audit.xlsx`) are left out.
 pub fn folder_inputs(dir: &Path) -> Result<Vec<PathBuf>, InputError> {
-    let entries = std::fs::read_dir(dir).map_err(|e| InputError::Unreadable {
+    let entries = std::fs::read_dir(dir).map_err(|source| InputError::Io {
         file: dir.display().to_string(),
-        reason: e.to_string(),
+        source,
     })?;
     let mut files: Vec<PathBuf> = entries
         .filter_map(Result::ok)
@@ -254,9 +254,9 @@ fn read_file(
     limits: &Limits,
 ) -> Result<(Source, Vec<SheetGrid>), InputError> {
     let file = path.display().to_string();
-    let bytes = std::fs::read(path).map_err(|e| InputError::Unreadable {
+    let bytes = std::fs::read(path).map_err(|source| InputError::Io {
         file: file.clone(),
-        reason: e.to_string(),
+        source,
     })?;
     let sha256 = hex(&Sha256::digest(&bytes));
     let sheets = match extension(path).as_str() {

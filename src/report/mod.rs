@@ -32,6 +32,9 @@ pub fn default_output(input: &Path) -> PathBuf {
 }
 
 /// Refuse an output path that is one of the inputs (compared after resolving links).
+///
+/// # Errors
+/// [`OutputError::WouldOverwriteInput`].
 pub fn check_not_input(out: &Path, inputs: &[PathBuf]) -> Result<(), OutputError> {
     let canon = |p: &Path| std::fs::canonicalize(p).ok();
     let out_c = canon(out);
@@ -47,6 +50,9 @@ pub fn check_not_input(out: &Path, inputs: &[PathBuf]) -> Result<(), OutputError
 
 /// Write bytes to `path` through a temporary file in the same folder, renamed into place, so a
 /// failure never leaves a partial file under the final name.
+///
+/// # Errors
+/// As [`stage`] and [`Staged::commit`].
 pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), OutputError> {
     stage(path, bytes)?.commit()
 }
@@ -63,6 +69,9 @@ pub struct Staged {
 
 impl Staged {
     /// Rename the temporary file onto the target path.
+    ///
+    /// # Errors
+    /// [`OutputError::Io`] when the rename fails (the temporary file is then removed).
     pub fn commit(mut self) -> Result<(), OutputError> {
         std::fs::rename(&self.tmp, &self.path).map_err(|source| OutputError::Io {
             path: self.path.display().to_string(),
@@ -84,6 +93,9 @@ impl Drop for Staged {
 
 /// Write `bytes` to a temporary file in `path`'s folder (flushed to disk) without touching `path`.
 /// A target that is a folder is refused before anything is written.
+///
+/// # Errors
+/// As [`stage_with`].
 pub fn stage(path: &Path, bytes: &[u8]) -> Result<Staged, OutputError> {
     use std::io::Write;
     stage_with(path, |f| f.write_all(bytes))
@@ -94,6 +106,10 @@ pub fn stage(path: &Path, bytes: &[u8]) -> Result<Staged, OutputError> {
 ///
 /// The temporary file is `.NAME.PID.tmp` beside the target; in a worker process its path is
 /// reported to the parent first (`crate::worker::staged`), which removes it if the worker dies.
+///
+/// # Errors
+/// [`OutputError::Io`] for a target that is a folder, a file that cannot be created, or a
+/// failed write or flush.
 pub fn stage_with(
     path: &Path,
     write: impl FnOnce(&mut std::io::BufWriter<std::fs::File>) -> std::io::Result<()>,

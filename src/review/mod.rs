@@ -8,7 +8,6 @@
 //! [`files::write`] writes it all, renamed into place only when everything is complete.
 //! docs/review.md describes the outputs and the choices behind them.
 
-pub mod command;
 pub mod files;
 pub mod run;
 pub mod spill;

@@ -7,17 +7,17 @@
 
 use std::path::{Path, PathBuf};
 
-use super::files::{self, CopiesDir};
-use super::run::{RunOptions, run};
-use super::stations::{Station, copies_dir, discover};
-use super::summary::StationRow;
-use super::{Asked, Review};
 use crate::audit::Rules;
 use crate::error::OutputError;
 use crate::ingest::{HeaderMap, ReadOptions};
 use crate::report::console::{fitted_text, show_after_a_second};
 use crate::report::text_table::{Align, TextTable, console_width};
 use crate::report::workbook::BookOptions;
+use crate::review::files::{self, CopiesDir};
+use crate::review::run::{RunOptions, run};
+use crate::review::stations::{Station, copies_dir, discover};
+use crate::review::summary::StationRow;
+use crate::review::{Asked, Review};
 use crate::units::UnitSystem;
 
 /// Everything `lossledger review` was asked.
@@ -141,7 +141,10 @@ fn is_error(d: &crate::error::Diagnostic) -> bool {
 }
 
 /// The review and the staged copies, apart.
-fn split(mut merged: super::run::Merged, asked: Asked) -> (Review, Vec<crate::report::Staged>) {
+fn split(
+    mut merged: crate::review::run::Merged,
+    asked: Asked,
+) -> (Review, Vec<crate::report::Staged>) {
     let staged = std::mem::take(&mut merged.staged);
     (Review::new(merged, asked), staged)
 }
