@@ -2,9 +2,9 @@
 //! takeoffs and bills of quantities and maintenance engineers' asset-register exports keep them.
 //!
 //! A list is recognised by its headers ([`detect::find_list`]); each row is split into a run or
-//! a fitting by its description ([`crate::ingest::describe`]) and its unit
+//! a fitting by its description ([`describe`](mod@crate::ingest::describe)) and its unit
 //! ([`crate::ingest::quantity`]); lines come from a Line column, section headings, tags or
-//! locations ([`lines`]). The rows read are the same [`PipeRow`](crate::ingest::PipeRow)s and
+//! locations ([`lines`](mod@lines)). The rows read are the same [`PipeRow`](crate::ingest::PipeRow)s and
 //! [`FittingRow`](crate::ingest::FittingRow)s the Pipes and Fittings tables give, and the list
 //! sheet gets a Pipes and a Fittings view layout so findings and the annotated copy point at
 //! its cells.

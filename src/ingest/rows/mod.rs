@@ -1,7 +1,7 @@
 //! Typed rows read from the located tables, one cell at a time, with every problem collected.
 //!
 //! One file per row type (`lines`, `pipes`, `fittings`, `systems`, `fluids`, `pump_curve`);
-//! [`cells`] reads the cells of a row. Mixed item lists are read by [`super::list`] into the
+//! `cells` reads the cells of a row. Mixed item lists are read by [`super::list`] into the
 //! same rows.
 
 mod cells;
