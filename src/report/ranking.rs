@@ -228,27 +228,7 @@ pub(crate) fn write_ranking(
     st: &Styles,
 ) -> Result<(), XlsxError> {
     let cur = &audit.energy.currency;
-    ws.write_string_with_format(
-        0,
-        0,
-        "Fitting ranking: what each fitting's loss costs per year",
-        &st.title,
-    )?;
-    ws.write_string(
-        1,
-        0,
-        format!(
-            "Ranked by annual cost at {cur} {} per kWh (head loss where no pump energy applies). Rank range: best and worst rank across the K bands; a rank that can move by more than {} places is marked uncertain.",
-            audit.energy.tariff_per_kwh,
-            crate::audit::energy::RANK_SHIFT_LIMIT
-        ),
-    )?;
-    ws.write_string_with_format(
-        2,
-        0,
-        format!("{SAVINGS_CAUTION} Suggestions marked * — {OPERATING_POINT_CAUTION}"),
-        &st.bold,
-    )?;
+    ranking_heading(ws, audit, st)?;
     let headers: Vec<String> = RANKING_COLUMNS
         .iter()
         .map(|c| c.header.replace("{cur}", cur))
@@ -278,27 +258,7 @@ pub(crate) fn write_ranking(
     }
     let fits = (SHEET_ROWS - hr - 2) as usize;
     let items = ranked(audit, Some(rows.unwrap_or(usize::MAX).min(fits)));
-    for (i, f) in items.iter().enumerate() {
-        let r = hr + 1 + i as u32;
-        for (c, col) in RANKING_COLUMNS.iter().enumerate() {
-            let c = c as u16;
-            match (col.get)(f) {
-                Cell::Num(v) => num(ws, r, c, v.map(|x| x * factor[c as usize]))?,
-                Cell::Plain(x) => ws.write_number(r, c, x).map(|_| ())?,
-                Cell::Text(t) => ws.write_string(r, c, t).map(|_| ())?,
-                Cell::Owned(t) => ws.write_string(r, c, t).map(|_| ())?,
-                Cell::Mark(t, good) => ws
-                    .write_string_with_format(r, c, t, if good { &st.good } else { &st.uncertain })
-                    .map(|_| ())?,
-                Cell::Link => {
-                    let target = format!("internal:{}!{}", quote_sheet(&f.cell.sheet), f.cell.a1());
-                    ws.write_url_with_text(r, c, Url::new(target), f.cell.to_string())
-                        .map(|_| ())?
-                }
-                Cell::Blank => {}
-            }
-        }
-    }
+    ranking_items(ws, &items, hr, &factor, st)?;
     let left = audit.fittings.len() - items.len();
     if left > 0 {
         let total: f64 = audit.fittings.iter().filter_map(|f| f.annual_cost).sum();
@@ -337,7 +297,78 @@ pub(crate) fn write_ranking(
     ws.set_repeat_rows(hr, hr)?;
     ws.set_page_breaks(&[hr])?;
 
-    // Chart: the worst items by the first basis present (cost when any item has a cost).
+    ranking_chart(ws, sheet, &items, hr, &headers)
+}
+
+/// The ranking sheet's title, its basis and the savings caution (rows 1–3).
+fn ranking_heading(ws: &mut Worksheet, audit: &Audit, st: &Styles) -> Result<(), XlsxError> {
+    let cur = &audit.energy.currency;
+    ws.write_string_with_format(
+        0,
+        0,
+        "Fitting ranking: what each fitting's loss costs per year",
+        &st.title,
+    )?;
+    ws.write_string(
+        1,
+        0,
+        format!(
+            "Ranked by annual cost at {cur} {} per kWh (head loss where no pump energy applies). Rank range: best and worst rank across the K bands; a rank that can move by more than {} places is marked uncertain.",
+            audit.energy.tariff_per_kwh,
+            crate::audit::energy::RANK_SHIFT_LIMIT
+        ),
+    )?;
+    ws.write_string_with_format(
+        2,
+        0,
+        format!("{SAVINGS_CAUTION} Suggestions marked * — {OPERATING_POINT_CAUTION}"),
+        &st.bold,
+    )?;
+    Ok(())
+}
+
+/// One row per listed item below the header row `hr`, by [`RANKING_COLUMNS`]; head columns
+/// scaled by `factor` into the report's units.
+fn ranking_items(
+    ws: &mut Worksheet,
+    items: &[&FittingResult],
+    hr: u32,
+    factor: &[f64],
+    st: &Styles,
+) -> Result<(), XlsxError> {
+    for (i, f) in items.iter().enumerate() {
+        let r = hr + 1 + i as u32;
+        for (c, col) in RANKING_COLUMNS.iter().enumerate() {
+            let c = c as u16;
+            match (col.get)(f) {
+                Cell::Num(v) => num(ws, r, c, v.map(|x| x * factor[c as usize]))?,
+                Cell::Plain(x) => ws.write_number(r, c, x).map(|_| ())?,
+                Cell::Text(t) => ws.write_string(r, c, t).map(|_| ())?,
+                Cell::Owned(t) => ws.write_string(r, c, t).map(|_| ())?,
+                Cell::Mark(t, good) => ws
+                    .write_string_with_format(r, c, t, if good { &st.good } else { &st.uncertain })
+                    .map(|_| ())?,
+                Cell::Link => {
+                    let target = format!("internal:{}!{}", quote_sheet(&f.cell.sheet), f.cell.a1());
+                    ws.write_url_with_text(r, c, Url::new(target), f.cell.to_string())
+                        .map(|_| ())?
+                }
+                Cell::Blank => {}
+            }
+        }
+    }
+    Ok(())
+}
+
+/// The chart of the worst items above the table: by the first basis present (cost when any
+/// item has a cost).
+fn ranking_chart(
+    ws: &mut Worksheet,
+    sheet: &str,
+    items: &[&FittingResult],
+    hr: u32,
+    headers: &[String],
+) -> Result<(), XlsxError> {
     let by_cost = items
         .iter()
         .any(|f| f.ranking.is_some_and(|k| k.basis == RankBasis::AnnualCost));

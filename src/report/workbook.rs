@@ -59,45 +59,38 @@ impl Default for BookOptions {
 }
 
 /// Build the annotated workbook in memory with the default options and return its bytes.
+///
+/// # Errors
+/// As [`prepare`].
 pub fn build(input: &Input, audit: &Audit) -> Result<Vec<u8>, XlsxError> {
     build_in(input, audit, &BookOptions::default())
 }
 
 /// Build the annotated workbook as `options` say and return its bytes.
+///
+/// # Errors
+/// As [`prepare`], or the writer's error assembling the file.
 pub fn build_in(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Vec<u8>, XlsxError> {
     prepare(input, audit, options)?.save_to_buffer()
 }
 
 /// Write every sheet of the annotated workbook; what is left is to save it (the input copies
 /// wait in temporary files until then).
+///
+/// # Errors
+/// The workbook writer's error, or a sheet with no free columns for its computed columns.
 pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Workbook, XlsxError> {
     let units = options.units;
-    let mut wb = Workbook::new();
-    // Fixed creation time: the same input gives a byte-identical workbook.
-    let created = ExcelDateTime::from_ymd(2000, 1, 1)?;
-    wb.set_properties(
-        &DocProperties::new()
-            .set_creation_datetime(&created)
-            .set_title("lossledger audit")
-            .set_comment("Screening estimate; see the Basis sheet"),
-    );
-    // Fastest deflate: saving is single-threaded and the copy holds several times the input's
-    // cells. On the 20,000-line benchmark station level 1 saves about 0.5 s faster than level 2
-    // for a file about 35 % larger, and level 2 about 40 % faster than the default level
-    // (measured, scripts/bench.sh; docs/reliability.md).
-    wb.set_zip_compression_level(ZIP_LEVEL);
+    let mut wb = new_book()?;
     let mut st = Styles::new();
     st.units = units;
-    let taken: HashSet<String> = input.sheets.iter().map(|s| s.name.to_lowercase()).collect();
-    let summary_name = unique_name("Summary", &taken);
-    let findings_name = unique_name("Findings", &taken);
-    let basis_name = unique_name("Basis", &taken);
-    let ranking_name = unique_name("Fitting ranking", &taken);
-    let systems_name = if taken.contains("systems") {
-        unique_name("System checks", &taken)
-    } else {
-        "Systems".to_string()
-    };
+    let [
+        summary_name,
+        findings_name,
+        basis_name,
+        ranking_name,
+        systems_name,
+    ] = report_names(input);
 
     // Every sheet is built detached and pushed in order at the end, so the largest input copy
     // can be written on a second thread while this one writes the rest.
@@ -131,27 +124,7 @@ pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Wo
         if sheet.hidden {
             ws.set_hidden(true);
         }
-        // Several tables on one sheet (a mixed list's runs and fittings) get their computed
-        // columns side by side, one gap column apart.
-        let mut next_col = 0;
-        let mut blocks = Vec::new();
-        for l in input.layouts.iter().filter(|l| l.sheet_index == i) {
-            let Some(width) = computed_width(l.table) else {
-                continue;
-            };
-            let from = next_col.max(last_table_col(l) + 2);
-            let first = free_columns(sheet, l, from, width).ok_or_else(|| {
-                XlsxError::ParameterError(format!(
-                    "sheet '{}' has no {width} free columns right of its {} table for the computed columns",
-                    sheet.name,
-                    l.table.sheet_name()
-                ))
-            })?;
-            if let Some(b) = computed_block(input, audit, l, st.units, first) {
-                next_col = first + width + 1;
-                blocks.push(b);
-            }
-        }
+        let blocks = computed_blocks(input, audit, i, st.units)?;
         copies.push((ws, sheet, blocks));
     }
     let mut ranking_ws = named(wb.new_worksheet_with_constant_memory()?, &ranking_name)?;
@@ -222,6 +195,74 @@ pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Wo
         wb.push_worksheet(ws);
     }
     Ok(wb)
+}
+
+/// An empty workbook with fixed properties and the fastest deflate.
+fn new_book() -> Result<Workbook, XlsxError> {
+    let mut wb = Workbook::new();
+    // Fixed creation time: the same input gives a byte-identical workbook.
+    let created = ExcelDateTime::from_ymd(2000, 1, 1)?;
+    wb.set_properties(
+        &DocProperties::new()
+            .set_creation_datetime(&created)
+            .set_title("lossledger audit")
+            .set_comment("Screening estimate; see the Basis sheet"),
+    );
+    // Fastest deflate: saving is single-threaded and the copy holds several times the input's
+    // cells. On the 20,000-line benchmark station level 1 saves about 0.5 s faster than level 2
+    // for a file about 35 % larger, and level 2 about 40 % faster than the default level
+    // (measured, scripts/bench.sh; docs/reliability.md).
+    wb.set_zip_compression_level(ZIP_LEVEL);
+    Ok(wb)
+}
+
+/// Names of the report sheets, clear of the input's sheet names: Summary, Findings, Basis,
+/// Fitting ranking, Systems.
+fn report_names(input: &Input) -> [String; 5] {
+    let taken: HashSet<String> = input.sheets.iter().map(|s| s.name.to_lowercase()).collect();
+    let systems = if taken.contains("systems") {
+        unique_name("System checks", &taken)
+    } else {
+        "Systems".to_string()
+    };
+    [
+        unique_name("Summary", &taken),
+        unique_name("Findings", &taken),
+        unique_name("Basis", &taken),
+        unique_name("Fitting ranking", &taken),
+        systems,
+    ]
+}
+
+/// The computed-column blocks of input sheet `i`. Several tables on one sheet (a mixed list's
+/// runs and fittings) get their computed columns side by side, one gap column apart.
+fn computed_blocks<'a>(
+    input: &'a Input,
+    audit: &'a Audit,
+    i: usize,
+    units: UnitSystem,
+) -> Result<Vec<Box<dyn Block + Send + 'a>>, XlsxError> {
+    let sheet = &input.sheets[i];
+    let mut next_col = 0;
+    let mut blocks = Vec::new();
+    for l in input.layouts.iter().filter(|l| l.sheet_index == i) {
+        let Some(width) = computed_width(l.table) else {
+            continue;
+        };
+        let from = next_col.max(last_table_col(l) + 2);
+        let first = free_columns(sheet, l, from, width).ok_or_else(|| {
+            XlsxError::ParameterError(format!(
+                "sheet '{}' has no {width} free columns right of its {} table for the computed columns",
+                sheet.name,
+                l.table.sheet_name()
+            ))
+        })?;
+        if let Some(b) = computed_block(input, audit, l, units, first) {
+            next_col = first + width + 1;
+            blocks.push(b);
+        }
+    }
+    Ok(blocks)
 }
 
 fn collect_marks(input: &Input, audit: &Audit) -> BTreeMap<String, BTreeMap<(u32, u32), Mark>> {
@@ -358,44 +399,11 @@ fn copy_sheet(
         }
         row_cells(sheet, row, &mut cells);
         for &(col, d, formula) in &cells {
-            let c16 = col as u16;
             let fmt = row_marks
                 .iter()
                 .find(|(c, _)| *c == col)
                 .map(|(_, m)| mark_format(m));
-            if let Some(formula) = formula {
-                let formula = Formula::new(formula).set_result(data_result(d));
-                match fmt {
-                    Some(f) => ws.write_formula_with_format(row, c16, formula, f)?,
-                    None => ws.write_formula(row, c16, formula)?,
-                };
-                continue;
-            }
-            // Unmarked cells are written without a format: no per-cell format lookup.
-            match (d, fmt) {
-                (Data::Empty, None) => continue,
-                (Data::Empty, Some(f)) => ws.write_blank(row, c16, f)?,
-                (Data::Int(i), None) => ws.write_number(row, c16, *i as f64)?,
-                (Data::Float(x), None) => ws.write_number(row, c16, *x)?,
-                (Data::String(s), None) => ws.write_string(row, c16, s)?,
-                (Data::Bool(b), None) => ws.write_boolean(row, c16, *b)?,
-                (Data::Int(i), Some(f)) => ws.write_number_with_format(row, c16, *i as f64, f)?,
-                (Data::Float(x), Some(f)) => ws.write_number_with_format(row, c16, *x, f)?,
-                (Data::String(s), Some(f)) => ws.write_string_with_format(row, c16, s, f)?,
-                (Data::Bool(b), Some(f)) => ws.write_boolean_with_format(row, c16, *b, f)?,
-                (Data::DateTime(dt), f) => {
-                    ws.write_number_with_format(row, c16, dt.as_f64(), f.unwrap_or(&st.date))?
-                }
-                (Data::DateTimeIso(s) | Data::DurationIso(s), f) => {
-                    ws.write_string_with_format(row, c16, s, f.unwrap_or(&plain))?
-                }
-                (Data::Error(e), f) => ws.write_formula_with_format(
-                    row,
-                    c16,
-                    Formula::new(error_formula(e)).set_result(e.to_string()),
-                    f.unwrap_or(&plain),
-                )?,
-            };
+            copy_cell(ws, (row, col as u16), d, formula, fmt, (st, &plain))?;
         }
         for (col, h) in headers.get(&row).into_iter().flatten() {
             ws.write_string_with_format(row, *col, h, &st.header)?;
@@ -420,6 +428,51 @@ fn copy_sheet(
             }
         }
     }
+    Ok(())
+}
+
+/// Copy one input cell: a formula with its cached result, else the value by type; `fmt` is the
+/// cell's mark (unmarked cells are written without a format: no per-cell format lookup).
+fn copy_cell(
+    ws: &mut Worksheet,
+    (row, c16): (u32, u16),
+    d: &Data,
+    formula: Option<&str>,
+    fmt: Option<&Format>,
+    (st, plain): (&Styles, &Format),
+) -> Result<(), XlsxError> {
+    if let Some(formula) = formula {
+        let formula = Formula::new(formula).set_result(data_result(d));
+        match fmt {
+            Some(f) => ws.write_formula_with_format(row, c16, formula, f)?,
+            None => ws.write_formula(row, c16, formula)?,
+        };
+        return Ok(());
+    }
+    match (d, fmt) {
+        (Data::Empty, None) => return Ok(()),
+        (Data::Empty, Some(f)) => ws.write_blank(row, c16, f)?,
+        (Data::Int(i), None) => ws.write_number(row, c16, *i as f64)?,
+        (Data::Float(x), None) => ws.write_number(row, c16, *x)?,
+        (Data::String(s), None) => ws.write_string(row, c16, s)?,
+        (Data::Bool(b), None) => ws.write_boolean(row, c16, *b)?,
+        (Data::Int(i), Some(f)) => ws.write_number_with_format(row, c16, *i as f64, f)?,
+        (Data::Float(x), Some(f)) => ws.write_number_with_format(row, c16, *x, f)?,
+        (Data::String(s), Some(f)) => ws.write_string_with_format(row, c16, s, f)?,
+        (Data::Bool(b), Some(f)) => ws.write_boolean_with_format(row, c16, *b, f)?,
+        (Data::DateTime(dt), f) => {
+            ws.write_number_with_format(row, c16, dt.as_f64(), f.unwrap_or(&st.date))?
+        }
+        (Data::DateTimeIso(s) | Data::DurationIso(s), f) => {
+            ws.write_string_with_format(row, c16, s, f.unwrap_or(plain))?
+        }
+        (Data::Error(e), f) => ws.write_formula_with_format(
+            row,
+            c16,
+            Formula::new(error_formula(e)).set_result(e.to_string()),
+            f.unwrap_or(plain),
+        )?,
+    };
     Ok(())
 }
 
@@ -951,70 +1004,185 @@ fn curve_efficiency_lines(audit: &Audit) -> Vec<(String, String)> {
         .collect()
 }
 
+/// The cautions the Basis sheet opens with, as label and text.
+const BASIS_CAUTIONS: [(&str, &str); 5] = [
+    ("Caution", super::CAUTION),
+    ("Caution on savings", crate::audit::energy::SAVINGS_CAUTION),
+    (
+        "Caution on suggestions (marked *)",
+        crate::audit::energy::OPERATING_POINT_CAUTION,
+    ),
+    ("Caution on systems", super::ranking::SYSTEMS_CAUTION),
+    (
+        "Caution on energy figures",
+        crate::audit::station::STATION_CAUTION,
+    ),
+];
+
+/// The methods the Basis sheet states, as label and text.
+const BASIS_METHODS: [(&str, &str); 13] = [
+    (
+        "Friction",
+        "Darcy–Weisbach h = f (L/D) v²/2g; f = 64/Re for Re ≤ 2000; Colebrook–White (1939) solved to 1e-12 relative for Re ≥ 4000; linear interpolation in Re between, flagged transition-regime.",
+    ),
+    (
+        "Hazen–Williams",
+        "Where a C factor is given (water only): h = 10.67 L Q^1.852 / (C^1.852 D^4.8704), SI form.",
+    ),
+    (
+        "Fittings",
+        "h = K v²/2g per item times quantity; v is the mean velocity in the bore K refers to (the smaller bore for area changes).",
+    ),
+    (
+        "Pipe bores",
+        "ASME B36.10M (carbon and galvanised steel; default schedule 40, STD where 40 is not defined), ASME B36.19M (stainless; default 40S), ISO 4427-2 / ISO 1452-2 (PE, PVC-U by OD and SDR; no default SDR), EN 545 class K9 with ISO 4179 cement lining (ductile iron), EN 1057 and ASTM B88 (copper). 'Inner diameter' overrides; the bore used is in each run's 'Bore from' column.",
+    ),
+    ("Gravity", "g = 9.80665 m/s²"),
+    (
+        "Energy",
+        "P = Δp·Q (hydraulic power lost); electrical P/η with η the wire-to-water efficiency (Lines, else Systems, else rules); kWh per year = P/η × hours / 1000; cost = kWh × tariff. Gravity lines cost no pump energy: their loss is lost capacity, ranked by head. See docs/energy.md.",
+    ),
+    (
+        "Ranking",
+        "Fittings by annual cost (head where no pump energy applies); ties share a rank; rank range = best and worst rank with this item and the others at opposite ends of their K bands; more than 3 places either way is marked uncertain (common practice, no source).",
+    ),
+    (
+        "Systems",
+        "Required head = static head + sum of line losses, each line at its own flow; system curve 0–130 % of duty with friction factors and Re-dependent K recomputed at each flow; operating point where a given pump curve meets it.",
+    ),
+    (
+        "Station energy",
+        "Metered: specific energy e = kWh / m3; wire-to-water = (ρ g / 3.6e6) × H / e with H the computed required head at duty (ISO/ASME 14414, ASME EA-2). Test point: head given or (p_discharge − p_suction)/(ρ g); wire-to-water = ρ g Q H / P. Piping share = line losses / required head. Rules [station]: min_wire_to_water, max_loss_share, head_tolerance, motor_efficiency (common practice); preferred region preferred_min–preferred_max of best-efficiency flow (ANSI/HI 9.6.3). Screening estimates.",
+    ),
+    (
+        "Pump curve efficiency",
+        "Best-efficiency point: vertex of the parabola through the highest efficiency point and its neighbours (Efficiency, else ρ g Q H / shaft power). The pump efficiency at the operating point (else at duty) × [station] motor_efficiency replaces the rules' flat efficiency for the system's lines where Lines and Systems give none.",
+    ),
+    (
+        "Savings by control",
+        "Control (Systems; default fixed, assumed and marked): speed — saved at once, new speed by the affinity laws r² H(Q/r) against the system curve with its static head; fixed — the operating point re-solved with the loss removed (loss ∝ Q²), saving conditional on trimming or speed control; throttled — the throttling valve's loss is saved once speed control or trimming replaces it. Each saving at the line's flow with its efficiency held.",
+    ),
+    (
+        "Life-cycle view",
+        "Present value of each saving = S × (1 − (1 + i)^−n) / i over [life_cycle] years n at discount_rate i (HI/Europump pump life-cycle cost guide); net present value = present value − replacement cost.",
+    ),
+    (
+        "NPSH",
+        "NPSHa = (p_source − p_vapour)/(ρg) + suction level − suction losses; p_source defaults to the ISO 2533 standard atmosphere at the site elevation (Systems sheet, else the rules, else 0 m, sea level, assumed); checked at duty flow and, where a pump curve gives one, at the operating point (NPSH required from the Pump curve where given, else the duty value), with the suction losses at the high end of their K bands (nominal shown beside); margin rule max(ratio × NPSHr, NPSHr + minimum) (common practice, no source).",
+    ),
+];
+
+/// One row of the Basis sheet: label (bold for a heading) and text.
+struct BasisRow {
+    label: String,
+    text: String,
+    bold: bool,
+}
+
+/// The rows of the Basis sheet, in order.
+#[derive(Default)]
+struct BasisRows(Vec<BasisRow>);
+
+impl BasisRows {
+    fn row(&mut self, label: impl Into<String>, text: impl Into<String>) {
+        self.0.push(BasisRow {
+            label: label.into(),
+            text: text.into(),
+            bold: false,
+        });
+    }
+
+    fn heading(&mut self, label: &str) {
+        self.0.push(BasisRow {
+            label: label.into(),
+            text: String::new(),
+            bold: true,
+        });
+    }
+
+    fn blank(&mut self) {
+        self.row("", "");
+    }
+}
+
 fn write_basis(
     ws: &mut Worksheet,
     input: &Input,
     audit: &Audit,
     st: &Styles,
 ) -> Result<(), XlsxError> {
-    let mut r = 0u32;
-    let mut line = |ws: &mut Worksheet, a: &str, b: &str, bold: bool| -> Result<(), XlsxError> {
-        let a = truncate(a, MAX_CELL_CHARS);
-        if bold {
+    let mut rows = BasisRows::default();
+    basis_header(&mut rows, input, audit);
+    rows.blank();
+    rows.heading("Methods");
+    for (a, b) in BASIS_METHODS {
+        rows.row(a, b);
+    }
+    for (a, b) in curve_efficiency_lines(audit) {
+        rows.row(a, b);
+    }
+    rows.blank();
+    basis_kinds_and_rules(&mut rows, audit);
+    rows.blank();
+    rows.heading("Parse report");
+    if st.units == UnitSystem::Us {
+        rows.row(
+            "Units shown",
+            "computed columns and Summary in US customary units (ft, in, US gpm, psi, ft/s, ft of head); JSON output stays SI",
+        );
+    }
+    for src in &input.sources {
+        rows.row(
+            "file read",
+            format!(
+                "{} (SHA-256 {}): sheets {}",
+                src.file,
+                src.sha256,
+                src.sheets.join(", ")
+            ),
+        );
+    }
+    basis_layouts(&mut rows, input);
+    basis_assumed(&mut rows, input, audit);
+    basis_reading(&mut rows, input);
+    for d in &audit.notes {
+        rows.row(d.severity.label(), d.to_string());
+    }
+    for (r, row) in rows.0.iter().enumerate() {
+        let r = r as u32;
+        let a = truncate(&row.label, MAX_CELL_CHARS);
+        if row.bold {
             ws.write_string_with_format(r, 0, a, &st.bold)?;
         } else {
             ws.write_string(r, 0, a)?;
         }
-        if !b.is_empty() {
-            ws.write_string(r, 1, truncate(b, MAX_CELL_CHARS))?;
+        if !row.text.is_empty() {
+            ws.write_string(r, 1, truncate(&row.text, MAX_CELL_CHARS))?;
         }
-        r += 1;
-        Ok(())
-    };
-    line(ws, "Basis of this audit", "", true)?;
-    line(
-        ws,
-        "Tool",
-        &format!("lossledger {}", env!("CARGO_PKG_VERSION")),
-        false,
-    )?;
-    line(ws, "Input file", &input.file, false)?;
-    line(ws, "Input SHA-256", &input.sha256, false)?;
-    if let Some(cell) = super::invented::marker(input) {
-        line(ws, "Invented data", &super::invented::label(&cell), false)?;
     }
-    line(ws, "Caution", super::CAUTION, false)?;
-    line(
-        ws,
-        "Caution on savings",
-        crate::audit::energy::SAVINGS_CAUTION,
-        false,
-    )?;
-    line(
-        ws,
-        "Caution on suggestions (marked *)",
-        crate::audit::energy::OPERATING_POINT_CAUTION,
-        false,
-    )?;
-    line(
-        ws,
-        "Caution on systems",
-        super::ranking::SYSTEMS_CAUTION,
-        false,
-    )?;
-    line(
-        ws,
-        "Caution on energy figures",
-        crate::audit::station::STATION_CAUTION,
-        false,
-    )?;
-    line(ws, "", "", false)?;
-    line(ws, "Fluid properties used", "", true)?;
+    ws.set_column_width(0, 34)?;
+    ws.set_column_width(1, 120)?;
+    Ok(())
+}
+
+/// Tool, input, invented-data mark, cautions and the fluid properties used.
+fn basis_header(rows: &mut BasisRows, input: &Input, audit: &Audit) {
+    rows.heading("Basis of this audit");
+    rows.row("Tool", format!("lossledger {}", env!("CARGO_PKG_VERSION")));
+    rows.row("Input file", input.file.as_str());
+    rows.row("Input SHA-256", input.sha256.as_str());
+    if let Some(cell) = super::invented::marker(input) {
+        rows.row("Invented data", super::invented::label(&cell));
+    }
+    for (a, b) in BASIS_CAUTIONS {
+        rows.row(a, b);
+    }
+    rows.blank();
+    rows.heading("Fluid properties used");
     for f in &audit.fluids {
-        line(
-            ws,
-            &format!("{} at {:.2} °C", f.fluid, f.temperature_c),
-            &format!(
+        rows.row(
+            format!("{} at {:.2} °C", f.fluid, f.temperature_c),
+            format!(
                 "density {:.3} kg/m3, viscosity {:.4e} Pa·s, vapour pressure {} — {}",
                 f.props.density_kg_m3,
                 f.props.viscosity_pa_s,
@@ -1025,117 +1193,35 @@ fn write_basis(
                 },
                 f.basis
             ),
-            false,
-        )?;
+        );
     }
-    line(ws, "", "", false)?;
-    line(ws, "Methods", "", true)?;
-    for (a, b) in [
-        (
-            "Friction",
-            "Darcy–Weisbach h = f (L/D) v²/2g; f = 64/Re for Re ≤ 2000; Colebrook–White (1939) solved to 1e-12 relative for Re ≥ 4000; linear interpolation in Re between, flagged transition-regime.",
-        ),
-        (
-            "Hazen–Williams",
-            "Where a C factor is given (water only): h = 10.67 L Q^1.852 / (C^1.852 D^4.8704), SI form.",
-        ),
-        (
-            "Fittings",
-            "h = K v²/2g per item times quantity; v is the mean velocity in the bore K refers to (the smaller bore for area changes).",
-        ),
-        (
-            "Pipe bores",
-            "ASME B36.10M (carbon and galvanised steel; default schedule 40, STD where 40 is not defined), ASME B36.19M (stainless; default 40S), ISO 4427-2 / ISO 1452-2 (PE, PVC-U by OD and SDR; no default SDR), EN 545 class K9 with ISO 4179 cement lining (ductile iron), EN 1057 and ASTM B88 (copper). 'Inner diameter' overrides; the bore used is in each run's 'Bore from' column.",
-        ),
-        ("Gravity", "g = 9.80665 m/s²"),
-        (
-            "Energy",
-            "P = Δp·Q (hydraulic power lost); electrical P/η with η the wire-to-water efficiency (Lines, else Systems, else rules); kWh per year = P/η × hours / 1000; cost = kWh × tariff. Gravity lines cost no pump energy: their loss is lost capacity, ranked by head. See docs/energy.md.",
-        ),
-        (
-            "Ranking",
-            "Fittings by annual cost (head where no pump energy applies); ties share a rank; rank range = best and worst rank with this item and the others at opposite ends of their K bands; more than 3 places either way is marked uncertain (common practice, no source).",
-        ),
-        (
-            "Systems",
-            "Required head = static head + sum of line losses, each line at its own flow; system curve 0–130 % of duty with friction factors and Re-dependent K recomputed at each flow; operating point where a given pump curve meets it.",
-        ),
-        (
-            "Station energy",
-            "Metered: specific energy e = kWh / m3; wire-to-water = (ρ g / 3.6e6) × H / e with H the computed required head at duty (ISO/ASME 14414, ASME EA-2). Test point: head given or (p_discharge − p_suction)/(ρ g); wire-to-water = ρ g Q H / P. Piping share = line losses / required head. Rules [station]: min_wire_to_water, max_loss_share, head_tolerance, motor_efficiency (common practice); preferred region preferred_min–preferred_max of best-efficiency flow (ANSI/HI 9.6.3). Screening estimates.",
-        ),
-        (
-            "Pump curve efficiency",
-            "Best-efficiency point: vertex of the parabola through the highest efficiency point and its neighbours (Efficiency, else ρ g Q H / shaft power). The pump efficiency at the operating point (else at duty) × [station] motor_efficiency replaces the rules' flat efficiency for the system's lines where Lines and Systems give none.",
-        ),
-        (
-            "Savings by control",
-            "Control (Systems; default fixed, assumed and marked): speed — saved at once, new speed by the affinity laws r² H(Q/r) against the system curve with its static head; fixed — the operating point re-solved with the loss removed (loss ∝ Q²), saving conditional on trimming or speed control; throttled — the throttling valve's loss is saved once speed control or trimming replaces it. Each saving at the line's flow with its efficiency held.",
-        ),
-        (
-            "Life-cycle view",
-            "Present value of each saving = S × (1 − (1 + i)^−n) / i over [life_cycle] years n at discount_rate i (HI/Europump pump life-cycle cost guide); net present value = present value − replacement cost.",
-        ),
-        (
-            "NPSH",
-            "NPSHa = (p_source − p_vapour)/(ρg) + suction level − suction losses; p_source defaults to the ISO 2533 standard atmosphere at the site elevation (Systems sheet, else the rules, else 0 m, sea level, assumed); checked at duty flow and, where a pump curve gives one, at the operating point (NPSH required from the Pump curve where given, else the duty value), with the suction losses at the high end of their K bands (nominal shown beside); margin rule max(ratio × NPSHr, NPSHr + minimum) (common practice, no source).",
-        ),
-    ] {
-        line(ws, a, b, false)?;
-    }
-    for (a, b) in curve_efficiency_lines(audit) {
-        line(ws, &a, &b, false)?;
-    }
-    line(ws, "", "", false)?;
-    // Each kind, model and source in use once (the Fittings copy names kind and model per row).
-    line(ws, "Fitting kinds, models and sources used", "", true)?;
+}
+
+/// Each fitting kind, model and source in use once (the Fittings copy names kind and model per
+/// row), then the rules in force.
+fn basis_kinds_and_rules(rows: &mut BasisRows, audit: &Audit) {
+    rows.heading("Fitting kinds, models and sources used");
     let mut used: BTreeMap<(&str, &str, &str), usize> = BTreeMap::new();
     for f in &audit.fittings {
         *used.entry((f.kind, f.model, f.source)).or_default() += 1;
     }
     for ((kind, model, source), n) in used {
         let items = if n == 1 { "item" } else { "items" };
-        line(
-            ws,
-            kind,
-            &format!("{model} — {source} ({n} {items})"),
-            false,
-        )?;
+        rows.row(kind, format!("{model} — {source} ({n} {items})"));
     }
-    line(ws, "", "", false)?;
-    line(
-        ws,
+    rows.blank();
+    rows.heading(
         "Rules in force (common practice for water unless your rules file says otherwise)",
-        "",
-        true,
-    )?;
+    );
     let rules = toml::to_string(&audit.rules).unwrap_or_default();
     for l in rules.lines().filter(|l| !l.trim().is_empty()) {
-        line(ws, "", l, false)?;
+        rows.row("", l);
     }
-    line(ws, "", "", false)?;
-    line(ws, "Parse report", "", true)?;
-    if st.units == UnitSystem::Us {
-        line(
-            ws,
-            "Units shown",
-            "computed columns and Summary in US customary units (ft, in, US gpm, psi, ft/s, ft of head); JSON output stays SI",
-            false,
-        )?;
-    }
-    for src in &input.sources {
-        line(
-            ws,
-            "file read",
-            &format!(
-                "{} (SHA-256 {}): sheets {}",
-                src.file,
-                src.sha256,
-                src.sheets.join(", ")
-            ),
-            false,
-        )?;
-    }
+}
+
+/// Each table read: header rows, units row, title rows skipped, the header mapping, and the
+/// columns kept as they are.
+fn basis_layouts(rows: &mut BasisRows, input: &Input) {
     for l in input
         .layouts
         .iter()
@@ -1158,7 +1244,7 @@ fn write_basis(
                 )
             })
             .collect();
-        let rows = if l.header_rows > 1 {
+        let header = if l.header_rows > 1 {
             format!(
                 "header rows {}–{}",
                 l.header_row + 1,
@@ -1179,112 +1265,75 @@ fn write_basis(
         } else {
             String::new()
         };
-        line(
-            ws,
-            &format!("{} (sheet '{}')", l.table.sheet_name(), l.sheet),
-            &format!("{rows}{units_row}{above}; {}", mapping.join(", ")),
-            false,
-        )?;
+        rows.row(
+            format!("{} (sheet '{}')", l.table.sheet_name(), l.sheet),
+            format!("{header}{units_row}{above}; {}", mapping.join(", ")),
+        );
         if !l.unknown.is_empty() {
             let kept: Vec<&str> = l.unknown.iter().map(|(_, h)| h.as_str()).collect();
-            line(ws, "", &format!("kept as is: {}", kept.join(", ")), false)?;
+            rows.row("", format!("kept as is: {}", kept.join(", ")));
         }
     }
+}
+
+/// Values assumed, by sheet, by system (with the NPSH defaults) and by line.
+fn basis_assumed(rows: &mut BasisRows, input: &Input, audit: &Audit) {
     for ((sheet, what), n) in input.assumed_by_sheet() {
-        line(
-            ws,
-            &format!("assumed on {sheet}"),
-            &format!("{what}: {n} row(s)"),
-            false,
-        )?;
+        rows.row(format!("assumed on {sheet}"), format!("{what}: {n} row(s)"));
     }
     for s in &audit.systems {
         for a in &s.assumed {
-            line(
-                ws,
-                &format!("assumed on {}", a.cell.sheet),
-                &format!("system {} ({}): {}", s.system, a.cell, a.what),
-                false,
-            )?;
+            rows.row(
+                format!("assumed on {}", a.cell.sheet),
+                format!("system {} ({}): {}", s.system, a.cell, a.what),
+            );
         }
         if !s.defaults.is_empty() {
-            line(
-                ws,
-                &format!("defaults applied to NPSH, system {}", s.system),
-                &s.defaults.join("; "),
-                false,
-            )?;
+            rows.row(
+                format!("defaults applied to NPSH, system {}", s.system),
+                s.defaults.join("; "),
+            );
         }
     }
     for (l, keys) in input.assumed_by_line() {
         let parts: Vec<String> = keys.iter().map(|(k, n)| format!("{k} ×{n}")).collect();
-        line(
-            ws,
-            &format!("assumed on line {l}"),
-            &parts.join(", "),
-            false,
-        )?;
+        rows.row(format!("assumed on line {l}"), parts.join(", "));
     }
+}
+
+/// What reading did to the cells: text read as numbers, rows skipped or left out, list rows
+/// classified, blank rows.
+fn basis_reading(rows: &mut BasisRows, input: &Input) {
     let conv = &input.report.conversions;
     if !conv.is_empty() {
-        line(
-            ws,
-            "text read as numbers",
-            &format!("{} cell(s)", conv.len()),
-            false,
-        )?;
+        rows.row("text read as numbers", format!("{} cell(s)", conv.len()));
         for c in conv.iter().take(500) {
             let unit = c
                 .unit
                 .as_deref()
                 .map(|u| format!(" {u}"))
                 .unwrap_or_default();
-            line(
-                ws,
-                "",
-                &format!("{}: '{}' → {}{unit}", c.cell, c.text, c.value),
-                false,
-            )?;
+            rows.row("", format!("{}: '{}' → {}{unit}", c.cell, c.text, c.value));
         }
     }
     for sk in &input.report.skipped {
-        line(
-            ws,
-            "row skipped",
-            &format!("{}: {}", sk.cell, sk.reason),
-            false,
-        )?;
+        rows.row("row skipped", format!("{}: {}", sk.cell, sk.reason));
     }
     for sk in &input.report.left_out {
-        line(
-            ws,
-            "left out by status",
-            &format!("{}: {}", sk.cell, sk.reason),
-            false,
-        )?;
+        rows.row("left out by status", format!("{}: {}", sk.cell, sk.reason));
     }
     for c in input.report.classified.iter().take(MAX_CLASSIFIED) {
         if matches!(c.became, Became::Run | Became::Fitting | Became::Heading) {
-            line(
-                ws,
-                &format!("list row read as {}", c.became.word()),
-                &format!("{}: {} — {}", c.cell, c.what, c.deciding),
-                false,
-            )?;
+            rows.row(
+                format!("list row read as {}", c.became.word()),
+                format!("{}: {} — {}", c.cell, c.what, c.deciding),
+            );
         }
     }
     for (sheet, n) in &input.report.blank_rows {
-        line(
-            ws,
+        rows.row(
             "blank rows",
-            &format!("{sheet}: {n} blank row(s) inside the table skipped"),
-            false,
-        )?;
+            format!("{sheet}: {n} blank row(s) inside the table skipped"),
+        );
     }
-    for d in &audit.notes {
-        line(ws, d.severity.label(), &d.to_string(), false)?;
-    }
-    ws.set_column_width(0, 34)?;
-    ws.set_column_width(1, 120)?;
-    Ok(())
 }
