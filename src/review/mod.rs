@@ -4,7 +4,7 @@
 //! [`stations::discover`] lists the stations (one per file; line ids need only be unique within
 //! a file), [`run::run`] audits them in parallel, stages each audited copy and reduces each
 //! station to its [`summary::Reduced`] as soon as it is done; [`Review::new`] assembles what the
-//! review workbook ([`workbook::build`]) and its JSON ([`Review::to_json`]) show, and
+//! review workbook ([`workbook::build`]) and its JSON ([`Review::write_json`]) show, and
 //! [`files::write`] writes it all, renamed into place only when everything is complete.
 //! docs/review.md describes the outputs and the choices behind them.
 

@@ -44,7 +44,7 @@ pub struct RunOptions {
 }
 
 /// What the stations gave: every row in station order, the estate ranking, all findings, and
-/// the audited copies staged (renamed into place by [`super::files::commit`]).
+/// the audited copies staged (renamed into place by [`super::files::write`]).
 #[derive(Debug)]
 pub struct Merged {
     /// One row per station, in input order.
