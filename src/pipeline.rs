@@ -112,7 +112,13 @@ pub enum Error {
     Audit(#[from] AuditError),
     /// Writing failed.
     #[error(transparent)]
-    Write(#[from] WriteError),
+    Write(Box<WriteError>),
+}
+
+impl From<WriteError> for Error {
+    fn from(e: WriteError) -> Self {
+        Error::Write(Box::new(e))
+    }
 }
 
 /// Where an audit's JSON goes.

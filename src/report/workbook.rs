@@ -177,24 +177,34 @@ pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Wo
         })();
         (worker.map(|h| h.join()), others)
     });
-    let mut others = others?;
+    let others = others?;
     // A panic on the second thread is a panic of this call (the worker process reports it).
     let big = match written {
         Some(Ok(ws)) => Some(ws?),
         Some(Err(panic)) => std::panic::resume_unwind(panic),
         None => None,
     };
-    // Order: the report sheets, the input copies in input order, Basis last.
-    let basis = others.pop();
     let report_sheets = 3 + usize::from(!audit.systems.is_empty());
+    push_in_order(&mut wb, others, report_sheets, biggest.zip(big));
+    Ok(wb)
+}
+
+/// Push the sheets in their order: the `report_sheets` report sheets, the input copies in input
+/// order (the one written on the second thread, with its index, back in its place), Basis last.
+fn push_in_order(
+    wb: &mut Workbook,
+    mut others: Vec<Worksheet>,
+    report_sheets: usize,
+    big: Option<(usize, Worksheet)>,
+) {
+    let basis = others.pop();
     let mut copies = others.split_off(report_sheets);
-    if let (Some(i), Some(ws)) = (biggest, big) {
+    if let Some((i, ws)) = big {
         copies.insert(i, ws);
     }
     for ws in others.into_iter().chain(copies).chain(basis) {
         wb.push_worksheet(ws);
     }
-    Ok(wb)
 }
 
 /// An empty workbook with fixed properties and the fastest deflate.
