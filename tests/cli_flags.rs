@@ -27,7 +27,7 @@
 //! | `review`, `-o`, `--json` | `review::default_output_json_on_stdout_and_basis` |
 //! | `review --jobs` | `review::jobs_change_nothing_in_the_outputs` |
 //! | `review --strict` | `review::strict_exits_2_and_writes_nothing` |
-//! | `review --ranking-rows` | `review::ranking_rows_and_worst_fittings_follow_each_stations_audit` |
+//! | `review --ranking-rows` | `review::worst_fittings_rank_all_stations_together` |
 //! | `review --rules` | `review_rules_file_applies_to_every_station` |
 //! | `review --map` | `review_map_reads_every_station_with_it` |
 //! | `review --units us` | `review_units_us_labels_the_workbooks_in_feet` |

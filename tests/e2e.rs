@@ -373,7 +373,7 @@ fn demo_console_shows_each_check_with_the_failing_system_within_80_and_100_colum
         assert_eq!(out.code, Some(0));
         let text = &out.stdout;
         assert!(
-            longest_line(&text) <= width,
+            longest_line(text) <= width,
             "a line is wider than {width}:\n{text}"
         );
         assert!(!text.contains('│') && !text.contains('┆'), "no box drawing");
@@ -398,7 +398,7 @@ fn demo_console_shows_each_check_with_the_failing_system_within_80_and_100_colum
         assert!(flat.contains("before speed control or impeller trimming"));
         let kinds = bin().arg("kinds").env("COLUMNS", width.to_string()).ran();
         let kinds = &kinds.stdout;
-        assert!(longest_line(&kinds) <= width, "kinds at {width}:\n{kinds}");
+        assert!(longest_line(kinds) <= width, "kinds at {width}:\n{kinds}");
     }
 }
 
