@@ -1,5 +1,6 @@
-//! The test kit, one module per concept, shared by every test file (`mod common;`) and, through
-//! `#[path]`, by the examples that need it. Not every test uses every helper.
+//! The test kit, one module per concept, shared by every test file (`mod common;`). Its cell
+//! writer (`cell`) is `examples/support/cell.rs`, which the fixture generators share through
+//! `#[path]`. Not every test uses every helper.
 #![allow(dead_code)]
 
 pub mod archive;
