@@ -6,7 +6,12 @@
 //! text, US units, merged cells, formulas, odd size notations, ...); `tests/messy.rs` checks
 //! that both audit to the same line totals.
 
-use rust_xlsxwriter::{Format, Formula, Workbook, Worksheet, XlsxError};
+use rust_xlsxwriter::{Format, Workbook, Worksheet, XlsxError};
+
+#[path = "support/cell.rs"]
+#[allow(dead_code)] // the fixtures hold text, numbers and formulas only
+mod cell;
+use cell::{Cell, put};
 use std::path::Path;
 
 const FT: f64 = 0.3048;
@@ -203,26 +208,17 @@ fn nps(dn: u16) -> &'static str {
     }
 }
 
-/// A cell to write.
-#[derive(Clone)]
-enum V {
-    S(String),
-    N(f64),
-    F(String, f64),
-    E,
-}
-
-fn s(t: impl Into<String>) -> V {
-    V::S(t.into())
+fn s(t: impl Into<String>) -> Cell {
+    Cell::S(t.into())
 }
 
 /// A table as header texts (one or two rows), an optional units row, and rows.
 struct Table {
     name: String,
-    above: Vec<Vec<V>>,
+    above: Vec<Vec<Cell>>,
     headers: Vec<Vec<String>>,
     units: Option<Vec<String>>,
-    rows: Vec<Vec<V>>,
+    rows: Vec<Vec<Cell>>,
     merges: Vec<(u32, u16, u32, u16)>,
 }
 
@@ -230,19 +226,11 @@ fn write_table(ws: &mut Worksheet, t: &Table) -> Result<(), XlsxError> {
     ws.set_name(&t.name)?;
     let bold = Format::new().set_bold();
     let mut r = 0u32;
-    let put = |ws: &mut Worksheet, r: u32, c: u16, v: &V| -> Result<(), XlsxError> {
-        match v {
-            V::S(x) => ws.write_string(r, c, x).map(|_| ()),
-            V::N(x) => ws.write_number(r, c, *x).map(|_| ()),
-            V::F(f, cached) => ws
-                .write_formula(r, c, Formula::new(f).set_result(cached.to_string()))
-                .map(|_| ()),
-            V::E => Ok(()),
-        }
-    };
+    let date = Format::new();
+    let write = |ws: &mut Worksheet, r: u32, c: u16, v: &Cell| put(ws, r, c, v, &date);
     for row in &t.above {
         for (c, v) in row.iter().enumerate() {
-            put(ws, r, c as u16, v)?;
+            write(ws, r, c as u16, v)?;
         }
         r += 1;
     }
@@ -272,7 +260,7 @@ fn write_table(ws: &mut Worksheet, t: &Table) -> Result<(), XlsxError> {
     }
     for row in &t.rows {
         for (c, v) in row.iter().enumerate() {
-            put(ws, r, c as u16, v)?;
+            write(ws, r, c as u16, v)?;
         }
         r += 1;
     }
@@ -292,7 +280,7 @@ fn save(path: &Path, tables: &[Table]) -> Result<(), XlsxError> {
 const INVENTED: &str = "INVENTED DATA for testing: Heron Flats water works does not exist.";
 
 /// A note row with the label, then a blank row, above a table.
-fn invented_note() -> Vec<Vec<V>> {
+fn invented_note() -> Vec<Vec<Cell>> {
     vec![vec![s(INVENTED)], vec![]]
 }
 
@@ -311,7 +299,14 @@ fn canonical() -> Vec<Table> {
         units: None,
         rows: LINES
             .iter()
-            .map(|l| vec![s(l.id), s(l.service), V::N(l.flow_m3h), V::N(l.temp_c)])
+            .map(|l| {
+                vec![
+                    s(l.id),
+                    s(l.service),
+                    Cell::N(l.flow_m3h),
+                    Cell::N(l.temp_c),
+                ]
+            })
             .collect(),
         merges: vec![],
     };
@@ -329,11 +324,11 @@ fn canonical() -> Vec<Table> {
             .map(|p| {
                 vec![
                     s(p.line),
-                    V::N(f64::from(p.seq)),
+                    Cell::N(f64::from(p.seq)),
                     s(format!("DN{}", p.dn)),
                     s("40"),
                     s(p.material),
-                    V::N(p.length_m),
+                    Cell::N(p.length_m),
                 ]
             })
             .collect(),
@@ -356,9 +351,9 @@ fn canonical() -> Vec<Table> {
                     s(f.line),
                     s(f.item),
                     s(format!("DN{}", f.dn)),
-                    f.dn_out.map_or(V::E, |d| s(format!("DN{d}"))),
-                    V::N(f.qty),
-                    f.k.map_or(V::E, V::N),
+                    f.dn_out.map_or(Cell::E, |d| s(format!("DN{d}"))),
+                    Cell::N(f.qty),
+                    f.k.map_or(Cell::E, Cell::N),
                 ]
             })
             .collect(),
@@ -367,11 +362,11 @@ fn canonical() -> Vec<Table> {
     vec![lines, pipes, fittings]
 }
 
-fn title(text: &str) -> Vec<Vec<V>> {
+fn title(text: &str) -> Vec<Vec<Cell>> {
     vec![
         vec![s(text)],
         vec![s(INVENTED)],
-        vec![s("Rev B"), V::E, s("Checked: —")],
+        vec![s("Rev B"), Cell::E, s("Checked: —")],
         vec![],
     ]
 }
@@ -471,7 +466,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         ];
         t[0].units = Some(["", "", "l/s", "°C"].map(String::from).to_vec());
         for (row, l) in t[0].rows.iter_mut().zip(LINES) {
-            row[2] = V::N(l.flow_m3h / 3.6);
+            row[2] = Cell::N(l.flow_m3h / 3.6);
         }
         t[1].headers = vec![
             ["Line", "Seq", "Size", "Schedule", "Material", "Length"]
@@ -480,7 +475,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         ];
         t[1].units = Some(["", "", "", "", "", "cm"].map(String::from).to_vec());
         for (row, p) in t[1].rows.iter_mut().zip(RUNS) {
-            row[5] = V::N(p.length_m * 100.0);
+            row[5] = Cell::N(p.length_m * 100.0);
         }
         both("03_units_row", t)?;
     }
@@ -532,8 +527,8 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
                 .to_vec(),
         ];
         for (row, l) in t[0].rows.iter_mut().zip(LINES) {
-            row[2] = V::N(l.flow_m3h / GPM_M3H);
-            row[3] = V::N(l.temp_c * 9.0 / 5.0 + 32.0);
+            row[2] = Cell::N(l.flow_m3h / GPM_M3H);
+            row[3] = Cell::N(l.temp_c * 9.0 / 5.0 + 32.0);
         }
         t[1].headers[0][5] = "Length (ft)".into();
         for (row, p) in t[1].rows.iter_mut().zip(RUNS) {
@@ -542,11 +537,11 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
             } else {
                 nps(p.dn).to_string()
             });
-            row[5] = V::N(p.length_m / FT);
+            row[5] = Cell::N(p.length_m / FT);
         }
         for (row, f) in t[2].rows.iter_mut().zip(FITS) {
             row[3] = s(nps(f.dn).replace('"', " in"));
-            row[4] = f.dn_out.map_or(V::E, |d| s(nps(d)));
+            row[4] = f.dn_out.map_or(Cell::E, |d| s(nps(d)));
         }
         both("06_us_units", t)?;
     }
@@ -554,10 +549,10 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
     {
         let mut t = canonical();
         // HF-D1 runs are rows 1-2 and HF-B1 rows 4-5 of the data: merge their Line cells.
-        t[1].rows[2][0] = V::E;
-        t[1].rows[5][0] = V::E;
+        t[1].rows[2][0] = Cell::E;
+        t[1].rows[5][0] = Cell::E;
         for row in t[1].rows.iter_mut().skip(1) {
-            row[4] = V::E;
+            row[4] = Cell::E;
         }
         t[1].merges = vec![(1, 0, 2, 0), (4, 0, 5, 0), (0, 4, 5, 4)];
         both("07_merged_cells", t)?;
@@ -567,10 +562,10 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         let mut t = canonical();
         for (row, p) in t[1].rows.iter_mut().zip(RUNS) {
             let half = p.length_m / 2.0;
-            row[5] = V::F(format!("={half}*2"), p.length_m);
+            row[5] = Cell::F(format!("={half}*2"), p.length_m.to_string());
         }
         for (row, l) in t[0].rows.iter_mut().zip(LINES) {
-            row[2] = V::F(format!("={}*3.6", l.flow_m3h / 3.6), l.flow_m3h);
+            row[2] = Cell::F(format!("={}*3.6", l.flow_m3h / 3.6), l.flow_m3h.to_string());
         }
         both("08_formulas", t)?;
     }
@@ -590,7 +585,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         }
         t[2].headers[0][3] = "Size [mm]".into();
         for (row, f) in t[2].rows.iter_mut().zip(FITS) {
-            row[3] = V::N(f64::from(f.dn));
+            row[3] = Cell::N(f64::from(f.dn));
         }
         both("09_size_notations", t)?;
         // The twin gives the bore of Ø219.1x8.18 (219.1 - 2 x 8.18 = 202.74 mm) as ID.
@@ -608,7 +603,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         for h in &mut t[1].headers {
             h.push("Remarks".into());
         }
-        let header_again: Vec<V> = t[1].headers[0].iter().map(|h| s(h.clone())).collect();
+        let header_again: Vec<Cell> = t[1].headers[0].iter().map(|h| s(h.clone())).collect();
         let mut rows = Vec::new();
         for (i, r) in t[1].rows.iter().enumerate() {
             let mut r = r.clone();
@@ -622,11 +617,11 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         rows.push(vec![]);
         rows.push(vec![
             s("Total"),
-            V::E,
-            V::E,
-            V::E,
-            V::E,
-            V::N(RUNS.iter().map(|p| p.length_m).sum()),
+            Cell::E,
+            Cell::E,
+            Cell::E,
+            Cell::E,
+            Cell::N(RUNS.iter().map(|p| p.length_m).sum()),
         ]);
         rows.push(vec![s("Note: lengths from the invented as-built survey")]);
         t[1].rows = rows;
@@ -652,14 +647,14 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
                 .iter()
                 .find(|l| l.id == p.line)
                 .map_or(0.0, |l| l.flow_m3h);
-            row.push(V::N(l));
+            row.push(Cell::N(l));
         }
         save(&dir.join("11_flow_in_pipes.xlsx"), &t)?;
         let mut c = canonical();
         c[0].headers = vec![vec!["Line".into(), "Flow [m3/h]".into()]];
         c[0].rows = LINES
             .iter()
-            .map(|l| vec![s(l.id), V::N(l.flow_m3h)])
+            .map(|l| vec![s(l.id), Cell::N(l.flow_m3h)])
             .collect();
         save(&dir.join("11_flow_in_pipes.canonical.xlsx"), &c)?;
     }
@@ -680,7 +675,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
             .to_vec(),
         ];
         for (row, p) in t[1].rows.iter_mut().zip(RUNS) {
-            row[5] = V::N(p.length_m / FT);
+            row[5] = Cell::N(p.length_m / FT);
         }
         both("12_map_file", t)?;
         std::fs::write(

@@ -1,15 +1,19 @@
-//! Bad-input corpus, generated in code and run through the built binary.
+//! Bad-input corpus, generated in code and run through the built binary, one named test per case.
 //!
 //! Each case is an input file (raw bytes or a workbook built with rust_xlsxwriter) and what must
 //! happen: either the run is refused (exit 2, the message names the file and, where there is one,
 //! the cell, and no output of any kind is left in the folder), or the run completes with a named
 //! finding and no infinite or NaN figure anywhere in the outputs. No case may panic.
 
-#[path = "bad/support.rs"]
-mod support;
+mod common;
 
+use common::archive::{padded, zip};
+use common::bin::{Ran, run};
+use common::book::{Cell, Sheet, n, s, sheet, xlsx};
+use common::dirs::{entries, temp_dir};
+use common::readback::read_cells;
+use common::stations::{base_station, list_station};
 use std::ffi::OsStr;
-use support::{Cell, Sheet, base_station, list_station, n, s, sheet, xlsx, zip};
 
 /// What a case must do.
 enum Expect {
@@ -29,7 +33,6 @@ enum Expect {
 }
 
 struct Case {
-    name: &'static str,
     /// File name to write the input under (extension matters).
     file: &'static str,
     bytes: Vec<u8>,
@@ -46,14 +49,8 @@ impl Case {
     }
 }
 
-fn refused(
-    name: &'static str,
-    bytes: Vec<u8>,
-    cell: Option<&'static str>,
-    says: &'static str,
-) -> Case {
+fn refused(bytes: Vec<u8>, cell: Option<&'static str>, says: &'static str) -> Case {
     Case {
-        name,
         file: "station.xlsx",
         bytes,
         expect: Expect::Refused {
@@ -67,7 +64,6 @@ fn refused(
 
 /// Refused with one error, whose follow-on errors (`never`) are folded into it, not repeated.
 fn refused_once(
-    name: &'static str,
     bytes: Vec<u8>,
     cell: &'static str,
     says: &'static str,
@@ -79,13 +75,12 @@ fn refused_once(
             says,
             never: Some(never),
         },
-        ..refused(name, bytes, None, says)
+        ..refused(bytes, None, says)
     }
 }
 
-fn finding(name: &'static str, bytes: Vec<u8>, code: &'static str) -> Case {
+fn finding(bytes: Vec<u8>, code: &'static str) -> Case {
     Case {
-        name,
         file: "station.xlsx",
         bytes,
         expect: Expect::Finding {
@@ -97,10 +92,9 @@ fn finding(name: &'static str, bytes: Vec<u8>, code: &'static str) -> Case {
 }
 
 /// Legal but odd content: the run completes and the JSON holds `holds` (JSON-escaped).
-fn completes(name: &'static str, bytes: Vec<u8>, code: Option<&'static str>, holds: &str) -> Case {
+fn completes(bytes: Vec<u8>, code: Option<&'static str>, holds: &str) -> Case {
     let holds = serde_json::to_string(holds).expect("json string");
     Case {
-        name,
         file: "station.xlsx",
         bytes,
         expect: Expect::Finding {
@@ -186,571 +180,533 @@ fn compound_file(streams: &[&str]) -> Vec<u8> {
     b
 }
 
-fn cases() -> Vec<Case> {
-    let valid = xlsx(&base_station());
-    let long_id: String = "L".repeat(32_767);
-    let v = vec![
-        // --- the file is not a readable workbook ---
-        refused(
-            "not-a-zip",
-            b"Line,Seq,Size\nL1,1,DN100\n".to_vec(),
-            None,
-            "cannot read",
-        ),
-        refused("empty-file", Vec::new(), None, "cannot read"),
-        refused(
-            "truncated-zip-half",
-            valid[..valid.len() / 2].to_vec(),
-            None,
-            "cannot read",
-        ),
-        refused(
-            "truncated-zip-100-bytes",
-            valid[..100].to_vec(),
-            None,
-            "cannot read",
-        ),
-        refused(
-            "zip-not-a-workbook",
-            zip(&[("readme.txt", b"hello")]),
-            None,
-            "cannot read",
-        ),
-        refused(
-            "zip-with-garbage-workbook-xml",
-            zip(&[
-                ("[Content_Types].xml", b"<Types/>"),
-                (
-                    "xl/workbook.xml",
-                    b"<workbook><sheets><sheet name=\"Pipes\" r:id=\"rId1\"",
-                ),
-            ]),
-            None,
-            "cannot read",
-        ),
-        refused(
-            "xls-given-as-xlsx",
-            compound_file(&["Workbook"]),
-            None,
-            "cannot read",
-        ),
-        refused("ods-given-as-xlsx", ods_bytes(), None, "cannot read"),
-        Case {
-            name: "garbage-named-ods",
-            file: "station.ods",
-            bytes: zip(&[(
-                "mimetype",
-                b"application/vnd.oasis.opendocument.spreadsheet",
-            )]),
-            expect: Expect::Refused {
-                cell: None,
-                says: "cannot read",
-                never: None,
-            },
-            args: Vec::new(),
+/// The valid base station as bytes.
+fn valid() -> Vec<u8> {
+    xlsx(&base_station())
+}
+
+/// The first `keep(len)` bytes of `bytes`.
+fn truncated(mut bytes: Vec<u8>, keep: impl Fn(usize) -> usize) -> Vec<u8> {
+    bytes.truncate(keep(bytes.len()));
+    bytes
+}
+
+/// An id of the longest text a cell holds (32,767 characters).
+fn long_id() -> String {
+    "L".repeat(32_767)
+}
+
+/// One `#[test]` per case, named by the case, and the list of names.
+macro_rules! cases {
+    ($($name:ident: $case:expr;)*) => {
+        $(
+            #[test]
+            fn $name() {
+                check(stringify!($name), &$case);
+            }
+        )*
+        /// Every case's name.
+        const CASES: &[&str] = &[$(stringify!($name)),*];
+    };
+}
+
+cases! {
+    // --- the file is not a readable workbook ---
+    not_a_zip: refused(
+        b"Line,Seq,Size\nL1,1,DN100\n".to_vec(),
+        None,
+        "cannot read",
+    );
+    empty_file: refused(Vec::new(), None, "cannot read");
+    truncated_zip_half: refused(
+        truncated(valid(), |n| n / 2),
+        None,
+        "cannot read",
+    );
+    truncated_zip_100_bytes: refused(
+        truncated(valid(), |_| 100),
+        None,
+        "cannot read",
+    );
+    zip_not_a_workbook: refused(
+        zip(&[("readme.txt", b"hello")]),
+        None,
+        "cannot read",
+    );
+    zip_with_garbage_workbook_xml: refused(
+        zip(&[
+            ("[Content_Types].xml", b"<Types/>"),
+            (
+                "xl/workbook.xml",
+                b"<workbook><sheets><sheet name=\"Pipes\" r:id=\"rId1\"",
+            ),
+        ]),
+        None,
+        "cannot read",
+    );
+    xls_given_as_xlsx: refused(
+        compound_file(&["Workbook"]),
+        None,
+        "cannot read",
+    );
+    ods_given_as_xlsx: refused(ods_bytes(), None, "cannot read");
+    garbage_named_ods: Case {
+        file: "station.ods",
+        bytes: zip(&[(
+            "mimetype",
+            b"application/vnd.oasis.opendocument.spreadsheet",
+        )]),
+        expect: Expect::Refused {
+            cell: None,
+            says: "cannot read",
+            never: None,
         },
-        refused(
-            "password-protected",
-            compound_file(&["EncryptionInfo", "EncryptedPackage"]),
-            None,
-            "cannot read",
-        ),
-        // Found by fuzzing (fuzz/ ingest_bytes): calamine overflowed on an absurd cell reference.
-        refused(
-            "fuzz-calamine-ref-overflow",
-            include_bytes!("bad/fuzz-calamine-ref-overflow.xlsx").to_vec(),
-            None,
-            "cannot read",
-        ),
-        refused(
-            "random-bytes",
-            (0..5000u32)
-                .map(|i| (i.wrapping_mul(2_654_435_761) >> 13) as u8)
-                .collect(),
-            None,
-            "cannot read",
-        ),
-        // .ods and .xls are read (through calamine): an .ods whose Pipes sheet has no header is
-        // refused at its cell, an .xls container with no workbook stream cannot be read.
-        Case {
-            name: "ods-extension",
-            file: "station.ods",
-            bytes: ods_bytes(),
-            expect: Expect::Refused {
-                cell: Some("Pipes!A1"),
-                says: "has no header row",
-                never: None,
-            },
-            args: Vec::new(),
+        args: Vec::new(),
+    };
+    password_protected: refused(
+        compound_file(&["EncryptionInfo", "EncryptedPackage"]),
+        None,
+        "cannot read",
+    );
+    // Found by fuzzing (fuzz/ ingest_bytes): calamine overflowed on an absurd cell reference.
+    fuzz_calamine_ref_overflow: refused(
+        include_bytes!("bad/fuzz-calamine-ref-overflow.xlsx").to_vec(),
+        None,
+        "cannot read",
+    );
+    random_bytes: refused(
+        (0..5000u32)
+            .map(|i| (i.wrapping_mul(2_654_435_761) >> 13) as u8)
+            .collect(),
+        None,
+        "cannot read",
+    );
+    // .ods and .xls are read (through calamine): an .ods whose Pipes sheet has no header is
+    // refused at its cell, an .xls container with no workbook stream cannot be read.
+    ods_extension: Case {
+        file: "station.ods",
+        bytes: ods_bytes(),
+        expect: Expect::Refused {
+            cell: Some("Pipes!A1"),
+            says: "has no header row",
+            never: None,
         },
-        Case {
-            name: "xls-extension",
-            file: "station.xls",
-            bytes: compound_file(&["Workbook"]),
-            expect: Expect::Refused {
-                cell: None,
-                says: "cannot read",
-                never: None,
-            },
-            args: Vec::new(),
+        args: Vec::new(),
+    };
+    xls_extension: Case {
+        file: "station.xls",
+        bytes: compound_file(&["Workbook"]),
+        expect: Expect::Refused {
+            cell: None,
+            says: "cannot read",
+            never: None,
         },
-        // --- workbook without usable tables ---
-        refused(
-            "empty-workbook",
-            xlsx(&[Sheet::new("Sheet1", vec![])]),
-            None,
-            "no Pipes sheet",
-        ),
-        refused(
-            "no-pipes-sheet",
-            xlsx(&without_sheet("Pipes")),
-            None,
-            "no Pipes sheet",
-        ),
-        refused(
-            "pipes-sheet-without-header",
-            xlsx(&[Sheet::new("Pipes", vec![vec![s("hello")], vec![n(1.0)]])]),
-            Some("Pipes!A1"),
-            "no header row",
-        ),
-        refused(
-            "pipes-only-header",
-            xlsx(&[Sheet::new(
-                "Pipes",
-                vec![vec![
-                    s("Line"),
-                    s("Size"),
-                    s("Length [m]"),
-                    s("Flow [m3/h]"),
-                ]],
-            )]),
-            Some("Pipes!A1"),
-            "no pipe runs",
-        ),
-        refused(
-            "all-sheets-only-header",
-            {
-                let mut st = base_station();
-                for sh in &mut st {
-                    sh.rows.truncate(1);
-                }
-                xlsx(&st)
-            },
-            Some("Pipes!A1"),
-            "no pipe runs",
-        ),
-        refused(
-            "required-column-missing",
-            with("Pipes", 0, 0, s("Remarks")),
-            Some("Pipes!A1"),
-            "required column",
-        ),
-        refused(
-            "duplicated-header",
-            with("Pipes", 0, 6, s("Length [m]")),
-            Some("Pipes!G1"),
-            "duplicate",
-        ),
-        refused(
-            "unknown-unit-in-header",
-            with("Pipes", 0, 5, s("Length [furlongs]")),
-            Some("Pipes!F2"),
-            "not understood",
-        ),
-        // --- bad numbers ---
-        refused(
-            "every-numeric-column-text",
-            with_all(&[
-                ("Lines", 1, 2, s("lots")),
-                ("Pipes", 1, 1, s("first")),
-                ("Pipes", 1, 5, s("long")),
-                ("Fittings", 1, 5, s("some")),
-            ]),
-            Some("Pipes!F2"),
-            "long",
-        ),
-        refused(
-            "nan-text",
-            with("Pipes", 1, 5, s("NaN")),
-            Some("Pipes!F2"),
-            "Length",
-        ),
-        refused(
-            "inf-text",
-            with("Pipes", 1, 5, s("inf")),
-            Some("Pipes!F2"),
-            "Length",
-        ),
-        refused(
-            "huge-length-1e308",
-            with("Pipes", 1, 5, n(1e308)),
-            Some("Pipes!A2"),
-            "not a finite",
-        ),
-        // Both fittings of the line fail on the one flow: one error, the second counted in it.
-        refused_once(
-            "huge-flow-1e308",
-            with("Lines", 1, 2, n(1e308)),
-            "Fittings!C2",
-            "Reynolds number = inf is outside the accepted range finite and >= 0 …and 1 more \
-             fitting on line 'L1' fails the same way",
-            "Fittings!C3",
-        ),
-        refused(
-            "huge-k-1e308",
-            with("Fittings", 1, 7, n(1e308)),
-            Some("Fittings!C2"),
-            "not a finite",
-        ),
-        refused(
-            "negative-length",
-            with("Pipes", 1, 5, n(-12.0)),
-            Some("Pipes!F2"),
-            "greater than zero",
-        ),
-        refused(
-            "zero-length",
-            with("Pipes", 1, 5, n(0.0)),
-            Some("Pipes!F2"),
-            "greater than zero",
-        ),
-        refused(
-            "negative-qty",
-            with("Fittings", 1, 5, n(-1.0)),
-            Some("Fittings!F2"),
-            "greater than zero",
-        ),
-        refused(
-            "opening-above-100",
-            with("Fittings", 2, 6, n(150.0)),
-            Some("Fittings!G3"),
-            "above 100",
-        ),
-        refused(
-            "negative-k",
-            with("Fittings", 1, 7, n(-0.5)),
-            Some("Fittings!H2"),
-            "zero or more",
-        ),
-        refused(
-            "boolean-length",
-            with("Pipes", 1, 5, Cell::B(true)),
-            Some("Pipes!F2"),
-            "TRUE/FALSE",
-        ),
-        refused(
-            "date-where-number-belongs",
-            with("Pipes", 1, 5, Cell::D("2024-03-01")),
-            Some("Pipes!F2"),
-            "date",
-        ),
-        refused(
-            "div0-formula-length",
-            with("Pipes", 1, 5, Cell::F("=1/0".into(), "#DIV/0!".into())),
-            Some("Pipes!F2"),
-            "#DIV/0!",
-        ),
-        refused(
-            "ref-formula-flow",
-            with("Lines", 1, 2, Cell::F("=#REF!*2".into(), "#REF!".into())),
-            Some("Lines!C2"),
-            "#REF!",
-        ),
-        // One bad cell, one message: the run is left out, so its line has no pipe run, and its
-        // two fittings are counted in that message instead of raising an error each.
-        refused_once(
-            "div0-length-folds-the-line-fittings",
-            with("Pipes", 1, 5, Cell::F("=1/0".into(), "#DIV/0!".into())),
-            "Pipes!F2",
-            "…and 2 fittings on line 'L1' are not checked",
-            "which has no pipe run",
-        ),
-        refused_once(
-            "ref-flow-is-not-also-blank",
-            with("Lines", 1, 2, Cell::F("=#REF!*2".into(), "#REF!".into())),
-            "Lines!C2",
-            "#REF!",
-            "has no flow",
-        ),
-        refused_once(
-            "reverse-flow-is-not-also-blank",
-            with("Lines", 1, 2, n(-50.0)),
-            "Lines!C2",
-            "reverse (negative) flow",
-            "has no flow",
-        ),
-        refused_once(
-            "bad-k-with-blank-item-is-one-error",
-            with_all(&[
-                ("Fittings", 1, 2, Cell::E),
-                ("Fittings", 1, 7, Cell::F("=1/0".into(), "#DIV/0!".into())),
-            ]),
-            "Fittings!H2",
-            "#DIV/0!",
-            "item is blank",
-        ),
-        // A fitting quantity is a count: the Fittings table follows the mixed lists' rule.
-        refused(
-            "fitting-qty-fraction",
-            with("Fittings", 1, 5, n(1.5)),
-            Some("Fittings!F2"),
-            "must be a whole number of at least 1, not 1.5",
-        ),
-        refused(
-            "fitting-qty-fraction-as-text",
-            with("Fittings", 2, 5, s("0.5")),
-            Some("Fittings!F3"),
-            "must be a whole number of at least 1, not 0.5",
-        ),
-        refused(
-            "reverse-flow",
-            with("Lines", 1, 2, n(-50.0)),
-            Some("Lines!C2"),
-            "negative",
-        ),
-        refused(
-            "blank-flow",
-            with("Lines", 1, 2, s(" ")),
-            Some("Lines!C2"),
-            "no flow",
-        ),
-        // --- bad text and references ---
-        refused(
-            "unknown-size",
-            with("Pipes", 1, 2, s("DN7")),
-            Some("Pipes!C2"),
-            "Size",
-        ),
-        refused(
-            "bare-number-size",
-            with("Pipes", 1, 2, n(100.0)),
-            Some("Pipes!C2"),
-            "Size",
-        ),
-        refused(
-            "unknown-material",
-            with("Pipes", 1, 4, s("unobtainium")),
-            Some("Pipes!E2"),
-            "unobtainium",
-        ),
-        refused(
-            "unknown-item",
-            with("Fittings", 1, 2, s("flux capacitor")),
-            Some("Fittings!C2"),
-            "flux capacitor",
-        ),
-        refused(
-            "fitting-line-absent-from-pipes",
-            with("Fittings", 1, 1, s("L9")),
-            Some("Fittings!B2"),
-            "L9",
-        ),
-        refused(
-            "duplicate-line-id",
-            {
-                let mut st = base_station();
-                sheet(&mut st, "Lines")
-                    .rows
-                    .push(vec![s("L1"), s("general"), n(10.0)]);
-                xlsx(&st)
-            },
-            Some("Lines!A3"),
-            "listed twice",
-        ),
-        refused(
-            "blank-line-id-in-pipes",
-            with("Pipes", 1, 0, s("   ")),
-            Some("Pipes!A2"),
-            "blank",
-        ),
-        refused(
-            "water-too-hot",
-            with_all(&[
-                ("Lines", 0, 3, s("Temperature [°C]")),
-                ("Lines", 1, 3, n(150.0)),
-            ]),
-            Some("Lines!D2"),
-            "150",
-        ),
-        // --- odd but legal content: the run completes with a clear finding ---
-        finding("zero-flow", with("Lines", 1, 2, n(0.0)), "zero-flow"),
-        finding(
-            "valve-zero-open",
-            with("Fittings", 2, 6, n(0.0)),
-            "valve-closed",
-        ),
-        finding(
-            "reducer-equal-sizes",
-            with_all(&[
-                ("Fittings", 1, 2, s("reducer")),
-                ("Fittings", 1, 4, s("DN100")),
-            ]),
-            "same-size-reducer",
-        ),
-        completes(
-            "max-length-ids",
-            // Zero flow too, so a finding message carries the 32,767-character id.
-            with_all(&[
-                ("Lines", 1, 0, Cell::S(long_id.clone())),
-                ("Lines", 1, 2, n(0.0)),
-                ("Pipes", 1, 0, Cell::S(long_id.clone())),
-                ("Fittings", 1, 1, Cell::S(long_id.clone())),
-                ("Fittings", 2, 1, Cell::S(long_id.clone())),
-            ]),
-            Some("zero-flow"),
-            &long_id,
-        ),
-        completes(
-            "control-characters-in-ids",
-            with_all(&[
-                ("Lines", 1, 0, s(CTRL)),
-                ("Lines", 1, 2, n(0.0)),
-                ("Pipes", 1, 0, s(CTRL)),
-                ("Fittings", 1, 1, s(CTRL)),
-                ("Fittings", 2, 1, s(CTRL)),
-            ]),
-            Some("zero-flow"),
-            CTRL,
-        ),
-        completes(
-            "right-to-left-ids",
-            with_all(&[
-                ("Lines", 1, 0, s(RTL)),
-                ("Pipes", 1, 0, s(RTL)),
-                ("Fittings", 1, 1, s(RTL)),
-                ("Fittings", 2, 1, s(RTL)),
-                ("Fittings", 1, 0, s("שסתום")),
-            ]),
-            None,
-            RTL,
-        ),
-        // --- mixed item lists: each new error class at its cell ---
-        refused(
-            "list-neither-run-nor-fitting",
-            list_with(&[(2, 2, s("Widget assembly"))]),
-            Some("BoQ!C3"),
-            "neither a pipe run nor a fitting",
-        ),
-        refused(
-            "list-pipe-counted",
-            list_with(&[(2, 2, s("Pipe, CS, DN100"))]),
-            Some("BoQ!F3"),
-            "is a pipe run but is counted in 'No'",
-        ),
-        refused(
-            "list-elbow-in-metres",
-            list_with(&[(3, 5, s("m"))]),
-            Some("BoQ!F4"),
-            "is a fitting (elbow-90-long) but is measured in 'm'",
-        ),
-        refused(
-            "list-reducer-equal-sizes",
-            list_with(&[(2, 2, s("Concentric reducer")), (2, 3, s("100x100"))]),
-            Some("BoQ!D3"),
-            "its two sizes are equal",
-        ),
-        refused(
-            "list-expansion-reversed",
-            list_with(&[(2, 2, s("Sudden expansion")), (2, 3, s("DN150xDN100"))]),
-            Some("BoQ!D3"),
-            "second size must be the larger",
-        ),
-        refused(
-            "list-fitting-not-whole",
-            list_with(&[(3, 4, n(1.5))]),
-            Some("BoQ!E4"),
-            "must be a whole number",
-        ),
-        // The run's quantity is bad, so the run is left out: the two fittings of its line are
-        // counted in that one error, not reported as "no pipe run" each.
-        refused_once(
-            "list-bad-run-folds-the-line-fittings",
-            list_with(&[(1, 4, s("twenty"))]),
-            "BoQ!E2",
-            "…and 2 fittings on line 'L1' are not checked",
-            "which has no pipe run",
-        ),
-        refused(
-            "list-unit-unknown",
-            list_with(&[(3, 5, s("kg"))]),
-            Some("BoQ!F4"),
-            "unit 'kg' is not known",
-        ),
-        refused(
-            "list-unit-contradicts-cell",
-            list_with(&[(3, 4, s("2 No")), (3, 5, s("m"))]),
-            Some("BoQ!E4"),
-            "but the Unit column says 'm'",
-        ),
-        refused(
-            "list-no-line",
-            list_with(&[(1, 1, Cell::E), (2, 1, Cell::E), (3, 1, Cell::E)]),
-            Some("BoQ!C2"),
-            "no line for this row",
-        ),
-        refused(
-            "list-heading-unknown-line",
-            list_with_heading("Line ZZ-9"),
-            Some("BoQ!A2"),
-            "known lines: L1",
-        ),
-        refused(
-            "list-blank-description",
-            list_with(&[(2, 2, Cell::E)]),
-            Some("BoQ!C3"),
-            "the description is blank",
-        ),
-        refused(
-            "list-quantity-not-a-quantity",
-            list_with(&[(1, 4, s("twenty"))]),
-            Some("BoQ!E2"),
-            "is not a quantity",
-        ),
-        // Item numbers in `Item` and the kind in `Description`: no duplicate-column error.
-        completes(
-            "fittings-item-numbers-and-description",
-            with_all(&[
-                ("Fittings", 0, 8, s("Description")),
-                ("Fittings", 1, 2, s("1.1")),
-                ("Fittings", 2, 2, s("1.2")),
-                ("Fittings", 1, 8, s("90 elbow")),
-                ("Fittings", 2, 8, s("gate valve")),
-            ]),
-            None,
-            "valve-gate",
-        ),
-        completes(
-            "list-heading-known-line",
-            list_with_heading("LINE NO: L1"),
-            None,
-            "L1",
-        ),
-        // --- far cells and large files (sparse and bounded reading) ---
-        completes("stray-cells-far-on-every-sheet", far_strays(), None, "L1"),
-        completes("stray-cell-at-xfd1048576", at_last_cell(), None, "L1"),
-        // 40 MB of spaces in the Pipes sheet compress about a thousandfold.
-        refused("inflated-sheet-part", inflated(), None, "--max-ratio"),
-        completes("inflated-sheet-part-allowed", inflated(), None, "L1")
-            .with_args(&["--max-ratio", "100000"]),
-        refused(
-            "inflated-sheet-part-over-size-limit",
-            inflated(),
-            None,
-            "--max-unzipped-mb",
-        )
-        .with_args(&["--max-ratio", "100000", "--max-unzipped-mb", "16"]),
-        refused(
-            "zip-directory-understates-a-part",
-            understated(),
-            None,
-            "cannot read",
-        ),
-        refused("too-many-cells", valid.clone(), None, "--max-cells")
-            .with_args(&["--max-cells", "20"]),
-        completes("cells-under-a-raised-limit", valid.clone(), None, "L1")
-            .with_args(&["--max-cells", "40"]),
-    ];
-    v
+        args: Vec::new(),
+    };
+    // --- workbook without usable tables ---
+    empty_workbook: refused(
+        xlsx(&[Sheet::new("Sheet1", vec![])]),
+        None,
+        "no Pipes sheet",
+    );
+    no_pipes_sheet: refused(
+        xlsx(&without_sheet("Pipes")),
+        None,
+        "no Pipes sheet",
+    );
+    pipes_sheet_without_header: refused(
+        xlsx(&[Sheet::new("Pipes", vec![vec![s("hello")], vec![n(1.0)]])]),
+        Some("Pipes!A1"),
+        "no header row",
+    );
+    pipes_only_header: refused(
+        xlsx(&[Sheet::new(
+            "Pipes",
+            vec![vec![
+                s("Line"),
+                s("Size"),
+                s("Length [m]"),
+                s("Flow [m3/h]"),
+            ]],
+        )]),
+        Some("Pipes!A1"),
+        "no pipe runs",
+    );
+    all_sheets_only_header: refused(
+        {
+            let mut st = base_station();
+            for sh in &mut st {
+                sh.rows.truncate(1);
+            }
+            xlsx(&st)
+        },
+        Some("Pipes!A1"),
+        "no pipe runs",
+    );
+    required_column_missing: refused(
+        with("Pipes", 0, 0, s("Remarks")),
+        Some("Pipes!A1"),
+        "required column",
+    );
+    duplicated_header: refused(
+        with("Pipes", 0, 6, s("Length [m]")),
+        Some("Pipes!G1"),
+        "duplicate",
+    );
+    unknown_unit_in_header: refused(
+        with("Pipes", 0, 5, s("Length [furlongs]")),
+        Some("Pipes!F2"),
+        "not understood",
+    );
+    // --- bad numbers ---
+    every_numeric_column_text: refused(
+        with_all(&[
+            ("Lines", 1, 2, s("lots")),
+            ("Pipes", 1, 1, s("first")),
+            ("Pipes", 1, 5, s("long")),
+            ("Fittings", 1, 5, s("some")),
+        ]),
+        Some("Pipes!F2"),
+        "long",
+    );
+    nan_text: refused(
+        with("Pipes", 1, 5, s("NaN")),
+        Some("Pipes!F2"),
+        "Length",
+    );
+    inf_text: refused(
+        with("Pipes", 1, 5, s("inf")),
+        Some("Pipes!F2"),
+        "Length",
+    );
+    huge_length_1e308: refused(
+        with("Pipes", 1, 5, n(1e308)),
+        Some("Pipes!A2"),
+        "not a finite",
+    );
+    // Both fittings of the line fail on the one flow: one error, the second counted in it.
+    huge_flow_1e308: refused_once(
+        with("Lines", 1, 2, n(1e308)),
+        "Fittings!C2",
+        "Reynolds number = inf is outside the accepted range finite and >= 0 …and 1 more \
+         fitting on line 'L1' fails the same way",
+        "Fittings!C3",
+    );
+    huge_k_1e308: refused(
+        with("Fittings", 1, 7, n(1e308)),
+        Some("Fittings!C2"),
+        "not a finite",
+    );
+    negative_length: refused(
+        with("Pipes", 1, 5, n(-12.0)),
+        Some("Pipes!F2"),
+        "greater than zero",
+    );
+    zero_length: refused(
+        with("Pipes", 1, 5, n(0.0)),
+        Some("Pipes!F2"),
+        "greater than zero",
+    );
+    negative_qty: refused(
+        with("Fittings", 1, 5, n(-1.0)),
+        Some("Fittings!F2"),
+        "greater than zero",
+    );
+    opening_above_100: refused(
+        with("Fittings", 2, 6, n(150.0)),
+        Some("Fittings!G3"),
+        "above 100",
+    );
+    negative_k: refused(
+        with("Fittings", 1, 7, n(-0.5)),
+        Some("Fittings!H2"),
+        "zero or more",
+    );
+    boolean_length: refused(
+        with("Pipes", 1, 5, Cell::B(true)),
+        Some("Pipes!F2"),
+        "TRUE/FALSE",
+    );
+    date_where_number_belongs: refused(
+        with("Pipes", 1, 5, Cell::D("2024-03-01")),
+        Some("Pipes!F2"),
+        "date",
+    );
+    div0_formula_length: refused(
+        with("Pipes", 1, 5, Cell::F("=1/0".into(), "#DIV/0!".into())),
+        Some("Pipes!F2"),
+        "#DIV/0!",
+    );
+    ref_formula_flow: refused(
+        with("Lines", 1, 2, Cell::F("=#REF!*2".into(), "#REF!".into())),
+        Some("Lines!C2"),
+        "#REF!",
+    );
+    // One bad cell, one message: the run is left out, so its line has no pipe run, and its
+    // two fittings are counted in that message instead of raising an error each.
+    div0_length_folds_the_line_fittings: refused_once(
+        with("Pipes", 1, 5, Cell::F("=1/0".into(), "#DIV/0!".into())),
+        "Pipes!F2",
+        "…and 2 fittings on line 'L1' are not checked",
+        "which has no pipe run",
+    );
+    ref_flow_is_not_also_blank: refused_once(
+        with("Lines", 1, 2, Cell::F("=#REF!*2".into(), "#REF!".into())),
+        "Lines!C2",
+        "#REF!",
+        "has no flow",
+    );
+    reverse_flow_is_not_also_blank: refused_once(
+        with("Lines", 1, 2, n(-50.0)),
+        "Lines!C2",
+        "reverse (negative) flow",
+        "has no flow",
+    );
+    bad_k_with_blank_item_is_one_error: refused_once(
+        with_all(&[
+            ("Fittings", 1, 2, Cell::E),
+            ("Fittings", 1, 7, Cell::F("=1/0".into(), "#DIV/0!".into())),
+        ]),
+        "Fittings!H2",
+        "#DIV/0!",
+        "item is blank",
+    );
+    // A fitting quantity is a count: the Fittings table follows the mixed lists' rule.
+    fitting_qty_fraction: refused(
+        with("Fittings", 1, 5, n(1.5)),
+        Some("Fittings!F2"),
+        "must be a whole number of at least 1, not 1.5",
+    );
+    fitting_qty_fraction_as_text: refused(
+        with("Fittings", 2, 5, s("0.5")),
+        Some("Fittings!F3"),
+        "must be a whole number of at least 1, not 0.5",
+    );
+    reverse_flow: refused(
+        with("Lines", 1, 2, n(-50.0)),
+        Some("Lines!C2"),
+        "negative",
+    );
+    blank_flow: refused(
+        with("Lines", 1, 2, s(" ")),
+        Some("Lines!C2"),
+        "no flow",
+    );
+    // --- bad text and references ---
+    unknown_size: refused(
+        with("Pipes", 1, 2, s("DN7")),
+        Some("Pipes!C2"),
+        "Size",
+    );
+    bare_number_size: refused(
+        with("Pipes", 1, 2, n(100.0)),
+        Some("Pipes!C2"),
+        "Size",
+    );
+    unknown_material: refused(
+        with("Pipes", 1, 4, s("unobtainium")),
+        Some("Pipes!E2"),
+        "unobtainium",
+    );
+    unknown_item: refused(
+        with("Fittings", 1, 2, s("flux capacitor")),
+        Some("Fittings!C2"),
+        "flux capacitor",
+    );
+    fitting_line_absent_from_pipes: refused(
+        with("Fittings", 1, 1, s("L9")),
+        Some("Fittings!B2"),
+        "L9",
+    );
+    duplicate_line_id: refused(
+        {
+            let mut st = base_station();
+            sheet(&mut st, "Lines")
+                .rows
+                .push(vec![s("L1"), s("general"), n(10.0)]);
+            xlsx(&st)
+        },
+        Some("Lines!A3"),
+        "listed twice",
+    );
+    blank_line_id_in_pipes: refused(
+        with("Pipes", 1, 0, s("   ")),
+        Some("Pipes!A2"),
+        "blank",
+    );
+    water_too_hot: refused(
+        with_all(&[
+            ("Lines", 0, 3, s("Temperature [°C]")),
+            ("Lines", 1, 3, n(150.0)),
+        ]),
+        Some("Lines!D2"),
+        "150",
+    );
+    // --- odd but legal content: the run completes with a clear finding ---
+    zero_flow: finding(with("Lines", 1, 2, n(0.0)), "zero-flow");
+    valve_zero_open: finding(
+        with("Fittings", 2, 6, n(0.0)),
+        "valve-closed",
+    );
+    reducer_equal_sizes: finding(
+        with_all(&[
+            ("Fittings", 1, 2, s("reducer")),
+            ("Fittings", 1, 4, s("DN100")),
+        ]),
+        "same-size-reducer",
+    );
+    // Zero flow too, so a finding message carries the 32,767-character id.
+    max_length_ids: completes(
+        with_all(&[
+            ("Lines", 1, 0, Cell::S(long_id())),
+            ("Lines", 1, 2, n(0.0)),
+            ("Pipes", 1, 0, Cell::S(long_id())),
+            ("Fittings", 1, 1, Cell::S(long_id())),
+            ("Fittings", 2, 1, Cell::S(long_id())),
+        ]),
+        Some("zero-flow"),
+        &long_id(),
+    );
+    control_characters_in_ids: completes(
+        with_all(&[
+            ("Lines", 1, 0, s(CTRL)),
+            ("Lines", 1, 2, n(0.0)),
+            ("Pipes", 1, 0, s(CTRL)),
+            ("Fittings", 1, 1, s(CTRL)),
+            ("Fittings", 2, 1, s(CTRL)),
+        ]),
+        Some("zero-flow"),
+        CTRL,
+    );
+    right_to_left_ids: completes(
+        with_all(&[
+            ("Lines", 1, 0, s(RTL)),
+            ("Pipes", 1, 0, s(RTL)),
+            ("Fittings", 1, 1, s(RTL)),
+            ("Fittings", 2, 1, s(RTL)),
+            ("Fittings", 1, 0, s("שסתום")),
+        ]),
+        None,
+        RTL,
+    );
+    // --- mixed item lists: each new error class at its cell ---
+    list_neither_run_nor_fitting: refused(
+        list_with(&[(2, 2, s("Widget assembly"))]),
+        Some("BoQ!C3"),
+        "neither a pipe run nor a fitting",
+    );
+    list_pipe_counted: refused(
+        list_with(&[(2, 2, s("Pipe, CS, DN100"))]),
+        Some("BoQ!F3"),
+        "is a pipe run but is counted in 'No'",
+    );
+    list_elbow_in_metres: refused(
+        list_with(&[(3, 5, s("m"))]),
+        Some("BoQ!F4"),
+        "is a fitting (elbow-90-long) but is measured in 'm'",
+    );
+    list_reducer_equal_sizes: refused(
+        list_with(&[(2, 2, s("Concentric reducer")), (2, 3, s("100x100"))]),
+        Some("BoQ!D3"),
+        "its two sizes are equal",
+    );
+    list_expansion_reversed: refused(
+        list_with(&[(2, 2, s("Sudden expansion")), (2, 3, s("DN150xDN100"))]),
+        Some("BoQ!D3"),
+        "second size must be the larger",
+    );
+    list_fitting_not_whole: refused(
+        list_with(&[(3, 4, n(1.5))]),
+        Some("BoQ!E4"),
+        "must be a whole number",
+    );
+    // The run's quantity is bad, so the run is left out: the two fittings of its line are
+    // counted in that one error, not reported as "no pipe run" each.
+    list_bad_run_folds_the_line_fittings: refused_once(
+        list_with(&[(1, 4, s("twenty"))]),
+        "BoQ!E2",
+        "…and 2 fittings on line 'L1' are not checked",
+        "which has no pipe run",
+    );
+    list_unit_unknown: refused(
+        list_with(&[(3, 5, s("kg"))]),
+        Some("BoQ!F4"),
+        "unit 'kg' is not known",
+    );
+    list_unit_contradicts_cell: refused(
+        list_with(&[(3, 4, s("2 No")), (3, 5, s("m"))]),
+        Some("BoQ!E4"),
+        "but the Unit column says 'm'",
+    );
+    list_no_line: refused(
+        list_with(&[(1, 1, Cell::E), (2, 1, Cell::E), (3, 1, Cell::E)]),
+        Some("BoQ!C2"),
+        "no line for this row",
+    );
+    list_heading_unknown_line: refused(
+        list_with_heading("Line ZZ-9"),
+        Some("BoQ!A2"),
+        "known lines: L1",
+    );
+    list_blank_description: refused(
+        list_with(&[(2, 2, Cell::E)]),
+        Some("BoQ!C3"),
+        "the description is blank",
+    );
+    list_quantity_not_a_quantity: refused(
+        list_with(&[(1, 4, s("twenty"))]),
+        Some("BoQ!E2"),
+        "is not a quantity",
+    );
+    // Item numbers in `Item` and the kind in `Description`: no duplicate-column error.
+    fittings_item_numbers_and_description: completes(
+        with_all(&[
+            ("Fittings", 0, 8, s("Description")),
+            ("Fittings", 1, 2, s("1.1")),
+            ("Fittings", 2, 2, s("1.2")),
+            ("Fittings", 1, 8, s("90 elbow")),
+            ("Fittings", 2, 8, s("gate valve")),
+        ]),
+        None,
+        "valve-gate",
+    );
+    list_heading_known_line: completes(
+        list_with_heading("LINE NO: L1"),
+        None,
+        "L1",
+    );
+    // --- far cells and large files (sparse and bounded reading) ---
+    stray_cells_far_on_every_sheet: completes(far_strays(), None, "L1");
+    stray_cell_at_xfd1048576: completes(at_last_cell(), None, "L1");
+    // 40 MB of spaces in the Pipes sheet compress about a thousandfold.
+    inflated_sheet_part: refused(inflated(), None, "--max-ratio");
+    inflated_sheet_part_allowed: completes(inflated(), None, "L1")
+        .with_args(&["--max-ratio", "100000"]);
+    inflated_sheet_part_over_size_limit: refused(
+        inflated(),
+        None,
+        "--max-unzipped-mb",
+    )
+    .with_args(&["--max-ratio", "100000", "--max-unzipped-mb", "16"]);
+    zip_directory_understates_a_part: refused(
+        understated(),
+        None,
+        "cannot read",
+    );
+    too_many_cells: refused(valid(), None, "--max-cells")
+        .with_args(&["--max-cells", "20"]);
+    cells_under_a_raised_limit: completes(valid(), None, "L1")
+        .with_args(&["--max-cells", "40"]);
+}
+
+#[test]
+fn the_corpus_holds_at_least_40_cases() {
+    // Names are unique: each is a test function.
+    assert!(
+        CASES.len() >= 40,
+        "the corpus must hold at least 40 cases, has {}",
+        CASES.len()
+    );
 }
 
 /// Rows and columns of a worksheet (the `.xlsx` limits: `XFD1048576` is the last cell).
@@ -777,7 +733,7 @@ fn at_last_cell() -> Vec<u8> {
 
 /// The base station with 40 MB of spaces inside the Pipes sheet's XML (sheet2.xml).
 fn inflated() -> Vec<u8> {
-    support::padded(
+    padded(
         &xlsx(&base_station()),
         "xl/worksheets/sheet2.xml",
         "<sheetData>",
@@ -821,8 +777,15 @@ const CTRL: &str = "L\u{1}1\u{7}\tx";
 /// A line id in Arabic script with a right-to-left override character.
 const RTL: &str = "خط-١\u{202E}";
 
-fn check(case: &Case) -> Result<(), String> {
-    let dir = support::temp_dir(case.name);
+/// Run one case; panics with the case name and what went wrong.
+fn check(name: &str, case: &Case) {
+    if let Err(e) = outcome(name, case) {
+        panic!("[{name}] {e}");
+    }
+}
+
+fn outcome(name: &str, case: &Case) -> Result<(), String> {
+    let dir = temp_dir(name);
     let input = dir.join(case.file);
     std::fs::write(&input, &case.bytes).map_err(|e| e.to_string())?;
     let json = dir.join("out.json");
@@ -833,10 +796,11 @@ fn check(case: &Case) -> Result<(), String> {
         json.as_os_str(),
     ];
     args.extend(case.args.iter().map(OsStr::new));
-    let out = support::run(&args);
-    let stderr = String::from_utf8_lossy(&out.stderr).into_owned();
-    let stdout = String::from_utf8_lossy(&out.stdout).into_owned();
-    let code = out.status.code();
+    let Ran {
+        code,
+        stdout,
+        stderr,
+    } = run(&args);
     let ctx = || {
         format!(
             "exit {code:?}\n--- stderr ---\n{}\n--- stdout ---\n{}",
@@ -874,7 +838,7 @@ fn check(case: &Case) -> Result<(), String> {
                     ctx()
                 ));
             }
-            let left = support::entries(&dir);
+            let left = entries(&dir);
             if left != [case.file.to_string()] {
                 return Err(format!("files left in the folder: {left:?}"));
             }
@@ -957,22 +921,17 @@ fn baseline_nulls() -> &'static std::collections::HashSet<String> {
     static NULLS: std::sync::OnceLock<std::collections::HashSet<String>> =
         std::sync::OnceLock::new();
     NULLS.get_or_init(|| {
-        let dir = support::temp_dir("baseline");
+        let dir = temp_dir("baseline");
         let input = dir.join("base.xlsx");
         std::fs::write(&input, xlsx(&base_station())).expect("write base");
         let json = dir.join("base.json");
-        let out = support::run(&[
+        let out = run(&[
             OsStr::new("audit"),
             input.as_os_str(),
             OsStr::new("--json"),
             json.as_os_str(),
         ]);
-        assert_eq!(
-            out.status.code(),
-            Some(0),
-            "base station must audit: {}",
-            String::from_utf8_lossy(&out.stderr)
-        );
+        assert_eq!(out.code, Some(0), "base station must audit: {}", out.stderr);
         let doc: serde_json::Value =
             serde_json::from_str(&std::fs::read_to_string(&json).expect("json")).expect("parse");
         // Finding fields that are optional by contract (a finding need not name a line or tag).
@@ -987,7 +946,7 @@ fn baseline_nulls() -> &'static std::collections::HashSet<String> {
 fn check_workbook_finite(path: &std::path::Path) -> Result<(), String> {
     use calamine::Data;
     // Read cell by cell: a copy keeping a stray value at XFD1048576 is no dense range.
-    for (name, cells) in support::read_cells(path) {
+    for (name, cells) in read_cells(path) {
         for (&(r, c), d) in &cells {
             let bad = match d {
                 Data::Float(x) => !x.is_finite(),
@@ -1005,49 +964,26 @@ fn check_workbook_finite(path: &std::path::Path) -> Result<(), String> {
 }
 
 #[test]
-fn bad_input_corpus() {
-    let cases = cases();
-    assert!(
-        cases.len() >= 40,
-        "the corpus must hold at least 40 cases, has {}",
-        cases.len()
-    );
-    let names: std::collections::HashSet<_> = cases.iter().map(|c| c.name).collect();
-    assert_eq!(names.len(), cases.len(), "case names must be unique");
-    let failures: Vec<String> = cases
-        .iter()
-        .filter_map(|c| check(c).err().map(|e| format!("[{}] {e}", c.name)))
-        .collect();
-    assert!(
-        failures.is_empty(),
-        "{} of {} cases failed:\n\n{}",
-        failures.len(),
-        cases.len(),
-        failures.join("\n\n")
-    );
-}
-
-#[test]
 fn missing_input_and_directory_input_are_refused() {
-    let dir = support::temp_dir("missing");
+    let dir = temp_dir("missing");
     let missing = dir.join("nope.xlsx");
-    let out = support::run(&[OsStr::new("audit"), missing.as_os_str()]);
-    assert_eq!(out.status.code(), Some(2));
-    let err = String::from_utf8_lossy(&out.stderr);
+    let out = run(&[OsStr::new("audit"), missing.as_os_str()]);
+    assert_eq!(out.code, Some(2));
+    let err = &out.stderr;
     assert!(
         err.contains("nope.xlsx") && !err.contains("panicked"),
         "{err}"
     );
     let sub = dir.join("folder.xlsx");
     std::fs::create_dir(&sub).unwrap();
-    let out = support::run(&[OsStr::new("audit"), sub.as_os_str()]);
-    assert_eq!(out.status.code(), Some(2));
-    let err = String::from_utf8_lossy(&out.stderr);
+    let out = run(&[OsStr::new("audit"), sub.as_os_str()]);
+    assert_eq!(out.code, Some(2));
+    let err = &out.stderr;
     assert!(
         err.contains("folder.xlsx") && !err.contains("panicked"),
         "{err}"
     );
-    assert_eq!(support::entries(&dir), ["folder.xlsx"]);
+    assert_eq!(entries(&dir), ["folder.xlsx"]);
 }
 
 /// Every reason a mixed-list row is skipped or left out, through the binary: `check` lists each
@@ -1080,17 +1016,12 @@ fn list_rows_skipped_with_their_reasons() {
         }
     }
     boq.set(13, 0, s("Note: rates exclude VAT"));
-    let dir = support::temp_dir("list-skips");
+    let dir = temp_dir("list-skips");
     let input = dir.join("station.xlsx");
     std::fs::write(&input, xlsx(&st)).expect("write");
-    let out = support::run(&[OsStr::new("check"), input.as_os_str()]);
-    let stdout = String::from_utf8_lossy(&out.stdout).into_owned();
-    assert_eq!(
-        out.status.code(),
-        Some(0),
-        "{stdout}\n{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
+    let out = run(&[OsStr::new("check"), input.as_os_str()]);
+    let stdout = &out.stdout;
+    assert_eq!(out.code, Some(0), "{stdout}\n{}", out.stderr);
     for want in [
         "BoQ!C5: a totals or carried row ('To collection')",
         "BoQ!A6: preliminaries or an allowance (unit 'Sum')",
@@ -1109,13 +1040,8 @@ fn list_rows_skipped_with_their_reasons() {
             "check does not list {want:?}:\n{stdout}"
         );
     }
-    let audit = support::run(&[OsStr::new("audit"), input.as_os_str()]);
-    assert_eq!(
-        audit.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&audit.stderr)
-    );
+    let audit = run(&[OsStr::new("audit"), input.as_os_str()]);
+    assert_eq!(audit.code, Some(0), "{}", audit.stderr);
     let _ = std::fs::remove_dir_all(&dir);
 }
 
@@ -1124,7 +1050,7 @@ fn list_rows_skipped_with_their_reasons() {
 /// the run reports it as outside every table, and the computed columns stay beside their table.
 #[test]
 fn far_stray_cells_are_kept_and_reported() {
-    let dir = support::temp_dir("far-strays");
+    let dir = temp_dir("far-strays");
     let input = dir.join("station.xlsx");
     let mut st = base_station();
     for (i, sh) in st.iter_mut().enumerate() {
@@ -1134,14 +1060,14 @@ fn far_stray_cells_are_kept_and_reported() {
     sheet(&mut st, "Pipes").put(LAST_ROW, LAST_COL, n(7.0));
     std::fs::write(&input, xlsx(&st)).expect("write");
     let out = dir.join("out.xlsx");
-    let res = support::run(&[
+    let res = run(&[
         OsStr::new("audit"),
         input.as_os_str(),
         OsStr::new("-o"),
         out.as_os_str(),
     ]);
-    let stderr = String::from_utf8_lossy(&res.stderr);
-    assert_eq!(res.status.code(), Some(0), "{stderr}");
+    let stderr = &res.stderr;
+    assert_eq!(res.code, Some(0), "{stderr}");
     for name in ["Lines", "Pipes", "Fittings"] {
         // One line per sheet, naming its first stray cell (the last column of row 2).
         assert!(
@@ -1150,7 +1076,7 @@ fn far_stray_cells_are_kept_and_reported() {
         );
     }
     assert!(stderr.contains("Pipes!XFD1048576"), "{stderr}");
-    let copy = support::read_cells(&out);
+    let copy = read_cells(&out);
     for (i, name) in ["Lines", "Pipes", "Fittings"].iter().enumerate() {
         let cells = &copy[*name];
         assert_eq!(
@@ -1181,23 +1107,23 @@ fn far_stray_cells_are_kept_and_reported() {
 /// (exit 2, the file and the flag named, nothing written) and read under the default.
 #[test]
 fn limit_flags_apply_to_check_and_compare() {
-    let dir = support::temp_dir("limit-flags");
+    let dir = temp_dir("limit-flags");
     let input = dir.join("station.xlsx");
     std::fs::write(&input, xlsx(&base_station())).expect("write");
     let low = [OsStr::new("--max-cells"), OsStr::new("20")];
     let check = |extra: &[&OsStr]| {
         let mut args = vec![OsStr::new("check"), input.as_os_str()];
         args.extend_from_slice(extra);
-        support::run(&args)
+        run(&args)
     };
     let refused = check(&low);
-    let err = String::from_utf8_lossy(&refused.stderr);
-    assert_eq!(refused.status.code(), Some(2), "{err}");
+    let err = &refused.stderr;
+    assert_eq!(refused.code, Some(2), "{err}");
     assert!(
         err.contains("station.xlsx") && err.contains("--max-cells") && err.contains("20 cells"),
         "{err}"
     );
-    assert_eq!(check(&[]).status.code(), Some(0));
+    assert_eq!(check(&[]).code, Some(0));
     let out = dir.join("cmp.xlsx");
     let mut args = vec![
         OsStr::new("compare"),
@@ -1207,10 +1133,10 @@ fn limit_flags_apply_to_check_and_compare() {
         out.as_os_str(),
     ];
     args.extend_from_slice(&low);
-    let cmp = support::run(&args);
-    let err = String::from_utf8_lossy(&cmp.stderr);
-    assert_eq!(cmp.status.code(), Some(2), "{err}");
+    let cmp = run(&args);
+    let err = &cmp.stderr;
+    assert_eq!(cmp.code, Some(2), "{err}");
     assert!(err.contains("--max-cells"), "{err}");
-    assert_eq!(support::entries(&dir), ["station.xlsx"]);
+    assert_eq!(entries(&dir), ["station.xlsx"]);
     let _ = std::fs::remove_dir_all(&dir);
 }

@@ -9,15 +9,13 @@ use lossledger::error::Severity;
 use lossledger::ingest::{InputSource, ReadOptions};
 use lossledger::pipeline::{Audited, read_and_audit};
 use std::path::{Path, PathBuf};
-use std::process::Command;
 
 mod common;
-use common::{C, book, rel};
-
-/// Standard acceleration of gravity, m/s² (3rd CGPM, 1901; exact).
-const G: f64 = 9.80665;
-/// Relative tolerance where the same doubles meet by a different route (powers, products).
-const FORMULA_TOL: f64 = 1e-9;
+use common::bin::{Ran, Runs, bin, os};
+use common::book::{Cell, book, n, s};
+use common::facts::G;
+use common::readback::{open, read_json};
+use common::tol::{REL_TOL_SAME_ARITHMETIC, rel};
 
 const LINES_H: &[&str] = &["Line", "Service", "Flow [m3/h]", "Temperature [°C]"];
 // Size last, so the other columns keep their letters; the bore given overrides the size's bore.
@@ -34,42 +32,41 @@ const SYSTEMS_H: &[&str] = &["System", "Lines", "Static head [m]", "Pump head [m
 
 /// One invented revision: rows of each sheet (headers above).
 struct Rev {
-    lines: Vec<Vec<C>>,
-    pipes: Vec<Vec<C>>,
-    fittings: Vec<Vec<C>>,
-    systems: Vec<Vec<C>>,
+    lines: Vec<Vec<Cell>>,
+    pipes: Vec<Vec<Cell>>,
+    fittings: Vec<Vec<Cell>>,
+    systems: Vec<Vec<Cell>>,
 }
 
 /// Revision A of an invented booster set: a suction line, a two-run discharge line and a
 /// general line. Hazen–Williams runs with given bores and K, so effects follow closed formulas.
 fn rev_a() -> Rev {
-    use C::{N, S};
     Rev {
         lines: vec![
-            vec![S("S1"), S("pump-suction"), N(144.0), N(20.0)],
-            vec![S("D1"), S("pump-discharge"), N(144.0), N(20.0)],
-            vec![S("G1"), S("general"), N(30.0), N(20.0)],
+            vec![s("S1"), s("pump-suction"), n(144.0), n(20.0)],
+            vec![s("D1"), s("pump-discharge"), n(144.0), n(20.0)],
+            vec![s("G1"), s("general"), n(30.0), n(20.0)],
         ],
         pipes: vec![
-            vec![S("S1"), N(1.0), N(200.0), N(10.0), N(120.0), S("DN200")],
-            vec![S("D1"), N(1.0), N(150.0), N(200.0), N(120.0), S("DN150")],
-            vec![S("D1"), N(2.0), N(150.0), N(50.0), N(120.0), S("DN150")],
-            vec![S("G1"), N(1.0), N(80.0), N(40.0), N(120.0), S("DN80")],
+            vec![s("S1"), n(1.0), n(200.0), n(10.0), n(120.0), s("DN200")],
+            vec![s("D1"), n(1.0), n(150.0), n(200.0), n(120.0), s("DN150")],
+            vec![s("D1"), n(2.0), n(150.0), n(50.0), n(120.0), s("DN150")],
+            vec![s("G1"), n(1.0), n(80.0), n(40.0), n(120.0), s("DN80")],
         ],
         fittings: vec![
-            vec![S("S1-V"), S("S1"), S("gate valve"), N(0.5), S("DN200")],
-            vec![S("D1-V"), S("D1"), S("gate valve"), N(0.2), S("DN150")],
-            vec![S("D1-E"), S("D1"), S("90 elbow"), N(0.9), S("DN150")],
-            vec![S("G1-E"), S("G1"), S("90 elbow"), N(0.9), S("DN80")],
+            vec![s("S1-V"), s("S1"), s("gate valve"), n(0.5), s("DN200")],
+            vec![s("D1-V"), s("D1"), s("gate valve"), n(0.2), s("DN150")],
+            vec![s("D1-E"), s("D1"), s("90 elbow"), n(0.9), s("DN150")],
+            vec![s("G1-E"), s("G1"), s("90 elbow"), n(0.9), s("DN80")],
         ],
-        systems: vec![vec![S("Booster"), S("S1, D1"), N(12.0), N(30.0)]],
+        systems: vec![vec![s("Booster"), s("S1, D1"), n(12.0), n(30.0)]],
     }
 }
 
 /// Give a run another bore and its nominal size.
-fn resize(run: &mut [C], bore_mm: f64, size: &'static str) {
-    run[2] = C::N(bore_mm);
-    run[5] = C::S(size);
+fn resize(run: &mut [Cell], bore_mm: f64, size: &'static str) {
+    run[2] = n(bore_mm);
+    run[5] = s(size);
 }
 
 fn write(name: &str, r: Rev) -> PathBuf {
@@ -122,16 +119,9 @@ fn num(v: &Option<Value>) -> f64 {
     }
 }
 
-fn bin() -> Command {
-    Command::new(env!("CARGO_BIN_EXE_lossledger"))
-}
-
-fn run(args: &[&std::ffi::OsStr]) -> std::process::Output {
-    bin().arg("compare").args(args).output().unwrap()
-}
-
-fn os<P: AsRef<std::ffi::OsStr> + ?Sized>(p: &P) -> &std::ffi::OsStr {
-    p.as_ref()
+/// Run `lossledger compare` with `args`.
+fn run(args: &[&std::ffi::OsStr]) -> Ran {
+    bin().arg("compare").args(args).ran()
 }
 
 // Hazen–Williams: h = 10.67 L Q^1.852 / (C^1.852 D^4.8704) (SI form as tabulated in hydraulics
@@ -176,7 +166,7 @@ fn a_size_change_on_one_run_changes_head_by_the_two_audits_difference() {
         .unwrap()
         .head_m;
     let expected = run2_old * ((150.0f64 / 125.0).powf(4.8704) - 1.0);
-    assert!(rel(e.friction_head_m.change.unwrap(), expected) < FORMULA_TOL);
+    assert!(rel(e.friction_head_m.change.unwrap(), expected) < REL_TOL_SAME_ARITHMETIC);
     // The largest head change is listed first; the other lines did not move.
     assert_eq!(c.lines[0].line, "D1");
     assert_eq!(effect(&c, "G1").status, Status::Unchanged);
@@ -187,7 +177,7 @@ fn a_size_change_on_one_run_changes_head_by_the_two_audits_difference() {
         rel(
             s.required_head_m.change.unwrap(),
             e.total_head_m.change.unwrap()
-        ) < FORMULA_TOL
+        ) < REL_TOL_SAME_ARITHMETIC
     );
 }
 
@@ -197,11 +187,11 @@ fn a_fitting_added_and_one_removed_are_listed_and_priced_by_velocity_head() {
     let (old, new, c) = pair("fittings", |b| {
         b.fittings.remove(2);
         b.fittings.push(vec![
-            C::S("D1-C"),
-            C::S("D1"),
-            C::S("swing check valve"),
-            C::N(2.0),
-            C::S("DN150"),
+            s("D1-C"),
+            s("D1"),
+            s("swing check valve"),
+            n(2.0),
+            s("DN150"),
         ]);
     });
     let removed = of_kind(&c, ChangeKind::FittingRemoved);
@@ -227,13 +217,13 @@ fn a_fitting_added_and_one_removed_are_listed_and_priced_by_velocity_head() {
     assert_eq!(e.friction_head_m.change, Some(0.0));
     let v = 144.0 / 3600.0 / (std::f64::consts::PI * 0.150 * 0.150 / 4.0);
     let expected = (2.0 - 0.9) * v * v / (2.0 * G);
-    assert!(rel(e.fittings_head_m.change.unwrap(), expected) < FORMULA_TOL);
+    assert!(rel(e.fittings_head_m.change.unwrap(), expected) < REL_TOL_SAME_ARITHMETIC);
 }
 
 // Hazen–Williams: at the same pipe, h scales as Q^1.852.
 #[test]
 fn a_flow_change_is_a_line_change_and_scales_friction_by_the_flow_exponent() {
-    let (old, new, c) = pair("flow", |b| b.lines[2][2] = C::N(45.0));
+    let (old, new, c) = pair("flow", |b| b.lines[2][2] = n(45.0));
     let changed = of_kind(&c, ChangeKind::LineChanged);
     assert_eq!(changed.len(), 1, "{:?}", c.changes);
     assert_eq!(changed[0].field, Some("flow_m3_s"));
@@ -250,24 +240,19 @@ fn a_flow_change_is_a_line_change_and_scales_friction_by_the_flow_exponent() {
         Some(ln.total_head_m - lo.total_head_m)
     );
     let expected = lo.friction_head_m * (1.5f64.powf(1.852) - 1.0);
-    assert!(rel(e.friction_head_m.change.unwrap(), expected) < FORMULA_TOL);
+    assert!(rel(e.friction_head_m.change.unwrap(), expected) < REL_TOL_SAME_ARITHMETIC);
     // Fittings: K v²/2g scales as the square of the flow.
-    assert!(rel(e.fittings_head_m.change.unwrap(), lo.fittings_head_m * 1.25) < FORMULA_TOL);
+    assert!(
+        rel(e.fittings_head_m.change.unwrap(), lo.fittings_head_m * 1.25) < REL_TOL_SAME_ARITHMETIC
+    );
     assert!(e.max_velocity_m_s.change.unwrap() > 0.0);
 }
 
 #[test]
 fn a_line_removed_and_another_added() {
     let (old, new, c) = pair("addremove", |b| {
-        b.lines[2] = vec![C::S("G2"), C::S("general"), C::N(20.0), C::N(20.0)];
-        b.pipes[3] = vec![
-            C::S("G2"),
-            C::N(1.0),
-            C::N(65.0),
-            C::N(12.0),
-            C::N(130.0),
-            C::S("DN65"),
-        ];
+        b.lines[2] = vec![s("G2"), s("general"), n(20.0), n(20.0)];
+        b.pipes[3] = vec![s("G2"), n(1.0), n(65.0), n(12.0), n(130.0), s("DN65")];
         b.fittings.pop();
     });
     let removed = of_kind(&c, ChangeKind::LineRemoved);
@@ -294,9 +279,9 @@ fn a_line_removed_and_another_added() {
 #[test]
 fn a_renamed_line_is_removed_and_added_with_a_hint() {
     let (_, _, c) = pair("rename", |b| {
-        b.lines[2][0] = C::S("G1-R");
-        b.pipes[3][0] = C::S("G1-R");
-        b.fittings[3][1] = C::S("G1-R");
+        b.lines[2][0] = s("G1-R");
+        b.pipes[3][0] = s("G1-R");
+        b.fittings[3][1] = s("G1-R");
     });
     let added = of_kind(&c, ChangeKind::LineAdded);
     let removed = of_kind(&c, ChangeKind::LineRemoved);
@@ -315,7 +300,7 @@ fn a_renamed_line_is_removed_and_added_with_a_hint() {
 
 #[test]
 fn a_pump_head_cut_flips_the_duty_verdict_as_an_error() {
-    let (old, new, c) = pair("verdict", |b| b.systems[0][3] = C::N(20.0));
+    let (old, new, c) = pair("verdict", |b| b.systems[0][3] = n(20.0));
     let s = &c.systems[0];
     assert_eq!(s.duty.old, Some(Verdict::Holds));
     assert_eq!(s.duty.new, Some(Verdict::Fails));
@@ -341,7 +326,7 @@ fn a_pump_head_cut_flips_the_duty_verdict_as_an_error() {
 fn untagged_fittings_are_matched_by_line_kind_and_size_and_say_so() {
     let untag = |r: &mut Rev| {
         for f in &mut r.fittings {
-            f[0] = C::E;
+            f[0] = Cell::E;
         }
     };
     let old = side(&write("untagged-a", {
@@ -351,7 +336,7 @@ fn untagged_fittings_are_matched_by_line_kind_and_size_and_say_so() {
     }));
     let mut b = rev_a();
     untag(&mut b);
-    b.fittings[2][3] = C::N(1.2);
+    b.fittings[2][3] = n(1.2);
     let new = side(&write("untagged-b", b));
     let c = compare::compare(&old, &new);
     assert_eq!(c.matching.fittings_by_line_kind_size, 4);
@@ -370,14 +355,14 @@ fn untagged_fittings_are_matched_by_line_kind_and_size_and_say_so() {
 fn runs_without_seq_are_matched_by_position_and_say_so() {
     let drop_seq = |r: &mut Rev| {
         for p in &mut r.pipes {
-            p[1] = C::E;
+            p[1] = Cell::E;
         }
     };
     let mut a = rev_a();
     drop_seq(&mut a);
     let mut b = rev_a();
     drop_seq(&mut b);
-    b.pipes[2][3] = C::N(80.0);
+    b.pipes[2][3] = n(80.0);
     let c = compare::compare(&side(&write("noseq-a", a)), &side(&write("noseq-b", b)));
     let changed = of_kind(&c, ChangeKind::RunChanged);
     assert_eq!(changed.len(), 1, "{:?}", c.changes);
@@ -404,20 +389,11 @@ fn dir_of(p: &Path) -> PathBuf {
 fn binary_same_input_twice_prints_no_changes_and_exits_0() {
     let a = write("bin-same", rev_a());
     let out = run(&[os(&a), os(&a)]);
-    let stdout = String::from_utf8_lossy(&out.stdout);
-    assert_eq!(
-        out.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
+    let stdout = &out.stdout;
+    assert_eq!(out.code, Some(0), "{}", &out.stderr);
     assert!(stdout.contains("No changes"), "{stdout}");
     assert!(stdout.contains("INVENTED DATA"), "{stdout}");
     assert!(dir_of(&a).join("bin-same.compare.xlsx").exists());
-}
-
-fn json_of(p: &Path) -> serde_json::Value {
-    serde_json::from_str(&std::fs::read_to_string(p).unwrap()).unwrap()
 }
 
 #[test]
@@ -425,34 +401,26 @@ fn json_numbers_equal_the_difference_of_the_two_audit_jsons_exactly() {
     let a = write("json-a", rev_a());
     let mut rb = rev_a();
     resize(&mut rb.pipes[2], 125.0, "DN125");
-    rb.lines[2][2] = C::N(45.0);
-    rb.systems[0][3] = C::N(24.0);
+    rb.lines[2][2] = n(45.0);
+    rb.systems[0][3] = n(24.0);
     let b = write("json-b", rb);
     let d = dir_of(&b);
     let (ja, jb, jc) = (d.join("a.json"), d.join("b.json"), d.join("c.json"));
     for (input, json) in [(&a, &ja), (&b, &jb)] {
         let o = d.join("audit.xlsx");
-        let out = bin()
-            .args([
-                os("audit"),
-                os(input),
-                os("-o"),
-                os(&o),
-                os("--json"),
-                os(json),
-            ])
-            .output()
-            .unwrap();
-        assert_eq!(out.status.code(), Some(0));
+        let out = common::bin::run(&[
+            os("audit"),
+            os(input),
+            os("-o"),
+            os(&o),
+            os("--json"),
+            os(json),
+        ]);
+        assert_eq!(out.code, Some(0));
     }
     let out = run(&[os(&a), os(&b), os("--json"), os(&jc)]);
-    assert_eq!(
-        out.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let (ja, jb, jc) = (json_of(&ja), json_of(&jb), json_of(&jc));
+    assert_eq!(out.code, Some(0), "{}", &out.stderr);
+    let (ja, jb, jc) = (read_json(&ja), read_json(&jb), read_json(&jc));
     let audit_line = |j: &serde_json::Value, id: &str, key: &str| {
         j["lines"]
             .as_array()
@@ -504,21 +472,16 @@ fn json_numbers_equal_the_difference_of_the_two_audit_jsons_exactly() {
 
 #[test]
 fn flag_output_writes_the_workbook_where_asked_with_its_sheets_and_links() {
-    use calamine::{Data, Reader, Xlsx, open_workbook};
+    use calamine::{Data, Reader};
     let a = write("out-a", rev_a());
     let mut rb = rev_a();
     resize(&mut rb.pipes[2], 125.0, "DN125");
     let b = write("out-b", rb);
     let target = dir_of(&b).join("elsewhere.xlsx");
     let out = run(&[os(&a), os(&b), os("-o"), os(&target)]);
-    assert_eq!(
-        out.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
+    assert_eq!(out.code, Some(0), "{}", &out.stderr);
     assert!(!dir_of(&b).join("out-b.compare.xlsx").exists());
-    let mut wb: Xlsx<_> = open_workbook(&target).unwrap();
+    let mut wb = open(&target);
     let names = wb.sheet_names();
     // The input has its own Systems sheet, so the report's is named System effects.
     let expected = [
@@ -567,30 +530,25 @@ fn flag_output_writes_the_workbook_where_asked_with_its_sheets_and_links() {
 fn flag_json_dash_prints_the_comparison_on_standard_output() {
     let a = write("jsondash", rev_a());
     let out = run(&[os(&a), os(&a), os("--json"), os("-")]);
-    assert_eq!(out.status.code(), Some(0));
-    let j: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(out.code, Some(0));
+    let j: serde_json::Value = serde_json::from_str(&out.stdout).unwrap();
     assert_eq!(j["changes"].as_array().unwrap().len(), 0);
-    assert!(String::from_utf8_lossy(&out.stderr).contains("No changes"));
+    assert!(out.stderr.contains("No changes"));
 }
 
 #[test]
 fn flag_fail_on_error_exits_1_when_a_verdict_gets_worse() {
     let a = write("failon-a", rev_a());
     let mut rb = rev_a();
-    rb.systems[0][3] = C::N(20.0);
+    rb.systems[0][3] = n(20.0);
     let b = write("failon-b", rb);
     let plain = run(&[os(&a), os(&b)]);
-    assert_eq!(plain.status.code(), Some(0));
+    assert_eq!(plain.code, Some(0));
     let strict = run(&[os(&a), os(&b), os("--fail-on"), os("error")]);
-    assert_eq!(strict.status.code(), Some(1));
+    assert_eq!(strict.code, Some(1));
     // Back again: the verdict improves, nothing gets worse.
     let back = run(&[os(&b), os(&a), os("--fail-on"), os("error")]);
-    assert_eq!(
-        back.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&back.stdout)
-    );
+    assert_eq!(back.code, Some(0), "{}", &back.stdout);
 }
 
 #[test]
@@ -602,15 +560,11 @@ fn flag_fail_on_warning_exits_1_on_a_new_warning_finding() {
     resize(&mut rb.pipes[2], 100.0, "DN100");
     let b = write("failwarn-b", rb);
     assert_eq!(
-        run(&[os(&a), os(&b), os("--fail-on"), os("warning")])
-            .status
-            .code(),
+        run(&[os(&a), os(&b), os("--fail-on"), os("warning")]).code,
         Some(1)
     );
     assert_eq!(
-        run(&[os(&a), os(&a), os("--fail-on"), os("warning")])
-            .status
-            .code(),
+        run(&[os(&a), os(&a), os("--fail-on"), os("warning")]).code,
         Some(0)
     );
 }
@@ -619,7 +573,7 @@ fn flag_fail_on_warning_exits_1_on_a_new_warning_finding() {
 fn flag_rules_applies_to_both_sides() {
     let a = write("rules-a", rev_a());
     let mut rb = rev_a();
-    rb.lines[2][2] = C::N(45.0);
+    rb.lines[2][2] = n(45.0);
     let b = write("rules-b", rb);
     let d = dir_of(&b);
     let rules = d.join("tariff.toml");
@@ -637,13 +591,8 @@ fn flag_rules_applies_to_both_sides() {
         os("--json"),
         os(&j),
     ]);
-    assert_eq!(
-        out.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let jc = json_of(&j);
+    assert_eq!(out.code, Some(0), "{}", &out.stderr);
+    let jc = read_json(&j);
     assert_eq!(jc["energy"]["currency"], "XYZ");
     let r = Rules::from_file(&rules).unwrap();
     let audited = |p: &Path| {
@@ -667,7 +616,6 @@ fn flag_rules_applies_to_both_sides() {
 
 #[test]
 fn flag_map_reads_both_sides_with_the_header_map() {
-    use C::{N, S};
     let odd = |name: &str, len: f64| {
         book(
             name,
@@ -675,12 +623,12 @@ fn flag_map_reads_both_sides_with_the_header_map() {
                 (
                     "Lines",
                     LINES_H,
-                    vec![vec![S("M1"), S("general"), N(30.0), N(20.0)]],
+                    vec![vec![s("M1"), s("general"), n(30.0), n(20.0)]],
                 ),
                 (
                     "Takeoff",
                     &["Pipe ref", "Bore mm", "Run metres", "C factor"],
-                    vec![vec![S("M1"), N(80.0), N(len), N(120.0)]],
+                    vec![vec![s("M1"), n(80.0), n(len), n(120.0)]],
                 ),
             ],
         )
@@ -694,13 +642,8 @@ fn flag_map_reads_both_sides_with_the_header_map() {
     .unwrap();
     let j = dir_of(&b).join("c.json");
     let out = run(&[os(&a), os(&b), os("--map"), os(&map), os("--json"), os(&j)]);
-    assert_eq!(
-        out.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let jc = json_of(&j);
+    assert_eq!(out.code, Some(0), "{}", &out.stderr);
+    let jc = read_json(&j);
     let ch = &jc["changes"][0];
     assert_eq!(ch["field"], "length_m");
     assert_eq!(
@@ -710,23 +653,23 @@ fn flag_map_reads_both_sides_with_the_header_map() {
     assert_eq!(ch["new_cell"], "Takeoff!C2");
     // Without the map the Takeoff sheet is not a pipes table: the old side is reported bad.
     let bare = run(&[os(&a), os(&b)]);
-    assert_eq!(bare.status.code(), Some(2));
+    assert_eq!(bare.code, Some(2));
 }
 
 // NIST SP 811 (2008): 1 ft = 0.3048 m exactly.
 #[test]
 fn flag_units_us_reports_heads_in_feet() {
-    use calamine::{Data, Reader, Xlsx, open_workbook};
+    use calamine::{Data, Reader};
     let a = write("units-a", rev_a());
     let mut rb = rev_a();
     resize(&mut rb.pipes[2], 125.0, "DN125");
     let b = write("units-b", rb);
     let o = dir_of(&b).join("us.xlsx");
     let out = run(&[os(&a), os(&b), os("--units"), os("us"), os("-o"), os(&o)]);
-    assert_eq!(out.status.code(), Some(0));
-    let stdout = String::from_utf8_lossy(&out.stdout);
+    assert_eq!(out.code, Some(0));
+    let stdout = &out.stdout;
     assert!(stdout.contains("[ft]"), "{stdout}");
-    let mut wb: Xlsx<_> = open_workbook(&o).unwrap();
+    let mut wb = open(&o);
     let sheet = wb.worksheet_range("Line effects").unwrap();
     assert_eq!(
         sheet.get_value((0, 3)),
@@ -744,12 +687,12 @@ fn flag_units_us_reports_heads_in_feet() {
 fn a_bad_new_side_is_named_and_nothing_is_written() {
     let a = write("bad-a", rev_a());
     let mut rb = rev_a();
-    rb.pipes[1][3] = C::N(-5.0);
+    rb.pipes[1][3] = n(-5.0);
     let b = write("bad-b", rb);
     let j = dir_of(&b).join("bad.json");
     let out = run(&[os(&a), os(&b), os("--json"), os(&j)]);
-    let stderr = String::from_utf8_lossy(&out.stderr);
-    assert_eq!(out.status.code(), Some(2), "{stderr}");
+    let stderr = &out.stderr;
+    assert_eq!(out.code, Some(2), "{stderr}");
     assert!(stderr.contains("new: error"), "{stderr}");
     assert!(stderr.contains("Pipes!D3"), "{stderr}");
     assert!(!stderr.contains("old: error"), "{stderr}");
@@ -763,8 +706,8 @@ fn an_unreadable_old_side_is_named_and_nothing_is_written() {
     let a = dir_of(&b).join("not-a-workbook.xlsx");
     std::fs::write(&a, b"this is not a zip file").unwrap();
     let out = run(&[os(&a), os(&b)]);
-    let stderr = String::from_utf8_lossy(&out.stderr);
-    assert_eq!(out.status.code(), Some(2), "{stderr}");
+    let stderr = &out.stderr;
+    assert_eq!(out.code, Some(2), "{stderr}");
     assert!(stderr.contains("old revision"), "{stderr}");
     assert!(!dir_of(&b).join("unreadable-b.compare.xlsx").exists());
 }
@@ -773,7 +716,7 @@ fn an_unreadable_old_side_is_named_and_nothing_is_written() {
 fn the_output_never_overwrites_an_input() {
     let a = write("overwrite-a", rev_a());
     let out = run(&[os(&a), os(&a), os("-o"), os(&a)]);
-    assert_eq!(out.status.code(), Some(2));
+    assert_eq!(out.code, Some(2));
     assert!(lossledger::ingest::read_path(&a).unwrap().error_count() == 0);
 }
 
@@ -819,15 +762,12 @@ fn each_messy_fixture_compares_to_no_changes_against_its_canonical_twin() {
 fn the_same_pair_gives_a_byte_identical_workbook() {
     let a = write("bytes-a", rev_a());
     let mut rb = rev_a();
-    rb.fittings[1][3] = C::N(0.4);
+    rb.fittings[1][3] = n(0.4);
     let b = write("bytes-b", rb);
     let d = dir_of(&b);
     let (x, y) = (d.join("x.xlsx"), d.join("y.xlsx"));
     for o in [&x, &y] {
-        assert_eq!(
-            run(&[os(&a), os(&b), os("-o"), os(o)]).status.code(),
-            Some(0)
-        );
+        assert_eq!(run(&[os(&a), os(&b), os("-o"), os(o)]).code, Some(0));
     }
     assert_eq!(std::fs::read(&x).unwrap(), std::fs::read(&y).unwrap());
 }
@@ -835,8 +775,8 @@ fn the_same_pair_gives_a_byte_identical_workbook() {
 #[test]
 fn worse_changes_come_first() {
     let (_, _, c) = pair("order", |b| {
-        b.systems[0][3] = C::N(20.0);
-        b.lines[2][2] = C::N(45.0);
+        b.systems[0][3] = n(20.0);
+        b.lines[2][2] = n(45.0);
     });
     let sev: Vec<Severity> = c.changes.iter().map(|x| x.severity).collect();
     let mut sorted = sev.clone();
@@ -862,12 +802,12 @@ fn an_npsh_required_raise_flips_the_npsh_verdict_as_an_error() {
     let rev = |name: &str, npshr: f64| {
         let r = rev_a();
         let systems = vec![vec![
-            C::S("Booster"),
-            C::S("S1, D1"),
-            C::N(12.0),
-            C::N(30.0),
-            C::N(npshr),
-            C::N(2.0),
+            s("Booster"),
+            s("S1, D1"),
+            n(12.0),
+            n(30.0),
+            n(npshr),
+            n(2.0),
         ]];
         side(&book(
             name,

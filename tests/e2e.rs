@@ -2,42 +2,27 @@
 //! JSON against the workbook, the input left untouched, byte-identical reruns, and the basic
 //! bad-input classes (exit 2, file and cell named, nothing written).
 
-use calamine::{Data, Reader, Xlsx, open_workbook};
-use std::path::{Path, PathBuf};
-use std::process::Command;
+mod common;
 
-fn bin() -> Command {
-    Command::new(env!("CARGO_BIN_EXE_lossledger"))
-}
-
-fn temp_dir(name: &str) -> PathBuf {
-    let d = std::env::temp_dir().join(format!("lossledger-e2e-{name}-{}", std::process::id()));
-    let _ = std::fs::remove_dir_all(&d);
-    std::fs::create_dir_all(&d).unwrap();
-    d
-}
-
-fn run_demo(dir: &Path) {
-    let out = bin().arg("demo").arg("--dir").arg(dir).output().unwrap();
-    assert!(
-        out.status.success(),
-        "demo failed: {}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    assert!(!String::from_utf8_lossy(&out.stderr).contains("panicked"));
-}
+use calamine::{Data, Reader};
+use common::bin::{Runs, bin, demo};
+use common::book::{Sheet, s, texts, xlsx};
+use common::dirs::{entries, temp_dir};
+use common::facts::G;
+use common::readback::{open, read_json};
+use std::path::PathBuf;
 
 #[test]
 fn demo_audit_keeps_every_input_cell_and_matches_json() {
     let dir = temp_dir("demo");
-    run_demo(&dir);
+    demo(&dir);
     let input = dir.join("kestrel-ridge.xlsx");
     let audit = dir.join("kestrel-ridge.audit.xlsx");
     let json = dir.join("kestrel-ridge.audit.json");
     let input_bytes = std::fs::read(&input).unwrap();
 
-    let mut src: Xlsx<_> = open_workbook(&input).unwrap();
-    let mut out: Xlsx<_> = open_workbook(&audit).unwrap();
+    let mut src = open(&input);
+    let mut out = open(&audit);
     let names = out.sheet_names();
     for required in ["Summary", "Findings", "Basis", "Lines", "Pipes", "Fittings"] {
         assert!(
@@ -76,7 +61,7 @@ fn demo_audit_keeps_every_input_cell_and_matches_json() {
     }
 
     // JSON: valid, and its numbers are the workbook's numbers.
-    let doc: serde_json::Value = serde_json::from_slice(&std::fs::read(&json).unwrap()).unwrap();
+    let doc: serde_json::Value = read_json(&json);
     assert!(doc["lossledger"].is_string());
     assert_eq!(doc["input"]["sha256"].as_str().unwrap().len(), 64);
     let lines = doc["lines"].as_array().unwrap();
@@ -179,19 +164,13 @@ fn demo_audit_keeps_every_input_cell_and_matches_json() {
 #[test]
 fn same_input_gives_a_byte_identical_workbook() {
     let dir = temp_dir("repeat");
-    run_demo(&dir);
+    demo(&dir);
     let input = dir.join("kestrel-ridge.xlsx");
     let a = dir.join("a.xlsx");
     let b = dir.join("b.xlsx");
     for out in [&a, &b] {
-        let o = bin()
-            .arg("audit")
-            .arg(&input)
-            .arg("-o")
-            .arg(out)
-            .output()
-            .unwrap();
-        assert!(o.status.success());
+        let o = bin().arg("audit").arg(&input).arg("-o").arg(out).ran();
+        assert_eq!(o.code, Some(0));
     }
     assert_eq!(std::fs::read(&a).unwrap(), std::fs::read(&b).unwrap());
     std::fs::remove_dir_all(&dir).ok();
@@ -200,61 +179,40 @@ fn same_input_gives_a_byte_identical_workbook() {
 #[test]
 fn refuses_to_write_over_the_input() {
     let dir = temp_dir("over");
-    run_demo(&dir);
+    demo(&dir);
     let input = dir.join("kestrel-ridge.xlsx");
     let before = std::fs::read(&input).unwrap();
-    let o = bin()
-        .arg("audit")
-        .arg(&input)
-        .arg("-o")
-        .arg(&input)
-        .output()
-        .unwrap();
-    assert_eq!(o.status.code(), Some(2));
-    assert!(String::from_utf8_lossy(&o.stderr).contains("refusing"));
+    let o = bin().arg("audit").arg(&input).arg("-o").arg(&input).ran();
+    assert_eq!(o.code, Some(2));
+    assert!(o.stderr.contains("refusing"));
     assert_eq!(std::fs::read(&input).unwrap(), before);
     std::fs::remove_dir_all(&dir).ok();
 }
 
-/// Write a small canonical workbook with one cell overridden, audit it, and return (exit, stderr).
-fn audit_with(
-    name: &str,
-    edit: impl Fn(&mut rust_xlsxwriter::Workbook),
-) -> (Option<i32>, String, PathBuf) {
+/// Write a small workbook of `sheets`, audit it, and return (exit, stderr, its folder).
+fn audit_with(name: &str, sheets: &[Sheet]) -> (Option<i32>, String, PathBuf) {
     let dir = temp_dir(name);
     let path = dir.join(format!("{name}.xlsx"));
-    let mut wb = rust_xlsxwriter::Workbook::new();
-    edit(&mut wb);
-    wb.save(&path).unwrap();
-    let o = bin().arg("audit").arg(&path).output().unwrap();
-    let stderr = String::from_utf8_lossy(&o.stderr).to_string();
-    assert!(!stderr.contains("panicked"), "{stderr}");
-    (o.status.code(), stderr, dir)
+    std::fs::write(&path, xlsx(sheets)).unwrap();
+    let o = bin().arg("audit").arg(&path).ran();
+    assert!(!o.stderr.contains("panicked"), "{}", o.stderr);
+    (o.code, o.stderr, dir)
 }
 
-fn pipes(wb: &mut rust_xlsxwriter::Workbook, headers: &[&str], row: &[&str]) {
-    let ws = wb.add_worksheet();
-    ws.set_name("Pipes").unwrap();
-    for (c, h) in headers.iter().enumerate() {
-        ws.write_string(0, c as u16, *h).unwrap();
-    }
-    for (c, v) in row.iter().enumerate() {
-        match v.parse::<f64>() {
-            Ok(x) => ws.write_number(1, c as u16, x).map(|_| ()).unwrap(),
-            Err(_) => ws.write_string(1, c as u16, *v).map(|_| ()).unwrap(),
-        }
-    }
+/// A sheet with headers in row 1 and one row of values (numbers where they parse).
+fn sheet_row(name: &str, headers: &[&str], row: &[&str]) -> Sheet {
+    Sheet::table(name, headers, vec![texts(row)])
+}
+
+/// A Pipes sheet with headers in row 1 and one row of values.
+fn pipes(headers: &[&str], row: &[&str]) -> Vec<Sheet> {
+    vec![sheet_row("Pipes", headers, row)]
 }
 
 const H: &[&str] = &["Line", "Size", "Material", "Length [m]", "Flow [m3/h]"];
 
-fn assert_refused(
-    name: &str,
-    edit: impl Fn(&mut rust_xlsxwriter::Workbook),
-    cell: &str,
-    words: &str,
-) {
-    let (code, stderr, dir) = audit_with(name, edit);
+fn assert_refused(name: &str, sheets: &[Sheet], cell: &str, words: &str) {
+    let (code, stderr, dir) = audit_with(name, sheets);
     assert_eq!(code, Some(2), "{name}: {stderr}");
     assert!(
         stderr.contains(&format!("{name}.xlsx")),
@@ -268,11 +226,7 @@ fn assert_refused(
         stderr.to_lowercase().contains(words),
         "{name}: '{words}' not said: {stderr}"
     );
-    let written: Vec<_> = std::fs::read_dir(&dir)
-        .unwrap()
-        .filter_map(|e| e.ok())
-        .map(|e| e.file_name())
-        .collect();
+    let written = entries(&dir);
     assert_eq!(
         written.len(),
         1,
@@ -285,54 +239,44 @@ fn assert_refused(
 fn bad_input_is_refused_with_file_and_cell() {
     assert_refused(
         "missing-column",
-        |wb| pipes(wb, &["Line", "Size", "Flow [m3/h]"], &["L1", "DN100", "10"]),
+        &pipes(&["Line", "Size", "Flow [m3/h]"], &["L1", "DN100", "10"]),
         "Pipes!A1",
         "length",
     );
     assert_refused(
         "text-number",
-        |wb| pipes(wb, H, &["L1", "DN100", "steel", "twelve", "10"]),
+        &pipes(H, &["L1", "DN100", "steel", "twelve", "10"]),
         "Pipes!D2",
         "number",
     );
     assert_refused(
         "negative-length",
-        |wb| pipes(wb, H, &["L1", "DN100", "steel", "-12", "10"]),
+        &pipes(H, &["L1", "DN100", "steel", "-12", "10"]),
         "Pipes!D2",
         "greater than zero",
     );
     assert_refused(
         "unknown-size",
-        |wb| pipes(wb, H, &["L1", "DN123", "steel", "12", "10"]),
+        &pipes(H, &["L1", "DN123", "steel", "12", "10"]),
         "Pipes!B2",
         "dn123",
     );
     assert_refused(
         "unknown-item",
-        |wb| {
-            pipes(wb, H, &["L1", "DN100", "steel", "12", "10"]);
-            let ws = wb.add_worksheet();
-            ws.set_name("Fittings").unwrap();
-            for (c, h) in ["Tag", "Line", "Item", "Size"].iter().enumerate() {
-                ws.write_string(0, c as u16, *h).unwrap();
-            }
-            for (c, v) in ["F1", "L1", "flexible coupling", "DN100"]
-                .iter()
-                .enumerate()
-            {
-                ws.write_string(1, c as u16, *v).unwrap();
-            }
-        },
+        &[
+            sheet_row("Pipes", H, &["L1", "DN100", "steel", "12", "10"]),
+            sheet_row(
+                "Fittings",
+                &["Tag", "Line", "Item", "Size"],
+                &["F1", "L1", "flexible coupling", "DN100"],
+            ),
+        ],
         "Fittings!C2",
         "did you mean",
     );
     assert_refused(
         "missing-sheet",
-        |wb| {
-            let ws = wb.add_worksheet();
-            ws.set_name("Notes").unwrap();
-            ws.write_string(0, 0, "nothing here").unwrap();
-        },
+        &[Sheet::new("Notes", vec![vec![s("nothing here")]])],
         "missing-sheet.xlsx",
         "no pipes sheet",
     );
@@ -343,9 +287,9 @@ fn a_file_that_is_not_a_workbook_is_refused() {
     let dir = temp_dir("notxlsx");
     let path = dir.join("fake.xlsx");
     std::fs::write(&path, b"Line,Size\nL1,DN100\n").unwrap();
-    let o = bin().arg("audit").arg(&path).output().unwrap();
-    assert_eq!(o.status.code(), Some(2));
-    let stderr = String::from_utf8_lossy(&o.stderr);
+    let o = bin().arg("audit").arg(&path).ran();
+    assert_eq!(o.code, Some(2));
+    let stderr = &o.stderr;
     assert!(
         stderr.contains("fake.xlsx") && stderr.contains("not a valid .xlsx"),
         "{stderr}"
@@ -356,9 +300,9 @@ fn a_file_that_is_not_a_workbook_is_refused() {
 
 #[test]
 fn rules_prints_defaults_that_parse_back() {
-    let o = bin().arg("rules").output().unwrap();
-    assert!(o.status.success());
-    let text = String::from_utf8(o.stdout).unwrap();
+    let o = bin().arg("rules").ran();
+    assert_eq!(o.code, Some(0));
+    let text = o.stdout;
     let rules = lossledger::audit::Rules::from_toml(&text, "stdout").unwrap();
     assert_eq!(rules, lossledger::audit::Rules::default());
 }
@@ -368,7 +312,7 @@ fn rules_prints_defaults_that_parse_back() {
 #[test]
 fn ranking_rows_caps_the_ranking_sheet_and_says_what_is_left_out() {
     let dir = temp_dir("ranking-rows");
-    run_demo(&dir);
+    demo(&dir);
     let input = dir.join("kestrel-ridge.xlsx");
     let ranks = |rows: &str| -> (Vec<f64>, Option<String>) {
         let out = dir.join(format!("rows-{rows}.xlsx"));
@@ -376,10 +320,9 @@ fn ranking_rows_caps_the_ranking_sheet_and_says_what_is_left_out() {
             .args(["audit", "--ranking-rows", rows, "-o"])
             .arg(&out)
             .arg(&input)
-            .output()
-            .unwrap();
-        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
-        let mut book: Xlsx<_> = open_workbook(&out).unwrap();
+            .ran();
+        assert_eq!(o.code, Some(0), "{}", &o.stderr);
+        let mut book = open(&out);
         let sheet = book.worksheet_range("Fitting ranking").unwrap();
         let header = (0..40)
             .find(|&r| sheet.get_value((r, 0)) == Some(&Data::String("Rank".into())))
@@ -408,17 +351,9 @@ fn ranking_rows_caps_the_ranking_sheet_and_says_what_is_left_out() {
     let bad = bin()
         .args(["audit", "--ranking-rows", "many"])
         .arg(&input)
-        .output()
-        .unwrap();
-    assert_eq!(bad.status.code(), Some(2));
+        .ran();
+    assert_eq!(bad.code, Some(2));
     std::fs::remove_dir_all(&dir).ok();
-}
-
-/// A sheet with headers in row 1 and one row of values (numbers where they parse).
-fn sheet_row(wb: &mut rust_xlsxwriter::Workbook, name: &str, headers: &[&str], row: &[&str]) {
-    pipes(wb, headers, row);
-    let last = wb.worksheets_mut().len() - 1;
-    wb.worksheets_mut()[last].set_name(name).unwrap();
 }
 
 fn longest_line(text: &str) -> usize {
@@ -434,12 +369,11 @@ fn demo_console_shows_each_check_with_the_failing_system_within_80_and_100_colum
             .arg("--dir")
             .arg(&dir)
             .env("COLUMNS", width.to_string())
-            .output()
-            .unwrap();
-        assert!(out.status.success());
-        let text = String::from_utf8_lossy(&out.stdout);
+            .ran();
+        assert_eq!(out.code, Some(0));
+        let text = &out.stdout;
         assert!(
-            longest_line(&text) <= width,
+            longest_line(text) <= width,
             "a line is wider than {width}:\n{text}"
         );
         assert!(!text.contains('│') && !text.contains('┆'), "no box drawing");
@@ -462,13 +396,9 @@ fn demo_console_shows_each_check_with_the_failing_system_within_80_and_100_colum
         let flat = text.split_whitespace().collect::<Vec<_>>().join(" ");
         assert!(flat.contains("vacuum at high points and siphons are not checked"));
         assert!(flat.contains("before speed control or impeller trimming"));
-        let kinds = bin()
-            .arg("kinds")
-            .env("COLUMNS", width.to_string())
-            .output()
-            .unwrap();
-        let kinds = String::from_utf8_lossy(&kinds.stdout);
-        assert!(longest_line(&kinds) <= width, "kinds at {width}:\n{kinds}");
+        let kinds = bin().arg("kinds").env("COLUMNS", width.to_string()).ran();
+        let kinds = &kinds.stdout;
+        assert!(longest_line(kinds) <= width, "kinds at {width}:\n{kinds}");
     }
 }
 
@@ -476,26 +406,24 @@ fn demo_console_shows_each_check_with_the_failing_system_within_80_and_100_colum
 fn a_system_with_no_static_head_raises_its_warning_through_the_binary() {
     let dir = temp_dir("no-static");
     let path = dir.join("no-static.xlsx");
-    let mut wb = rust_xlsxwriter::Workbook::new();
-    sheet_row(
-        &mut wb,
-        "Lines",
-        &["Line", "Service", "Flow [m3/h]"],
-        &["D1", "pump-discharge", "100"],
-    );
-    sheet_row(
-        &mut wb,
-        "Pipes",
-        &["Line", "Size", "Length [m]"],
-        &["D1", "DN150", "50"],
-    );
-    sheet_row(
-        &mut wb,
-        "Systems",
-        &["System", "Lines", "Pump head [m]"],
-        &["NoLift", "D1", "30"],
-    );
-    wb.save(&path).unwrap();
+    let sheets = [
+        sheet_row(
+            "Lines",
+            &["Line", "Service", "Flow [m3/h]"],
+            &["D1", "pump-discharge", "100"],
+        ),
+        sheet_row(
+            "Pipes",
+            &["Line", "Size", "Length [m]"],
+            &["D1", "DN150", "50"],
+        ),
+        sheet_row(
+            "Systems",
+            &["System", "Lines", "Pump head [m]"],
+            &["NoLift", "D1", "30"],
+        ),
+    ];
+    std::fs::write(&path, xlsx(&sheets)).unwrap();
     let json = dir.join("out.json");
     let o = bin()
         .arg("audit")
@@ -503,17 +431,15 @@ fn a_system_with_no_static_head_raises_its_warning_through_the_binary() {
         .arg("--json")
         .arg(&json)
         .env("COLUMNS", "100")
-        .output()
-        .unwrap();
-    let stdout = String::from_utf8_lossy(&o.stdout);
-    assert_eq!(o.status.code(), Some(0), "{stdout}");
+        .ran();
+    let stdout = &o.stdout;
+    assert_eq!(o.code, Some(0), "{stdout}");
     assert!(
         stdout.contains("System NoLift: static head not given"),
         "{stdout}"
     );
     assert!(!stdout.contains("System NoLift: passes"));
-    let v: serde_json::Value =
-        serde_json::from_str(&std::fs::read_to_string(&json).unwrap()).unwrap();
+    let v: serde_json::Value = read_json(&json);
     let finding = v["findings"]
         .as_array()
         .unwrap()
@@ -529,16 +455,15 @@ fn a_system_with_no_static_head_raises_its_warning_through_the_binary() {
         .arg(dir.join("again.xlsx"))
         .arg("--fail-on")
         .arg("warning")
-        .output()
-        .unwrap();
-    assert_eq!(o.status.code(), Some(1), "the warning counts for --fail-on");
+        .ran();
+    assert_eq!(o.code, Some(1), "the warning counts for --fail-on");
 }
 
 #[test]
 fn demo_summary_lists_every_system_check_with_its_result_and_the_cautions() {
     let dir = temp_dir("summary-checks");
-    run_demo(&dir);
-    let mut out: Xlsx<_> = open_workbook(dir.join("kestrel-ridge.audit.xlsx")).unwrap();
+    demo(&dir);
+    let mut out = open(&dir.join("kestrel-ridge.audit.xlsx"));
     let summary = out.worksheet_range("Summary").unwrap();
     let text = |r: u32, c: u32| match summary.get_value((r, c)) {
         Some(Data::String(s)) => s.clone(),
@@ -628,14 +553,9 @@ fn old_kind_spellings_still_match_through_the_binary() {
         .arg(dir.join("out.xlsx"))
         .arg("--json")
         .arg(&json)
-        .output()
-        .unwrap();
-    assert!(
-        out.status.code().is_some_and(|c| c <= 1),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let doc: serde_json::Value = serde_json::from_slice(&std::fs::read(&json).unwrap()).unwrap();
+        .ran();
+    assert!(out.code.is_some_and(|c| c <= 1), "{}", &out.stderr);
+    let doc: serde_json::Value = read_json(&json);
     let kinds: Vec<&str> = doc["fittings"]
         .as_array()
         .unwrap()
@@ -650,11 +570,9 @@ fn old_kind_spellings_still_match_through_the_binary() {
 #[test]
 fn demo_outputs_say_the_data_is_invented() {
     let dir = temp_dir("demo-invented");
-    let out = bin().arg("demo").arg("--dir").arg(&dir).output().unwrap();
-    assert!(String::from_utf8_lossy(&out.stdout).contains("INVENTED DATA"));
-    let doc: serde_json::Value =
-        serde_json::from_slice(&std::fs::read(dir.join("kestrel-ridge.audit.json")).unwrap())
-            .unwrap();
+    let out = bin().arg("demo").arg("--dir").arg(&dir).ran();
+    assert!(out.stdout.contains("INVENTED DATA"));
+    let doc: serde_json::Value = read_json(&dir.join("kestrel-ridge.audit.json"));
     assert_eq!(doc["invented_data"], serde_json::Value::Bool(true));
     assert!(
         doc["invented_data_note"]
@@ -662,7 +580,7 @@ fn demo_outputs_say_the_data_is_invented() {
             .unwrap()
             .starts_with("INVENTED DATA")
     );
-    let mut wb: Xlsx<_> = open_workbook(dir.join("kestrel-ridge.audit.xlsx")).unwrap();
+    let mut wb = open(&dir.join("kestrel-ridge.audit.xlsx"));
     for sheet in ["Summary", "Findings", "Fitting ranking", "Basis"] {
         let r = wb.worksheet_range(sheet).unwrap();
         assert!(
@@ -680,15 +598,12 @@ fn demo_outputs_say_the_data_is_invented() {
 #[test]
 fn demo_station_figures_follow_their_definitions_in_json_and_workbook() {
     let dir = temp_dir("demo-station");
-    run_demo(&dir);
-    let doc: serde_json::Value = serde_json::from_str(
-        &std::fs::read_to_string(dir.join("kestrel-ridge.audit.json")).unwrap(),
-    )
-    .unwrap();
+    demo(&dir);
+    let doc: serde_json::Value = read_json(&dir.join("kestrel-ridge.audit.json"));
     let rho = doc["lines"][0]["density_kg_m3"].as_f64().unwrap();
     // fixtures/reference/water_iapws.csv at 12 °C (iapws 1.5.5, IAPWS-IF97), to 1e-4.
     assert!((rho / 999.499_075_227_550_4 - 1.0).abs() < 1e-4, "{rho}");
-    let g = 9.80665;
+    let g = G;
     let a = &doc["systems"][0];
     assert_eq!(a["control"], "throttled");
     let t = &a["test"];
@@ -709,7 +624,7 @@ fn demo_station_figures_follow_their_definitions_in_json_and_workbook() {
         .find(|f| f["code"] == "low-wire-to-water")
         .expect("Duty B's meter readings give 54 %");
     assert!(low["message"].as_str().unwrap().contains("Duty B"));
-    let mut book: Xlsx<_> = open_workbook(dir.join("kestrel-ridge.audit.xlsx")).unwrap();
+    let mut book = open(&dir.join("kestrel-ridge.audit.xlsx"));
     let ranking = book.worksheet_range("Fitting ranking").unwrap();
     let header = ranking
         .rows()
@@ -753,35 +668,29 @@ fn demo_station_figures_follow_their_definitions_in_json_and_workbook() {
 fn impossible_meter_readings_exit_2_and_write_nothing() {
     let dir = temp_dir("bad-meter");
     let path = dir.join("meter.xlsx");
-    let mut wb = rust_xlsxwriter::Workbook::new();
-    pipes(
-        &mut wb,
-        &["Line", "Size", "Length [m]", "Flow [m3/h]"],
-        &["P1", "DN100", "50", "40"],
-    );
-    sheet_row(
-        &mut wb,
-        "Systems",
-        &[
-            "System",
-            "Lines",
-            "Static head [m]",
-            "Metered energy [kWh/yr]",
-            "Metered volume [m3/yr]",
-        ],
-        &["S", "P1", "30", "100", "160000"],
-    );
-    wb.save(&path).unwrap();
+    let sheets = [
+        sheet_row(
+            "Pipes",
+            &["Line", "Size", "Length [m]", "Flow [m3/h]"],
+            &["P1", "DN100", "50", "40"],
+        ),
+        sheet_row(
+            "Systems",
+            &[
+                "System",
+                "Lines",
+                "Static head [m]",
+                "Metered energy [kWh/yr]",
+                "Metered volume [m3/yr]",
+            ],
+            &["S", "P1", "30", "100", "160000"],
+        ),
+    ];
+    std::fs::write(&path, xlsx(&sheets)).unwrap();
     let out = dir.join("meter.audit.xlsx");
-    let o = bin()
-        .arg("audit")
-        .arg(&path)
-        .arg("-o")
-        .arg(&out)
-        .output()
-        .unwrap();
-    let stderr = String::from_utf8_lossy(&o.stderr);
-    assert_eq!(o.status.code(), Some(2), "{stderr}");
+    let o = bin().arg("audit").arg(&path).arg("-o").arg(&out).ran();
+    let stderr = &o.stderr;
+    assert_eq!(o.code, Some(2), "{stderr}");
     assert!(
         stderr.contains("Systems!D2") && stderr.contains("theoretical minimum"),
         "{stderr}"

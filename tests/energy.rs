@@ -9,7 +9,10 @@ use lossledger::audit::energy::{
 use std::path::PathBuf;
 
 mod common;
-use common::{C, audit, book, rel};
+use common::book::{Cell, book, n, s};
+use common::facts::G;
+use common::library::audit;
+use common::tol::rel;
 
 // Source: docs/energy.md, worked example 1 (hand-worked, step by step).
 #[test]
@@ -20,7 +23,7 @@ fn energy_arithmetic_matches_the_hand_worked_example() {
         tariff_per_kwh: 0.12,
         kg_co2_per_kwh: 0.4,
     };
-    let dp = 998.2 * 9.80665 * 4.0;
+    let dp = 998.2 * G * 4.0;
     assert!(rel(dp, 39_155.992_12) < 1e-9, "Δp {dp}");
     let e = loss_energy(39_155.992_12, 0.05, &basis).unwrap();
     assert!(rel(e.power_loss_w, 1_957.799_606) < 1e-9, "{e:?}");
@@ -71,28 +74,28 @@ fn efficiency_and_hours_come_from_lines_then_systems_then_rules() {
                 ],
                 vec![
                     vec![
-                        C::S("A"),
-                        C::S("pump-discharge"),
-                        C::N(60.0),
-                        C::N(50.0),
-                        C::N(1000.0),
-                        C::E,
+                        s("A"),
+                        s("pump-discharge"),
+                        n(60.0),
+                        n(50.0),
+                        n(1000.0),
+                        Cell::E,
                     ],
                     vec![
-                        C::S("B"),
-                        C::S("pump-discharge"),
-                        C::N(60.0),
-                        C::E,
-                        C::N(1000.0),
-                        C::S("SB"),
+                        s("B"),
+                        s("pump-discharge"),
+                        n(60.0),
+                        Cell::E,
+                        n(1000.0),
+                        s("SB"),
                     ],
                     vec![
-                        C::S("C"),
-                        C::S("pump-discharge"),
-                        C::N(60.0),
-                        C::E,
-                        C::E,
-                        C::E,
+                        s("C"),
+                        s("pump-discharge"),
+                        n(60.0),
+                        Cell::E,
+                        Cell::E,
+                        Cell::E,
                     ],
                 ],
             ),
@@ -100,15 +103,15 @@ fn efficiency_and_hours_come_from_lines_then_systems_then_rules() {
                 "Pipes",
                 &["Line", "Size", "Schedule", "Length [m]"],
                 vec![
-                    vec![C::S("A"), C::S("DN100"), C::S("40"), C::N(50.0)],
-                    vec![C::S("B"), C::S("DN100"), C::S("40"), C::N(50.0)],
-                    vec![C::S("C"), C::S("DN100"), C::S("40"), C::N(50.0)],
+                    vec![s("A"), s("DN100"), s("40"), n(50.0)],
+                    vec![s("B"), s("DN100"), s("40"), n(50.0)],
+                    vec![s("C"), s("DN100"), s("40"), n(50.0)],
                 ],
             ),
             (
                 "Systems",
                 &["System", "Lines", "Efficiency [%]"],
-                vec![vec![C::S("SB"), C::S("B"), C::N(80.0)]],
+                vec![vec![s("SB"), s("B"), n(80.0)]],
             ),
         ],
     );
@@ -142,24 +145,24 @@ fn gravity_lines_cost_no_pump_energy_and_rank_after_by_head() {
                 "Lines",
                 &["Line", "Service", "Flow [m3/h]"],
                 vec![
-                    vec![C::S("P"), C::S("pump-discharge"), C::N(60.0)],
-                    vec![C::S("G"), C::S("gravity"), C::N(200.0)],
+                    vec![s("P"), s("pump-discharge"), n(60.0)],
+                    vec![s("G"), s("gravity"), n(200.0)],
                 ],
             ),
             (
                 "Pipes",
                 &["Line", "Size", "Schedule", "Length [m]"],
                 vec![
-                    vec![C::S("P"), C::S("DN100"), C::S("40"), C::N(10.0)],
-                    vec![C::S("G"), C::S("DN150"), C::S("40"), C::N(10.0)],
+                    vec![s("P"), s("DN100"), s("40"), n(10.0)],
+                    vec![s("G"), s("DN150"), s("40"), n(10.0)],
                 ],
             ),
             (
                 "Fittings",
                 &["Tag", "Line", "Item", "Qty"],
                 vec![
-                    vec![C::S("P-E"), C::S("P"), C::S("elbow-90"), C::N(1.0)],
-                    vec![C::S("G-V"), C::S("G"), C::S("valve-globe"), C::N(1.0)],
+                    vec![s("P-E"), s("P"), s("elbow-90"), n(1.0)],
+                    vec![s("G-V"), s("G"), s("valve-globe"), n(1.0)],
                 ],
             ),
         ],
@@ -286,12 +289,12 @@ fn valve_book(name: &str, service: &'static str, opening: f64) -> PathBuf {
             (
                 "Lines",
                 &["Line", "Service", "Flow [m3/h]"],
-                vec![vec![C::S("L1"), C::S(service), C::N(80.0)]],
+                vec![vec![s("L1"), s(service), n(80.0)]],
             ),
             (
                 "Pipes",
                 &["Line", "Size", "Schedule", "Length [m]"],
-                vec![vec![C::S("L1"), C::S("DN100"), C::S("40"), C::N(30.0)]],
+                vec![vec![s("L1"), s("DN100"), s("40"), n(30.0)]],
             ),
             (
                 "Fittings",
@@ -305,28 +308,21 @@ fn valve_book(name: &str, service: &'static str, opening: f64) -> PathBuf {
                 ],
                 vec![
                     vec![
-                        C::S("V1"),
-                        C::S("L1"),
-                        C::S("valve-gate"),
-                        C::N(1.0),
-                        C::N(opening),
-                        C::E,
+                        s("V1"),
+                        s("L1"),
+                        s("valve-gate"),
+                        n(1.0),
+                        n(opening),
+                        Cell::E,
                     ],
+                    vec![s("E1"), s("L1"), s("elbow-90"), n(2.0), Cell::E, n(400.0)],
                     vec![
-                        C::S("E1"),
-                        C::S("L1"),
-                        C::S("elbow-90"),
-                        C::N(2.0),
-                        C::E,
-                        C::N(400.0),
-                    ],
-                    vec![
-                        C::S("E2"),
-                        C::S("L1"),
-                        C::S("elbow-90-long"),
-                        C::N(1.0),
-                        C::E,
-                        C::N(400.0),
+                        s("E2"),
+                        s("L1"),
+                        s("elbow-90-long"),
+                        n(1.0),
+                        Cell::E,
+                        n(400.0),
                     ],
                 ],
             ),

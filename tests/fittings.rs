@@ -11,6 +11,10 @@ use lossledger::physics::fitting::{
 };
 use proptest::prelude::*;
 
+mod common;
+use common::csv::{keyed, num};
+use common::tol::rel;
+
 const KFACTOR: &str = include_str!(concat!(
     env!("CARGO_MANIFEST_DIR"),
     "/fixtures/reference/fittings_kfactor.csv"
@@ -27,47 +31,6 @@ const LE_D: &str = include_str!(concat!(
     env!("CARGO_MANIFEST_DIR"),
     "/fixtures/reference/fittings_le_d.csv"
 ));
-
-/// Minimal CSV reader (double-quoted fields with commas, "" escapes).
-fn parse_csv(text: &str) -> Vec<std::collections::HashMap<String, String>> {
-    fn split(line: &str) -> Vec<String> {
-        let mut out = Vec::new();
-        let mut cur = String::new();
-        let mut quoted = false;
-        let mut chars = line.chars().peekable();
-        while let Some(c) = chars.next() {
-            match c {
-                '"' if quoted && chars.peek() == Some(&'"') => {
-                    cur.push('"');
-                    chars.next();
-                }
-                '"' => quoted = !quoted,
-                ',' if !quoted => out.push(std::mem::take(&mut cur)),
-                _ => cur.push(c),
-            }
-        }
-        out.push(cur);
-        out
-    }
-    let mut lines = text.lines().filter(|l| !l.trim().is_empty());
-    let header = split(lines.next().expect("fixture has a header"));
-    lines
-        .map(|l| {
-            let cells = split(l);
-            assert_eq!(cells.len(), header.len(), "bad fixture line {l}");
-            header.iter().cloned().zip(cells).collect()
-        })
-        .collect()
-}
-
-fn num(row: &std::collections::HashMap<String, String>, col: &str) -> Option<f64> {
-    let v = row.get(col).map(String::as_str).unwrap_or("");
-    if v.is_empty() {
-        None
-    } else {
-        Some(v.parse().unwrap_or_else(|_| panic!("{col}={v}")))
-    }
-}
 
 fn kind(id: &str) -> &'static Kind {
     find_kind(id).unwrap_or_else(|| panic!("kind {id} missing"))
@@ -86,10 +49,6 @@ fn k_of(id: &str, inp: &FittingInput) -> f64 {
     evaluate(kind(id), inp)
         .unwrap_or_else(|e| panic!("{id}: {e}"))
         .k
-}
-
-fn rel(a: f64, b: f64) -> f64 {
-    (a - b).abs() / b.abs().max(1e-12)
 }
 
 // ---------------------------------------------------------------- catalogue
@@ -180,7 +139,7 @@ fn catalogue_has_required_kinds_and_sane_entries() {
 #[test]
 fn darby_and_hooper_match_fluids() {
     // Source: fluids 1.3.1 fittings.Darby3K(NPS, Re, name) and fittings.Hooper2K(Di [in], Re, name).
-    let rows = parse_csv(KFACTOR);
+    let rows = keyed(KFACTOR);
     assert!(rows.len() >= 4 * 34);
     for r in &rows {
         let id = &r["id"];
@@ -220,7 +179,7 @@ fn methods_match_fluids() {
     // contraction_sharp/contraction_round/contraction_conical (method='Rennels'),
     // entrance_sharp/entrance_rounded/entrance_beveled/entrance_distance (method='Rennels'),
     // exit_normal, and flow_meter ISO 5167 functions for the orifice plate.
-    let rows = parse_csv(METHODS);
+    let rows = keyed(METHODS);
     assert!(rows.len() > 100);
     for r in &rows {
         let id = &r["id"];
@@ -271,7 +230,7 @@ fn methods_match_fluids() {
 #[test]
 fn kv_and_cv_match_fluids() {
     // Source: fluids 1.3.1 fittings.Kv_to_K(Kv, D) and fittings.Cv_to_K(Cv, D).
-    for r in parse_csv(KV) {
+    for r in keyed(KV) {
         let v = num(&r, "value").unwrap();
         let d = num(&r, "d_m").unwrap();
         let want = num(&r, "k_ref").unwrap();
@@ -315,7 +274,7 @@ fn kv_and_cv_match_fluids() {
 #[test]
 fn le_d_uses_fully_turbulent_factor() {
     // Source: fluids 1.3.1 friction.von_Karman(eD) (fully rough Colebrook limit) * Le/D.
-    for r in parse_csv(LE_D) {
+    for r in keyed(LE_D) {
         let inp = FittingInput {
             d_in_m: 0.1,
             re_in: 1e5,
@@ -1158,7 +1117,7 @@ const FOOT_TOL: f64 = 0.02;
 
 #[test]
 fn foot_valves_match_fluids_k_foot_valve_at_every_size() {
-    let rows = parse_csv(FOOT);
+    let rows = keyed(FOOT);
     assert_eq!(rows.len(), 18);
     for r in rows {
         let id = match r["disc"].as_str() {

@@ -13,6 +13,11 @@ use lossledger::physics::friction::{
 };
 use proptest::prelude::*;
 
+mod common;
+use common::csv::numbers;
+use common::facts::G;
+use common::tol::rel;
+
 const COLEBROOK_CSV: &str = include_str!(concat!(
     env!("CARGO_MANIFEST_DIR"),
     "/fixtures/reference/friction_colebrook.csv"
@@ -26,34 +31,12 @@ const HEAD_CSV: &str = include_str!(concat!(
     "/fixtures/reference/friction_head.csv"
 ));
 
-/// Parse a numeric CSV with a known header into rows of f64.
-fn table(csv: &str, header: &str) -> Vec<Vec<f64>> {
-    let mut lines = csv.lines();
-    assert_eq!(lines.next(), Some(header));
-    let n = header.split(',').count();
-    lines
-        .filter(|l| !l.trim().is_empty())
-        .map(|l| {
-            let v: Vec<f64> = l
-                .split(',')
-                .map(|s| s.parse().expect("fixture value is a number"))
-                .collect();
-            assert_eq!(v.len(), n, "row {l}");
-            v
-        })
-        .collect()
-}
-
-fn rel(a: f64, b: f64) -> f64 {
-    ((a - b) / b).abs()
-}
-
 /// Source: fluids 1.3.1 friction_factor(Re, eD, Method='Colebrook') and
 /// Colebrook(Re, eD, tol=1e-14); 21 Re 4e3..1e8 x 7 eD 0..0.05. Tolerance 1e-9 relative
 /// (the two fluids paths agree with each other to 3e-14).
 #[test]
 fn colebrook_matches_fluids_grid() {
-    let rows = table(COLEBROOK_CSV, "re,relative_roughness,f_fluids,f_secant");
+    let rows = numbers(COLEBROOK_CSV, "re,relative_roughness,f_fluids,f_secant");
     assert_eq!(rows.len(), 21 * 7);
     let mut worst = 0.0_f64;
     for r in &rows {
@@ -105,7 +88,7 @@ fn no_flow_gives_zero_factor() {
 /// Method='Colebrook'), first grid row of friction_colebrook.csv); in between, between them.
 #[test]
 fn transition_interpolates_between_endpoints() {
-    let rows = table(COLEBROOK_CSV, "re,relative_roughness,f_fluids,f_secant");
+    let rows = numbers(COLEBROOK_CSV, "re,relative_roughness,f_fluids,f_secant");
     let at_4000: Vec<(f64, f64)> = rows
         .iter()
         .filter(|r| (r[0] - 4000.0).abs() < 1e-6)
@@ -137,7 +120,7 @@ fn transition_interpolates_between_endpoints() {
 /// fully rough limit to ~1e-12. Tolerance 1e-10 relative.
 #[test]
 fn fully_turbulent_matches_colebrook_at_huge_re() {
-    let rows = table(ROUGH_CSV, "relative_roughness,f_re1e20,f_re1e12");
+    let rows = numbers(ROUGH_CSV, "relative_roughness,f_re1e20,f_re1e12");
     assert_eq!(rows.len(), 7);
     for r in &rows {
         let (ed, f20) = (r[0], r[1]);
@@ -151,7 +134,7 @@ fn fully_turbulent_matches_colebrook_at_huge_re() {
 /// so the tolerance is 2e-5 and the finite-Re value must not be below the limit.
 #[test]
 fn fully_turbulent_is_the_high_re_limit_of_fluids_colebrook() {
-    for r in &table(ROUGH_CSV, "relative_roughness,f_re1e20,f_re1e12") {
+    for r in &numbers(ROUGH_CSV, "relative_roughness,f_re1e20,f_re1e12") {
         let (ed, f12) = (r[0], r[2]);
         let f = fully_turbulent(ed);
         assert!(rel(f, f12) < 2e-5, "eD={ed} f={f} ref={f12}");
@@ -231,7 +214,7 @@ fn try_darcy_friction_rejects_bad_inputs() {
 /// fluids.core.head_from_K(K_from_f(fd, L, D), V) (Darcy-Weisbach).
 #[test]
 fn reynolds_and_darcy_weisbach_match_fluids() {
-    let rows = table(
+    let rows = numbers(
         HEAD_CSV,
         "density_kg_m3,velocity_m_s,diameter_m,viscosity_pa_s,factor,length_m,re_fluids,head_fluids_m",
     );
@@ -293,7 +276,7 @@ fn hazen_williams_matches_us_psi_per_foot_form() {
     const IN: f64 = 0.0254;
     const FT: f64 = 0.3048;
     const PSI: f64 = 6894.757293168361;
-    let rho_g = 999.0 * 9.80665;
+    let rho_g = 999.0 * G;
     let mut worst = 0.0_f64;
     for c in [100.0_f64, 120.0, 140.0] {
         for (d_in, q_gpm) in [

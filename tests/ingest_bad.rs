@@ -1,133 +1,92 @@
 //! Bad input: each problem class exits 2, names the cell and gives a hint, and writes nothing;
 //! warnings (defaults, skipped rows) never block the audit. Runs the built binary.
 
-use rust_xlsxwriter::{ExcelDateTime, Format, Workbook};
-use std::path::{Path, PathBuf};
-use std::process::Command;
+mod common;
 
-fn tmp(name: &str) -> PathBuf {
-    let d = std::env::temp_dir().join(format!(
-        "lossledger-ingest-bad-{}-{name}",
-        std::process::id()
-    ));
-    let _ = std::fs::remove_dir_all(&d);
-    std::fs::create_dir_all(&d).expect("temp dir");
-    d
-}
+use common::book::{Cell, Sheet, n, s, xlsx};
+use common::dirs::{entries, temp_dir};
+use std::path::Path;
 
-/// A workbook with a Lines and a Pipes sheet; `pipe_cells` overrides cells of the first data row.
+/// A workbook with a Lines sheet (line BX-1 at 30 m³/h) and a Pipes sheet of one row.
 fn book(path: &Path, pipe_headers: &[&str], pipe_row: &[Cell]) {
-    let mut wb = Workbook::new();
-    let ws = wb.add_worksheet();
-    ws.set_name("Lines").unwrap();
-    for (c, h) in ["Line", "Flow [m3/h]"].iter().enumerate() {
-        ws.write_string(0, c as u16, *h).unwrap();
-    }
-    ws.write_string(1, 0, "BX-1").unwrap();
-    ws.write_number(1, 1, 30.0).unwrap();
-    let ws = wb.add_worksheet();
-    ws.set_name("Pipes").unwrap();
-    for (c, h) in pipe_headers.iter().enumerate() {
-        ws.write_string(0, c as u16, *h).unwrap();
-    }
-    for (c, v) in pipe_row.iter().enumerate() {
-        let c = c as u16;
-        match v {
-            Cell::S(s) => {
-                ws.write_string(1, c, *s).unwrap();
-            }
-            Cell::N(x) => {
-                ws.write_number(1, c, *x).unwrap();
-            }
-            Cell::Date => {
-                let d = ExcelDateTime::from_ymd(2024, 3, 1).unwrap();
-                ws.write_datetime_with_format(
-                    1,
-                    c,
-                    &d,
-                    &Format::new().set_num_format("yyyy-mm-dd"),
-                )
-                .unwrap();
-            }
-        }
-    }
-    wb.save(path).unwrap();
+    let sheets = [
+        Sheet::table(
+            "Lines",
+            &["Line", "Flow [m3/h]"],
+            vec![vec![s("BX-1"), n(30.0)]],
+        ),
+        Sheet::table("Pipes", pipe_headers, vec![pipe_row.to_vec()]),
+    ];
+    std::fs::write(path, xlsx(&sheets)).unwrap();
 }
 
-enum Cell {
-    S(&'static str),
-    N(f64),
-    Date,
-}
-
+/// Run the binary: its exit code (-1 when killed) and standard error then output.
 fn run(args: &[&std::ffi::OsStr]) -> (i32, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_lossledger"))
-        .args(args)
-        .output()
-        .expect("runs");
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stderr).into_owned() + &String::from_utf8_lossy(&out.stdout),
-    )
+    let out = common::bin::run(args);
+    (out.code.unwrap_or(-1), out.both())
 }
 
 const H: &[&str] = &["Line", "Size", "Material", "Length [m]"];
 
 #[test]
 fn each_problem_class_exits_2_with_cell_and_hint_and_writes_nothing() {
-    use Cell::{Date, N, S};
     let cases: Vec<(&str, Vec<&str>, Vec<Cell>, &str)> = vec![
         (
             "bare_size",
             H.to_vec(),
-            vec![S("BX-1"), S("100"), S("carbon steel"), N(10.0)],
+            vec![s("BX-1"), s("100"), s("carbon steel"), n(10.0)],
             "Pipes!B2",
         ),
         (
             "unknown_material",
             H.to_vec(),
-            vec![S("BX-1"), S("DN100"), S("unobtainium"), N(10.0)],
+            vec![s("BX-1"), s("DN100"), s("unobtainium"), n(10.0)],
             "Pipes!C2",
         ),
         (
             "date_in_number",
             H.to_vec(),
-            vec![S("BX-1"), S("DN100"), S("carbon steel"), Date],
+            vec![
+                s("BX-1"),
+                s("DN100"),
+                s("carbon steel"),
+                Cell::D("2024-03-01"),
+            ],
             "Pipes!D2",
         ),
         (
             "text_not_number",
             H.to_vec(),
-            vec![S("BX-1"), S("DN100"), S("carbon steel"), S("tbc")],
+            vec![s("BX-1"), s("DN100"), s("carbon steel"), s("tbc")],
             "Pipes!D2",
         ),
         (
             "bad_header_unit",
             vec!["Line", "Size", "Material", "Length [furlong]"],
-            vec![S("BX-1"), S("DN100"), S("carbon steel"), N(10.0)],
+            vec![s("BX-1"), s("DN100"), s("carbon steel"), n(10.0)],
             "Pipes!D2",
         ),
         (
             "missing_length",
             vec!["Line", "Size", "Material"],
-            vec![S("BX-1"), S("DN100"), S("carbon steel")],
+            vec![s("BX-1"), s("DN100"), s("carbon steel")],
             "Pipes!A1",
         ),
         (
             "no_flow",
             H.to_vec(),
-            vec![S("BX-2"), S("DN100"), S("carbon steel"), N(10.0)],
+            vec![s("BX-2"), s("DN100"), s("carbon steel"), n(10.0)],
             "Pipes!A2",
         ),
         (
             "bad_size",
             H.to_vec(),
-            vec![S("BX-1"), S("DN 10x"), S("carbon steel"), N(10.0)],
+            vec![s("BX-1"), s("DN 10x"), s("carbon steel"), n(10.0)],
             "Pipes!B2",
         ),
     ];
     for (name, headers, row, cell) in cases {
-        let d = tmp(name);
+        let d = temp_dir(name);
         let input = d.join("in.xlsx");
         book(&input, &headers, &row);
         for sub in ["audit", "check"] {
@@ -139,28 +98,19 @@ fn each_problem_class_exits_2_with_cell_and_hint_and_writes_nothing() {
             );
             assert!(text.contains("hint:"), "{name} {sub}: no hint in\n{text}");
         }
-        let written: Vec<_> = std::fs::read_dir(&d)
-            .unwrap()
-            .filter_map(Result::ok)
-            .map(|e| e.file_name())
-            .collect();
+        let written = entries(&d);
         assert_eq!(written.len(), 1, "{name}: wrote {written:?}");
     }
 }
 
 #[test]
 fn bad_map_file_exits_2() {
-    let d = tmp("bad_map");
+    let d = temp_dir("bad_map");
     let input = d.join("in.xlsx");
     book(
         &input,
         H,
-        &[
-            Cell::S("BX-1"),
-            Cell::S("DN100"),
-            Cell::S("carbon steel"),
-            Cell::N(10.0),
-        ],
+        &[s("BX-1"), s("DN100"), s("carbon steel"), n(10.0)],
     );
     let map = d.join("map.toml");
     std::fs::write(&map, "[pipes]\n\"Run\" = \"lenght\"\n").unwrap();
@@ -180,25 +130,18 @@ fn bad_map_file_exits_2() {
 
 #[test]
 fn warnings_never_block_the_audit() {
-    let d = tmp("warnings");
+    let d = temp_dir("warnings");
     let input = d.join("in.xlsx");
     // Blank material (assumed), a totals row below the data (skipped).
-    let mut wb = Workbook::new();
-    let ws = wb.add_worksheet();
-    ws.set_name("Pipes").unwrap();
-    for (c, h) in ["Line", "Size", "Material", "Length [m]", "Flow [m3/h]"]
-        .iter()
-        .enumerate()
-    {
-        ws.write_string(0, c as u16, *h).unwrap();
-    }
-    ws.write_string(1, 0, "BW-1").unwrap();
-    ws.write_string(1, 1, "DN80").unwrap();
-    ws.write_number(1, 3, 12.0).unwrap();
-    ws.write_number(1, 4, 20.0).unwrap();
-    ws.write_string(2, 0, "Total").unwrap();
-    ws.write_number(2, 3, 12.0).unwrap();
-    wb.save(&input).unwrap();
+    let pipes = Sheet::table(
+        "Pipes",
+        &["Line", "Size", "Material", "Length [m]", "Flow [m3/h]"],
+        vec![
+            vec![s("BW-1"), s("DN80"), Cell::E, n(12.0), n(20.0)],
+            vec![s("Total"), Cell::E, Cell::E, n(12.0)],
+        ],
+    );
+    std::fs::write(&input, xlsx(&[pipes])).unwrap();
     let (code, text) = run(&["check".as_ref(), input.as_os_str()]);
     assert_eq!(code, 0, "{text}");
     assert!(

@@ -6,54 +6,22 @@
 //! the same lines, runs and fittings; both must audit to the same line totals to 1e-9 relative.
 //! 12 ft 6 in = 3.81 m exactly (NIST SP 811, 1 ft = 0.3048 m) is one of the lengths.
 
-use std::path::{Path, PathBuf};
+mod common;
 
-use lossledger::audit::{self, Rules};
+use common::dirs::fixtures;
+use common::library::{read_clean, same_totals};
+use std::path::PathBuf;
+
 use lossledger::error::Severity;
 use lossledger::ingest::list::Became;
-use lossledger::ingest::{self, HeaderMap, Input, InputSource, ReadOptions, TableKind};
-
-/// Relative agreement of line totals between a list and its twin.
-const SAME: f64 = 1e-9;
+use lossledger::ingest::{self, Input, TableKind};
 
 fn dir() -> PathBuf {
-    Path::new(env!("CARGO_MANIFEST_DIR")).join("fixtures/lists")
+    fixtures("lists")
 }
 
 fn read(name: &str, map: Option<&str>) -> Input {
-    let options = ReadOptions {
-        map: map.map(|m| HeaderMap::from_file(&dir().join(m)).expect("map file")),
-        ..ReadOptions::default()
-    };
-    let input =
-        ingest::read_inputs(&[InputSource::Path(dir().join(name))], &options).expect("readable");
-    let errors: Vec<String> = input
-        .diagnostics
-        .iter()
-        .filter(|d| d.severity == Severity::Error)
-        .map(|d| d.to_string())
-        .collect();
-    assert!(errors.is_empty(), "{name}: {errors:#?}");
-    input
-}
-
-fn totals(input: &Input) -> Vec<(String, f64, f64, f64)> {
-    let a =
-        audit::run(input, &Rules::default()).unwrap_or_else(|e| panic!("{}: {e:#?}", input.file));
-    let mut v: Vec<_> = a
-        .lines
-        .iter()
-        .map(|l| {
-            (
-                l.line.clone(),
-                l.friction_head_m,
-                l.fittings_head_m,
-                l.total_head_m,
-            )
-        })
-        .collect();
-    v.sort_by(|a, b| a.0.cmp(&b.0));
-    v
+    read_clean(&dir(), name, map)
 }
 
 fn same(stem: &str, map: Option<&str>) -> Input {
@@ -63,24 +31,11 @@ fn same(stem: &str, map: Option<&str>) -> Input {
 fn same_file(stem: &str, ext: &str, map: Option<&str>) -> Input {
     let list = read(&format!("{stem}.{ext}"), map);
     let twin = read(&format!("{stem}.canonical.xlsx"), None);
-    let (tl, tc) = (totals(&list), totals(&twin));
-    assert_eq!(tl.len(), 4, "{stem}: every line audited");
-    assert_eq!(tl.len(), tc.len(), "{stem}: line count");
-    for (a, b) in tl.iter().zip(&tc) {
-        assert_eq!(a.0, b.0);
-        for (x, y, what) in [
-            (a.1, b.1, "friction"),
-            (a.2, b.2, "fittings"),
-            (a.3, b.3, "total"),
-        ] {
-            let rel = (x - y).abs() / y.abs().max(1e-300);
-            assert!(
-                rel <= SAME,
-                "{stem}: line {} {what} {x} vs twin {y} (rel {rel:e})",
-                a.0
-            );
-        }
-    }
+    assert_eq!(
+        same_totals(stem, &list, &twin),
+        4,
+        "{stem}: every line audited"
+    );
     assert_eq!(list.pipes.len(), twin.pipes.len(), "{stem}: runs");
     list
 }

@@ -6,74 +6,29 @@
 //! takeoff (06) and its SI twin are one of the pairs. The size table checks notations against
 //! ASME B36.10M (2018) Table 1 (outside diameter and schedule 40 wall) and ISO 4427-2:2019.
 
-use std::path::{Path, PathBuf};
+mod common;
+
+use common::dirs::fixtures;
+use common::library::{read_clean, same_totals, totals};
+use std::path::PathBuf;
 
 use lossledger::audit::{self, Rules};
 use lossledger::ingest::parse::{SizeSpec, SizeUnit, parse_size};
-use lossledger::ingest::{self, HeaderMap, Input, InputSource, ReadOptions, TableKind};
+use lossledger::ingest::{self, Input, InputSource, ReadOptions, TableKind};
 use lossledger::physics::pipe::{self, Material, Schedule};
 
 fn dir() -> PathBuf {
-    Path::new(env!("CARGO_MANIFEST_DIR")).join("fixtures/messy")
+    fixtures("messy")
 }
 
 fn read(name: &str, map: Option<&str>) -> Input {
-    let options = ReadOptions {
-        map: map.map(|m| HeaderMap::from_file(&dir().join(m)).expect("map file")),
-        ..ReadOptions::default()
-    };
-    let input =
-        ingest::read_inputs(&[InputSource::Path(dir().join(name))], &options).expect("readable");
-    let errors: Vec<String> = input
-        .diagnostics
-        .iter()
-        .filter(|d| d.severity == lossledger::error::Severity::Error)
-        .map(|d| d.to_string())
-        .collect();
-    assert!(errors.is_empty(), "{name}: {errors:#?}");
-    input
-}
-
-fn totals(input: &Input) -> Vec<(String, f64, f64, f64)> {
-    let a =
-        audit::run(input, &Rules::default()).unwrap_or_else(|e| panic!("{}: {e:#?}", input.file));
-    let mut v: Vec<_> = a
-        .lines
-        .iter()
-        .map(|l| {
-            (
-                l.line.clone(),
-                l.friction_head_m,
-                l.fittings_head_m,
-                l.total_head_m,
-            )
-        })
-        .collect();
-    v.sort_by(|a, b| a.0.cmp(&b.0));
-    v
+    read_clean(&dir(), name, map)
 }
 
 fn same(messy: &str, twin: &str, map: Option<&str>) -> Input {
     let m = read(messy, map);
-    let c = read(twin, None);
-    let (tm, tc) = (totals(&m), totals(&c));
-    assert_eq!(tm.len(), tc.len(), "{messy}: line count");
-    assert!(tm.len() >= 4, "{messy}: all lines audited");
-    for (a, b) in tm.iter().zip(&tc) {
-        assert_eq!(a.0, b.0);
-        for (x, y, what) in [
-            (a.1, b.1, "friction"),
-            (a.2, b.2, "fittings"),
-            (a.3, b.3, "total"),
-        ] {
-            let rel = (x - y).abs() / y.abs().max(1e-300);
-            assert!(
-                rel <= 1e-9,
-                "{messy}: line {} {what} {x} vs twin {y} (rel {rel:e})",
-                a.0
-            );
-        }
-    }
+    let lines = same_totals(messy, &m, &read(twin, None));
+    assert!(lines >= 4, "{messy}: all lines audited");
     m
 }
 

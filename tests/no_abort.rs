@@ -3,24 +3,24 @@
 //! thread or a staged file becomes exit 3 with one line naming the phase and its file; no output
 //! and no temporary file is left, and the input is unchanged. Normal exits pass through.
 
-#[path = "bad/support.rs"]
-mod support;
+mod common;
 
+use common::bin::{Ran, Runs, bin, run};
+use common::book::{s, sheet, xlsx};
+use common::dirs::{entries, temp_dir};
+use common::stations::base_station;
 use std::ffi::OsStr;
 use std::path::Path;
-use std::process::{Command, Output};
-use support::{base_station, xlsx};
 
 /// Run the binary with a fault injected (no backtrace asked for, so the runtime prints only its
 /// own allocation message).
-fn run_with_fault(fault: &str, args: &[&OsStr]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_lossledger"))
+fn run_with_fault(fault: &str, args: &[&OsStr]) -> Ran {
+    bin()
         .args(args)
         .env("LOSSLEDGER_FAULT", fault)
         .env_remove("RUST_BACKTRACE")
         .env_remove("RUST_LIB_BACKTRACE")
-        .output()
-        .expect("run lossledger")
+        .ran()
 }
 
 /// Lines of stderr that are not from lossledger but from the Rust runtime as it aborts on an
@@ -31,10 +31,10 @@ fn runtime_line(line: &str) -> bool {
 }
 
 /// Check one faulty run: exit 3, one line naming `phase` and `file`, nothing on stdout.
-fn one_line(case: &str, out: &Output, phase: &str, file: &Path) -> Result<(), String> {
-    let stderr = String::from_utf8_lossy(&out.stderr);
-    let ctx = format!("[{case}] exit {:?}, stderr:\n{stderr}", out.status.code());
-    if out.status.code() != Some(3) {
+fn one_line(case: &str, out: &Ran, phase: &str, file: &Path) -> Result<(), String> {
+    let stderr = &out.stderr;
+    let ctx = format!("[{case}] exit {:?}, stderr:\n{stderr}", out.code);
+    if out.code != Some(3) {
         return Err(format!("expected exit 3; {ctx}"));
     }
     let ours: Vec<&str> = stderr.lines().filter(|l| !runtime_line(l)).collect();
@@ -67,7 +67,7 @@ fn faults_in_audit_become_exit_3_with_one_line_and_nothing_written() {
         ("save:panic", "write", true),
         ("save:alloc", "write", true),
     ] {
-        let dir = support::temp_dir(fault);
+        let dir = temp_dir(fault);
         let input = dir.join("station.xlsx");
         std::fs::write(&input, &bytes).expect("write input");
         let (out, json) = (dir.join("out.xlsx"), dir.join("out.json"));
@@ -84,8 +84,8 @@ fn faults_in_audit_become_exit_3_with_one_line_and_nothing_written() {
         );
         let file = if names_output { &out } else { &input };
         let mut result = one_line(fault, &run, phase, file);
-        if result.is_ok() && support::entries(&dir) != ["station.xlsx"] {
-            result = Err(format!("[{fault}] left {:?}", support::entries(&dir)));
+        if result.is_ok() && entries(&dir) != ["station.xlsx"] {
+            result = Err(format!("[{fault}] left {:?}", entries(&dir)));
         }
         if result.is_ok() && std::fs::read(&input).ok().as_ref() != Some(&bytes) {
             result = Err(format!("[{fault}] the input was changed"));
@@ -103,7 +103,7 @@ fn faults_in_audit_become_exit_3_with_one_line_and_nothing_written() {
 /// `check` and `compare` run in the worker too.
 #[test]
 fn faults_in_check_and_compare_become_exit_3() {
-    let dir = support::temp_dir("check-compare");
+    let dir = temp_dir("check-compare");
     let input = dir.join("station.xlsx");
     std::fs::write(&input, xlsx(&base_station())).expect("write input");
     let check = run_with_fault("read:alloc", &[OsStr::new("check"), input.as_os_str()]);
@@ -121,7 +121,7 @@ fn faults_in_check_and_compare_become_exit_3() {
         ],
     );
     one_line("compare save:alloc", &compare, "write", &out).unwrap();
-    assert_eq!(support::entries(&dir), ["station.xlsx"]);
+    assert_eq!(entries(&dir), ["station.xlsx"]);
     let _ = std::fs::remove_dir_all(&dir);
 }
 
@@ -129,28 +129,28 @@ fn faults_in_check_and_compare_become_exit_3() {
 /// summary on stdout, 1 for `--fail-on warning` when a warning is raised, 2 for a bad input.
 #[test]
 fn normal_exits_pass_through_the_worker() {
-    let dir = support::temp_dir("pass-through");
+    let dir = temp_dir("pass-through");
     let input = dir.join("station.xlsx");
     std::fs::write(&input, xlsx(&base_station())).expect("write input");
-    let ok = support::run(&[OsStr::new("audit"), input.as_os_str()]);
-    assert_eq!(ok.status.code(), Some(0));
-    assert!(String::from_utf8_lossy(&ok.stdout).contains("Wrote "));
+    let ok = run(&[OsStr::new("audit"), input.as_os_str()]);
+    assert_eq!(ok.code, Some(0));
+    assert!(ok.stdout.contains("Wrote "));
     // A reducer with equal sizes raises the warning `same-size-reducer` (tests/bad_input.rs).
     let mut st = base_station();
-    let fittings = support::sheet(&mut st, "Fittings");
-    fittings.set(1, 2, support::s("reducer"));
-    fittings.set(1, 4, support::s("DN100"));
+    let fittings = sheet(&mut st, "Fittings");
+    fittings.set(1, 2, s("reducer"));
+    fittings.set(1, 4, s("DN100"));
     std::fs::write(&input, xlsx(&st)).expect("write input");
-    let warned = support::run(&[
+    let warned = run(&[
         OsStr::new("audit"),
         input.as_os_str(),
         OsStr::new("--fail-on"),
         OsStr::new("warning"),
     ]);
-    assert_eq!(warned.status.code(), Some(1));
+    assert_eq!(warned.code, Some(1));
     let missing = dir.join("missing.xlsx");
-    let bad = support::run(&[OsStr::new("audit"), missing.as_os_str()]);
-    assert_eq!(bad.status.code(), Some(2));
-    assert!(!String::from_utf8_lossy(&bad.stderr).contains("internal failure"));
+    let bad = run(&[OsStr::new("audit"), missing.as_os_str()]);
+    assert_eq!(bad.code, Some(2));
+    assert!(!bad.stderr.contains("internal failure"));
     let _ = std::fs::remove_dir_all(&dir);
 }

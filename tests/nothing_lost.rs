@@ -2,14 +2,16 @@
 //! sheet and position, merged ranges and hidden sheets are kept, and text that looks like a formula
 //! is written back as text. Inputs and outputs are both read back with calamine.
 
-#[path = "bad/support.rs"]
-mod support;
+mod common;
 
 use calamine::{Data, Dimensions, Reader, SheetVisible, Xlsx, open_workbook};
+use common::bin::run;
+use common::book::{Cell, Sheet, n, s, sheet, xlsx};
+use common::dirs::temp_dir;
+use common::stations::base_station;
 use std::collections::HashMap;
 use std::ffi::OsStr;
 use std::path::Path;
-use support::{Cell, Sheet, base_station, n, s, sheet, xlsx};
 
 /// Cells of one sheet by absolute (row, column).
 type Cells<T> = Vec<((u32, u32), T)>;
@@ -82,7 +84,7 @@ fn check_kept(label: &str, input_bytes: &[u8]) -> Read {
 
 /// As [`check_kept`], with extra arguments for `lossledger audit` (e.g. `--map FILE`).
 fn check_kept_with(label: &str, input_bytes: &[u8], extra: &[&OsStr]) -> Read {
-    let dir = support::temp_dir(label);
+    let dir = temp_dir(label);
     let input = dir.join("in.xlsx");
     std::fs::write(&input, input_bytes).unwrap();
     let out = dir.join("out.xlsx");
@@ -93,13 +95,8 @@ fn check_kept_with(label: &str, input_bytes: &[u8], extra: &[&OsStr]) -> Read {
         out.as_os_str(),
     ];
     args.extend_from_slice(extra);
-    let res = support::run(&args);
-    let stderr = String::from_utf8_lossy(&res.stderr);
-    assert_eq!(
-        res.status.code(),
-        Some(0),
-        "{label}: audit failed: {stderr}"
-    );
+    let res = run(&args);
+    assert_eq!(res.code, Some(0), "{label}: audit failed: {}", res.stderr);
     assert_eq!(
         std::fs::read(&input).unwrap(),
         input_bytes,

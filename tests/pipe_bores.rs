@@ -9,6 +9,9 @@ use lossledger::physics::pipe::{
     material_from_text, nps_to_dn, parse_schedule, plastic_od_for_dn, roughness,
 };
 
+mod common;
+use common::csv::rows;
+
 const ASME_CSV: &str = include_str!(concat!(
     env!("CARGO_MANIFEST_DIR"),
     "/fixtures/reference/pipe_asme.csv"
@@ -17,22 +20,6 @@ const ROUGHNESS_CSV: &str = include_str!(concat!(
     env!("CARGO_MANIFEST_DIR"),
     "/fixtures/reference/pipe_roughness.csv"
 ));
-
-/// Split one CSV line, honouring double quotes (no escaped quotes in these fixtures).
-fn split_csv(line: &str) -> Vec<String> {
-    let mut out = Vec::new();
-    let mut cur = String::new();
-    let mut quoted = false;
-    for c in line.chars() {
-        match c {
-            '"' => quoted = !quoted,
-            ',' if !quoted => out.push(std::mem::take(&mut cur)),
-            _ => cur.push(c),
-        }
-    }
-    out.push(cur);
-    out
-}
 
 struct AsmeRow {
     standard: String,
@@ -45,24 +32,16 @@ struct AsmeRow {
 }
 
 fn asme_rows() -> Vec<AsmeRow> {
-    let mut lines = ASME_CSV.lines();
-    assert_eq!(
-        lines.next(),
-        Some("standard,schedule,nps_in,dn,od_m,wall_m,id_m")
-    );
-    lines
-        .filter(|l| !l.trim().is_empty())
-        .map(|l| {
-            let f = split_csv(l);
-            AsmeRow {
-                standard: f[0].clone(),
-                schedule: f[1].clone(),
-                nps: f[2].parse().expect("nps"),
-                dn: f[3].parse().ok(),
-                od_m: f[4].parse().expect("od"),
-                wall_m: f[5].parse().expect("wall"),
-                id_m: f[6].parse().expect("id"),
-            }
+    rows(ASME_CSV, "standard,schedule,nps_in,dn,od_m,wall_m,id_m")
+        .into_iter()
+        .map(|f| AsmeRow {
+            standard: f[0].clone(),
+            schedule: f[1].clone(),
+            nps: f[2].parse().expect("nps"),
+            dn: f[3].parse().ok(),
+            od_m: f[4].parse().expect("od"),
+            wall_m: f[5].parse().expect("wall"),
+            id_m: f[6].parse().expect("id"),
         })
         .collect()
 }
@@ -627,10 +606,8 @@ fn schedule_labels_round_trip() {
 }
 
 fn roughness_fixture(table: &str, name: &str) -> (Option<f64>, Option<f64>, Option<f64>) {
-    let mut lines = ROUGHNESS_CSV.lines();
-    assert_eq!(lines.next(), Some("table,name,epsilon_m,min_m,max_m"));
-    lines
-        .map(split_csv)
+    rows(ROUGHNESS_CSV, "table,name,epsilon_m,min_m,max_m")
+        .into_iter()
         .find(|f| f[0] == table && f[1] == name)
         .map(|f| (f[2].parse().ok(), f[3].parse().ok(), f[4].parse().ok()))
         .unwrap_or_else(|| panic!("{table} {name} not in fixture"))

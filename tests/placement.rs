@@ -6,7 +6,10 @@ use lossledger::audit::Rules;
 use lossledger::error::Severity;
 
 mod common;
-use common::{C, audit, book, rel};
+use common::book::{Cell, book, n, s};
+use common::csv::rows;
+use common::library::audit;
+use common::tol::rel;
 
 const ENTRANCE_WALL: &str = include_str!(concat!(
     env!("CARGO_MANIFEST_DIR"),
@@ -18,11 +21,10 @@ const ENTRANCE_WALL: &str = include_str!(concat!(
 const WALL_TOL: f64 = 1e-6;
 
 fn fixture_rows() -> Vec<Vec<String>> {
-    ENTRANCE_WALL
-        .lines()
-        .skip(1)
-        .map(|l| l.split(',').map(str::to_string).collect())
-        .collect()
+    rows(
+        ENTRANCE_WALL,
+        "nps_in,schedule,od_m,wall_m,d_in_m,k_ref,source",
+    )
 }
 
 const LINES: [&str; 8] = ["L0", "L1", "L2", "L3", "L4", "L5", "L6", "L7"];
@@ -42,14 +44,9 @@ fn projecting_entrance_uses_the_schedule_wall_like_fluids_entrance_distance() {
         // The fixture's sizes and schedules in the order the constants list them.
         assert_eq!(format!("NPS {}", r[0].trim_end_matches(".0")), SIZES[i]);
         assert_eq!(r[1], SCHEDULES[i]);
-        lines.push(vec![C::S(LINES[i]), C::N(50.0)]);
-        pipes.push(vec![
-            C::S(LINES[i]),
-            C::S(SIZES[i]),
-            C::S(SCHEDULES[i]),
-            C::N(10.0),
-        ]);
-        fittings.push(vec![C::S(LINES[i]), C::S("projecting entrance")]);
+        lines.push(vec![s(LINES[i]), n(50.0)]);
+        pipes.push(vec![s(LINES[i]), s(SIZES[i]), s(SCHEDULES[i]), n(10.0)]);
+        fittings.push(vec![s(LINES[i]), s("projecting entrance")]);
     }
     let path = book(
         "entrance-wall",
@@ -84,17 +81,17 @@ fn projecting_entrance_without_a_wall_says_it_assumed_thin_wall() {
             (
                 "Lines",
                 &["Line", "Flow [m3/h]"],
-                vec![vec![C::S("L"), C::N(50.0)]],
+                vec![vec![s("L"), n(50.0)]],
             ),
             (
                 "Pipes",
                 &["Line", "Inner diameter [mm]", "Length [m]"],
-                vec![vec![C::S("L"), C::N(102.3), C::N(10.0)]],
+                vec![vec![s("L"), n(102.3), n(10.0)]],
             ),
             (
                 "Fittings",
                 &["Line", "Item"],
-                vec![vec![C::S("L"), C::S("projecting entrance")]],
+                vec![vec![s("L"), s("projecting entrance")]],
             ),
         ],
     );
@@ -108,21 +105,21 @@ fn projecting_entrance_without_a_wall_says_it_assumed_thin_wall() {
 }
 
 /// A two-bore line (DN150 then DN200, both schedule 40) with the given fittings.
-fn two_bore(name: &str, fittings: Vec<Vec<C>>) -> std::path::PathBuf {
+fn two_bore(name: &str, fittings: Vec<Vec<Cell>>) -> std::path::PathBuf {
     book(
         name,
         &[
             (
                 "Lines",
                 &["Line", "Flow [m3/h]"],
-                vec![vec![C::S("D"), C::N(120.0)]],
+                vec![vec![s("D"), n(120.0)]],
             ),
             (
                 "Pipes",
                 &["Line", "Run no", "Size", "Schedule", "Length [m]"],
                 vec![
-                    vec![C::S("D"), C::N(1.0), C::S("DN150"), C::S("40"), C::N(5.0)],
-                    vec![C::S("D"), C::N(2.0), C::S("DN200"), C::S("40"), C::N(50.0)],
+                    vec![s("D"), n(1.0), s("DN150"), s("40"), n(5.0)],
+                    vec![s("D"), n(2.0), s("DN200"), s("40"), n(50.0)],
                 ],
             ),
             (
@@ -138,7 +135,7 @@ fn two_bore(name: &str, fittings: Vec<Vec<C>>) -> std::path::PathBuf {
 fn a_fitting_with_no_size_on_a_two_bore_line_is_an_error_listing_the_sizes() {
     let path = two_bore(
         "no-size-error",
-        vec![vec![C::S("D-E1"), C::S("D"), C::S("elbow-90"), C::E, C::E]],
+        vec![vec![s("D-E1"), s("D"), s("elbow-90"), Cell::E, Cell::E]],
     );
     let input = lossledger::ingest::read_path(&path).unwrap();
     let errs = lossledger::audit::run(&input, &Rules::default()).unwrap_err();
@@ -158,7 +155,7 @@ fn an_exit_with_no_size_takes_the_last_run_with_a_warning() {
     // Exit K = 1 on the DN200 schedule 40 bore (202.7 mm, ASME B36.10M), not the DN150 one.
     let path = two_bore(
         "no-size-exit",
-        vec![vec![C::S("D-X"), C::S("D"), C::S("exit"), C::E, C::E]],
+        vec![vec![s("D-X"), s("D"), s("exit"), Cell::E, Cell::E]],
     );
     let a = audit(&path, &Rules::default());
     let f = &a.fittings[0];
@@ -183,14 +180,8 @@ fn list_order_places_a_fitting_after_an_expansion() {
     let path = two_bore(
         "no-size-order",
         vec![
-            vec![
-                C::S("D-X1"),
-                C::S("D"),
-                C::S("expansion"),
-                C::S("DN150"),
-                C::S("DN200"),
-            ],
-            vec![C::S("D-E1"), C::S("D"), C::S("elbow-90"), C::E, C::E],
+            vec![s("D-X1"), s("D"), s("expansion"), s("DN150"), s("DN200")],
+            vec![s("D-E1"), s("D"), s("elbow-90"), Cell::E, Cell::E],
         ],
     );
     let a = audit(&path, &Rules::default());
@@ -214,21 +205,9 @@ fn disagreeing_neighbours_leave_a_fitting_unplaced() {
     let path = two_bore(
         "no-size-between",
         vec![
-            vec![
-                C::S("D-V"),
-                C::S("D"),
-                C::S("valve-gate"),
-                C::S("DN150"),
-                C::E,
-            ],
-            vec![C::S("D-E1"), C::S("D"), C::S("elbow-90"), C::E, C::E],
-            vec![
-                C::S("D-E2"),
-                C::S("D"),
-                C::S("elbow-90"),
-                C::S("DN200"),
-                C::E,
-            ],
+            vec![s("D-V"), s("D"), s("valve-gate"), s("DN150"), Cell::E],
+            vec![s("D-E1"), s("D"), s("elbow-90"), Cell::E, Cell::E],
+            vec![s("D-E2"), s("D"), s("elbow-90"), s("DN200"), Cell::E],
         ],
     );
     let input = lossledger::ingest::read_path(&path).unwrap();
@@ -244,27 +223,22 @@ fn bore_sized_fittings_match_bore_given_runs_without_a_warning() {
             (
                 "Lines",
                 &["Line", "Flow [m3/h]"],
-                vec![vec![C::S("M"), C::N(900.0)]],
+                vec![vec![s("M"), n(900.0)]],
             ),
             (
                 "Pipes",
                 &["Line", "Inner diameter [mm]", "Length [m]"],
                 vec![
-                    vec![C::S("M"), C::N(300.0), C::N(20.0)],
-                    vec![C::S("M"), C::N(400.0), C::N(80.0)],
+                    vec![s("M"), n(300.0), n(20.0)],
+                    vec![s("M"), n(400.0), n(80.0)],
                 ],
             ),
             (
                 "Fittings",
                 &["Tag", "Line", "Item", "Size"],
                 vec![
-                    vec![
-                        C::S("M-V"),
-                        C::S("M"),
-                        C::S("valve-butterfly"),
-                        C::S("ID 400"),
-                    ],
-                    vec![C::S("M-E"), C::S("M"), C::S("elbow-90"), C::S("ID 300")],
+                    vec![s("M-V"), s("M"), s("valve-butterfly"), s("ID 400")],
+                    vec![s("M-E"), s("M"), s("elbow-90"), s("ID 300")],
                 ],
             ),
         ],

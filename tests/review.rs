@@ -4,10 +4,14 @@
 //! The reference for every figure is each station's own `lossledger audit` (its JSON and its
 //! annotated copy): a review must show exactly what auditing each station alone shows.
 
-use calamine::{Data, Reader, Xlsx, open_workbook};
+mod common;
+
+use calamine::{Data, Reader};
+use common::bin::{Ran, Runs, bin};
+use common::dirs::{entries, temp_dir};
+use common::readback::{open, read_json};
 use serde_json::Value;
 use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
 
 #[path = "../examples/support/synth.rs"]
 #[allow(dead_code)] // the tests take a part of the shared generator
@@ -18,18 +22,6 @@ const STATIONS: usize = 20;
 const LINES: (usize, usize) = (2, 5);
 /// The station given a bad length cell (`Pipes!F4`).
 const BAD: usize = 7;
-
-fn bin() -> Command {
-    Command::new(env!("CARGO_BIN_EXE_lossledger"))
-}
-
-/// A fresh folder for one test.
-fn dir(name: &str) -> PathBuf {
-    let d = std::env::temp_dir().join(format!("lossledger-review-{}-{name}", std::process::id()));
-    let _ = std::fs::remove_dir_all(&d);
-    std::fs::create_dir_all(&d).unwrap();
-    d
-}
 
 /// Write the estate into `root/estate`, with station [`BAD`] bad when `bad`.
 fn estate(root: &Path, bad: bool) -> Vec<PathBuf> {
@@ -43,17 +35,8 @@ fn estate(root: &Path, bad: bool) -> Vec<PathBuf> {
         .collect()
 }
 
-fn review(args: &[&str], cwd: &Path) -> Output {
-    bin()
-        .arg("review")
-        .args(args)
-        .current_dir(cwd)
-        .output()
-        .unwrap()
-}
-
-fn json(path: &Path) -> Value {
-    serde_json::from_str(&std::fs::read_to_string(path).unwrap()).unwrap()
+fn review(args: &[&str], cwd: &Path) -> Ran {
+    bin().arg("review").args(args).current_dir(cwd).ran()
 }
 
 /// Audit one station alone: its JSON, and the bytes of its annotated copy.
@@ -69,10 +52,9 @@ fn audit_alone(station: &Path, cwd: &Path, out: &Path) -> (Value, Vec<u8>) {
         .arg("--json")
         .arg(&j)
         .current_dir(cwd)
-        .output()
-        .unwrap();
-    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
-    (json(&j), std::fs::read(out).unwrap())
+        .ran();
+    assert_eq!(o.code, Some(0), "{}", &o.stderr);
+    (read_json(&j), std::fs::read(out).unwrap())
 }
 
 fn count(findings: &[Value], severity: &str) -> u64 {
@@ -87,7 +69,7 @@ fn count(findings: &[Value], severity: &str) -> u64 {
 /// its file and cell, listed as not audited, and the others complete.
 #[test]
 fn every_station_in_the_review_is_its_own_audit() {
-    let root = dir("alone");
+    let root = temp_dir("alone");
     let files = estate(&root, true);
     let o = review(
         &[
@@ -101,11 +83,11 @@ fn every_station_in_the_review_is_its_own_audit() {
         ],
         &root,
     );
-    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
-    let stderr = String::from_utf8_lossy(&o.stderr);
+    assert_eq!(o.code, Some(0), "{}", &o.stderr);
+    let stderr = &o.stderr;
     assert!(stderr.contains("station-007.xlsx: Pipes!F4"), "{stderr}");
     assert!(stderr.contains("not audited"), "{stderr}");
-    let r = json(&root.join("out/review.json"));
+    let r = read_json(&root.join("out/review.json"));
     let rows = r["stations"].as_array().unwrap();
     assert_eq!(rows.len(), STATIONS);
     assert_eq!(r["totals"]["audited"], STATIONS as u64 - 1);
@@ -172,7 +154,7 @@ fn every_station_in_the_review_is_its_own_audit() {
 /// many, and says how many are left.
 #[test]
 fn worst_fittings_rank_all_stations_together() {
-    let root = dir("ranking");
+    let root = temp_dir("ranking");
     let files = estate(&root, false);
     let o = review(
         &[
@@ -186,7 +168,7 @@ fn worst_fittings_rank_all_stations_together() {
         ],
         &root,
     );
-    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    assert_eq!(o.code, Some(0), "{}", &o.stderr);
     let mut all: Vec<(String, String, f64)> = Vec::new();
     for file in &files {
         let name = file.file_stem().unwrap().to_str().unwrap().to_string();
@@ -200,7 +182,7 @@ fn worst_fittings_rank_all_stations_together() {
     let total: f64 = all.iter().map(|x| x.2).sum();
     // Stable: equal costs keep station order, then input order, as the review orders ties.
     all.sort_by(|a, b| b.2.total_cmp(&a.2));
-    let r = json(&root.join("r.json"));
+    let r = read_json(&root.join("r.json"));
     let worst = r["worst_fittings"].as_array().unwrap();
     assert_eq!(worst.len(), 15);
     assert_eq!(r["fittings_not_listed"], (all.len() - 15) as u64);
@@ -232,7 +214,7 @@ fn worst_fittings_rank_all_stations_together() {
         assert!(w["copy"].as_str().unwrap().starts_with("r-stations/"));
     }
     // The sheet lists the same 15, under the chart, linked to the copies.
-    let mut book: Xlsx<_> = open_workbook(root.join("r.xlsx")).unwrap();
+    let mut book = open(&root.join("r.xlsx"));
     assert_eq!(
         book.sheet_names(),
         ["Stations", "Worst fittings", "Findings", "Basis"]
@@ -254,20 +236,17 @@ fn worst_fittings_rank_all_stations_together() {
 /// written (no review, no JSON, no copies folder, no temporary files).
 #[test]
 fn strict_exits_2_and_writes_nothing() {
-    let root = dir("strict");
+    let root = temp_dir("strict");
     estate(&root, true);
     let o = review(
         &["estate", "--strict", "-o", "out.xlsx", "--json", "out.json"],
         &root,
     );
-    assert_eq!(o.status.code(), Some(2));
-    let stderr = String::from_utf8_lossy(&o.stderr);
+    assert_eq!(o.code, Some(2));
+    let stderr = &o.stderr;
     assert!(stderr.contains("station-007.xlsx: Pipes!F4"), "{stderr}");
     assert!(stderr.contains("nothing was written"), "{stderr}");
-    let left: Vec<String> = std::fs::read_dir(&root)
-        .unwrap()
-        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
-        .collect();
+    let left = entries(&root);
     assert_eq!(left, ["estate"], "left behind: {left:?}");
     assert_eq!(
         std::fs::read_dir(root.join("estate")).unwrap().count(),
@@ -279,7 +258,7 @@ fn strict_exits_2_and_writes_nothing() {
 /// byte-identical workbooks and JSON.
 #[test]
 fn jobs_change_nothing_in_the_outputs() {
-    let root = dir("jobs");
+    let root = temp_dir("jobs");
     estate(&root, true);
     for jobs in ["1", "3"] {
         let o = review(
@@ -294,7 +273,7 @@ fn jobs_change_nothing_in_the_outputs() {
             ],
             &root,
         );
-        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+        assert_eq!(o.code, Some(0), "{}", &o.stderr);
     }
     let read = |p: &str| std::fs::read(root.join(p)).unwrap();
     let (j1, j3) = (
@@ -311,7 +290,7 @@ fn jobs_change_nothing_in_the_outputs() {
         read("j3-stations/station-003.audit.xlsx")
     );
     let o = review(&["estate", "--jobs", "0"], &root);
-    assert_eq!(o.status.code(), Some(2), "--jobs 0 is a usage error");
+    assert_eq!(o.code, Some(2), "--jobs 0 is a usage error");
 }
 
 /// Without `-o` the review is `review.xlsx` with `review-stations/` in the working folder;
@@ -321,11 +300,11 @@ fn jobs_change_nothing_in_the_outputs() {
 #[test]
 fn default_output_json_on_stdout_and_basis() {
     use sha2::{Digest, Sha256};
-    let root = dir("default");
+    let root = temp_dir("default");
     let files = estate(&root, false);
     let o = review(&["estate", "--json", "-"], &root);
-    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
-    let r: Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(o.code, Some(0), "{}", &o.stderr);
+    let r: Value = serde_json::from_str(&o.stdout).unwrap();
     assert_eq!(r["invented_data"], true);
     assert!(
         r["invented_data_note"]
@@ -340,7 +319,7 @@ fn default_output_json_on_stdout_and_basis() {
             .count(),
         STATIONS
     );
-    let mut book: Xlsx<_> = open_workbook(root.join("review.xlsx")).unwrap();
+    let mut book = open(&root.join("review.xlsx"));
     let basis = book.worksheet_range("Basis").unwrap();
     let text: Vec<String> = basis
         .rows()

@@ -1,33 +1,31 @@
 //! Safe writing: outputs go to a temporary file in the target folder and are renamed into place, so
 //! a failure part-way leaves neither a partial output nor a changed input, and the message says why.
 
-#[path = "bad/support.rs"]
-mod support;
+mod common;
 
+use common::bin::{Ran, run};
+use common::book::xlsx;
+use common::dirs::{entries, temp_dir};
+use common::stations::base_station;
 use std::ffi::OsStr;
 use std::path::Path;
-use std::process::Output;
 
 fn station(dir: &Path) -> (std::path::PathBuf, Vec<u8>) {
-    let bytes = support::xlsx(&support::base_station());
+    let bytes = xlsx(&base_station());
     let input = dir.join("station.xlsx");
     std::fs::write(&input, &bytes).unwrap();
     (input, bytes)
 }
 
-fn audit(input: &Path, extra: &[&OsStr]) -> Output {
+fn audit(input: &Path, extra: &[&OsStr]) -> Ran {
     let mut args = vec![OsStr::new("audit"), input.as_os_str()];
     args.extend_from_slice(extra);
-    support::run(&args)
+    run(&args)
 }
 
-fn stderr(o: &Output) -> String {
-    String::from_utf8_lossy(&o.stderr).into_owned()
-}
-
-fn refused_with(o: &Output, says: &str) {
-    let e = stderr(o);
-    assert_eq!(o.status.code(), Some(2), "{e}");
+fn refused_with(o: &Ran, says: &str) {
+    let e = &o.stderr;
+    assert_eq!(o.code, Some(2), "{e}");
     assert!(!e.contains("panicked"), "{e}");
     assert!(
         e.to_lowercase().contains(&says.to_lowercase()),
@@ -48,7 +46,7 @@ fn no_temp_files(dir: &Path) {
 
 #[test]
 fn output_path_that_is_a_directory_is_refused_and_nothing_changes() {
-    let dir = support::temp_dir("out-is-dir");
+    let dir = temp_dir("out-is-dir");
     let (input, bytes) = station(&dir);
     let out = dir.join("result.xlsx");
     std::fs::create_dir(&out).unwrap();
@@ -56,12 +54,12 @@ fn output_path_that_is_a_directory_is_refused_and_nothing_changes() {
     refused_with(&o, "result.xlsx");
     assert!(out.is_dir() && std::fs::read_dir(&out).unwrap().next().is_none());
     assert_eq!(std::fs::read(&input).unwrap(), bytes);
-    assert_eq!(support::entries(&dir), ["result.xlsx", "station.xlsx"]);
+    assert_eq!(entries(&dir), ["result.xlsx", "station.xlsx"]);
 }
 
 #[test]
 fn json_path_that_is_a_directory_leaves_no_workbook_either() {
-    let dir = support::temp_dir("json-is-dir");
+    let dir = temp_dir("json-is-dir");
     let (input, bytes) = station(&dir);
     let json = dir.join("out.json");
     std::fs::create_dir(&json).unwrap();
@@ -69,7 +67,7 @@ fn json_path_that_is_a_directory_leaves_no_workbook_either() {
     refused_with(&o, "out.json");
     assert_eq!(std::fs::read(&input).unwrap(), bytes);
     assert_eq!(
-        support::entries(&dir),
+        entries(&dir),
         ["out.json", "station.xlsx"],
         "a partial set of outputs was left"
     );
@@ -77,7 +75,7 @@ fn json_path_that_is_a_directory_leaves_no_workbook_either() {
 
 #[test]
 fn output_folder_missing_or_a_file_is_refused() {
-    let dir = support::temp_dir("no-folder");
+    let dir = temp_dir("no-folder");
     let (input, bytes) = station(&dir);
     let out = dir.join("missing").join("out.xlsx");
     let o = audit(&input, &[OsStr::new("-o"), out.as_os_str()]);
@@ -88,12 +86,12 @@ fn output_folder_missing_or_a_file_is_refused() {
     let o = audit(&input, &[OsStr::new("-o"), out.as_os_str()]);
     refused_with(&o, "out.xlsx");
     assert_eq!(std::fs::read(&input).unwrap(), bytes);
-    assert_eq!(support::entries(&dir), ["plain-file", "station.xlsx"]);
+    assert_eq!(entries(&dir), ["plain-file", "station.xlsx"]);
 }
 
 #[test]
 fn output_over_the_input_is_refused() {
-    let dir = support::temp_dir("over-input");
+    let dir = temp_dir("over-input");
     let (input, bytes) = station(&dir);
     let o = audit(&input, &[OsStr::new("-o"), input.as_os_str()]);
     refused_with(&o, "input");
@@ -104,7 +102,7 @@ fn output_over_the_input_is_refused() {
     let o = audit(&input, &[OsStr::new("-o"), other.as_os_str()]);
     refused_with(&o, "input");
     assert_eq!(std::fs::read(&input).unwrap(), bytes);
-    assert_eq!(support::entries(&dir), ["station.xlsx"]);
+    assert_eq!(entries(&dir), ["station.xlsx"]);
 }
 
 /// Make `dir` unwritable. As root, permission bits do not stop writes, so the folder is also made
@@ -137,7 +135,7 @@ fn make_writable(dir: &Path) {
 
 #[test]
 fn read_only_output_folder_fails_cleanly_and_says_why() {
-    let dir = support::temp_dir("read-only");
+    let dir = temp_dir("read-only");
     let (input, bytes) = station(&dir);
     let ro = dir.join("ro");
     std::fs::create_dir(&ro).unwrap();
@@ -157,9 +155,9 @@ fn read_only_output_folder_fails_cleanly_and_says_why() {
             json.as_os_str(),
         ],
     );
-    let listing = support::entries(&ro);
+    let listing = entries(&ro);
     make_writable(&ro);
-    let e = stderr(&o);
+    let e = &o.stderr;
     refused_with(&o, "out.xlsx");
     assert!(
         e.contains("ermission denied") || e.contains("ot permitted") || e.contains("ead-only"),
@@ -171,7 +169,7 @@ fn read_only_output_folder_fails_cleanly_and_says_why() {
 
 #[test]
 fn existing_output_is_replaced_whole_on_success_and_kept_on_failure() {
-    let dir = support::temp_dir("replace");
+    let dir = temp_dir("replace");
     let (input, _) = station(&dir);
     let out = dir.join("out.xlsx");
     std::fs::write(&out, b"previous results").unwrap();
@@ -183,7 +181,7 @@ fn existing_output_is_replaced_whole_on_success_and_kept_on_failure() {
     assert_eq!(std::fs::read(&out).unwrap(), b"previous results");
     // A good run replaces it with a complete workbook.
     let o = audit(&input, &[OsStr::new("-o"), out.as_os_str()]);
-    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert_eq!(o.code, Some(0), "{}", o.stderr);
     let new = std::fs::read(&out).unwrap();
     assert!(new.starts_with(b"PK\x03\x04"), "output is not a zip");
     let wb: Result<calamine::Xlsx<_>, _> = calamine::open_workbook(&out);

@@ -5,9 +5,13 @@
 //! Expected conversions use the exact definitions of NIST SP 811 (2008) B.8: 1 ft = 0.3048 m;
 //! 1 US gallon = 3.785411784 L (so 1 m³/h = 1000 / 3.785411784 / 60 US gpm).
 
-use calamine::{Data, Range, Reader, Xlsx, open_workbook};
-use std::path::{Path, PathBuf};
-use std::process::Command;
+mod common;
+
+use calamine::{Data, Range, Reader, Xlsx};
+use common::bin::{Runs, bin, demo};
+use common::dirs::temp_dir;
+use common::readback::open;
+use std::path::Path;
 
 /// Relative tolerance on a converted figure written at full precision: both sides are f64
 /// products of the same value.
@@ -20,44 +24,21 @@ const FT_PER_M: f64 = 1.0 / 0.3048;
 /// US gpm per m³/h, from 1 US gal = 3.785411784 L exactly (NIST SP 811 B.8).
 const GPM_PER_M3H: f64 = 1000.0 / 3.785411784 / 60.0;
 
-fn temp_dir(name: &str) -> PathBuf {
-    let d = std::env::temp_dir().join(format!("lossledger-sheet-{name}-{}", std::process::id()));
-    let _ = std::fs::remove_dir_all(&d);
-    std::fs::create_dir_all(&d).unwrap();
-    d
-}
-
 /// The demo's input (written into `dir` on first use), and its audit written in `units`.
 fn demo_audited(dir: &Path, units: &str) -> Xlsx<std::io::BufReader<std::fs::File>> {
-    let bin = env!("CARGO_BIN_EXE_lossledger");
     // The demo is written once per folder; each call audits it again in its own units.
     if !dir.join("kestrel-ridge.xlsx").exists() {
-        let out = Command::new(bin)
-            .arg("demo")
-            .arg("--dir")
-            .arg(dir)
-            .output()
-            .unwrap();
-        assert!(
-            out.status.success(),
-            "{}",
-            String::from_utf8_lossy(&out.stderr)
-        );
+        demo(dir);
     }
     let target = dir.join(format!("audit-{units}.xlsx"));
-    let out = Command::new(bin)
+    let out = bin()
         .arg("audit")
         .arg(dir.join("kestrel-ridge.xlsx"))
         .args(["--units", units, "-o"])
         .arg(&target)
-        .output()
-        .unwrap();
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    open_workbook(&target).unwrap()
+        .ran();
+    assert_eq!(out.code, Some(0), "{}", out.stderr);
+    open(&target)
 }
 
 /// Each row's column-A label and the cell `col` beside it.

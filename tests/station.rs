@@ -17,9 +17,10 @@ use lossledger::ingest::schema::{TableKind, fold, match_column, spec};
 use std::path::PathBuf;
 
 mod common;
-use common::{C, Sheet, audit, book, rel};
-
-const G: f64 = 9.80665;
+use common::book::{Cell, Table, book, n, s};
+use common::facts::G;
+use common::library::audit;
+use common::tol::rel;
 
 fn fixture_density(t: f64) -> f64 {
     let text = std::fs::read_to_string(concat!(
@@ -159,12 +160,12 @@ fn station_book(
     name: &str,
     t: f64,
     headers: &[&'static str],
-    values: Vec<C>,
-    curve: Option<Vec<Vec<C>>>,
+    values: Vec<Cell>,
+    curve: Option<Vec<Vec<Cell>>>,
 ) -> PathBuf {
     let mut system_headers: Vec<&str> = vec!["System", "Lines", "Static head [m]"];
     system_headers.extend_from_slice(headers);
-    let mut row = vec![C::S("B"), C::S("S1, D1"), C::N(12.0)];
+    let mut row = vec![s("B"), s("S1, D1"), n(12.0)];
     row.extend(values);
     let curve_rows = curve.unwrap_or_else(|| {
         [
@@ -175,25 +176,25 @@ fn station_book(
             (300.0, 16.0, Some(66.0)),
         ]
         .into_iter()
-        .map(|(q, h, e)| vec![C::S("B"), C::N(q), C::N(h), e.map_or(C::E, C::N)])
+        .map(|(q, h, e)| vec![s("B"), n(q), n(h), e.map_or(Cell::E, Cell::N)])
         .collect()
     });
     let system_headers: &'static [&'static str] = Box::leak(system_headers.into_boxed_slice());
-    let sheets: Vec<Sheet<'_>> = vec![
+    let sheets: Vec<Table<'_>> = vec![
         (
             "Lines",
             &["Line", "Service", "Flow [m3/h]", "Temperature [°C]"],
             vec![
-                vec![C::S("S1"), C::S("pump-suction"), C::N(180.0), C::N(t)],
-                vec![C::S("D1"), C::S("pump-discharge"), C::N(180.0), C::N(t)],
+                vec![s("S1"), s("pump-suction"), n(180.0), n(t)],
+                vec![s("D1"), s("pump-discharge"), n(180.0), n(t)],
             ],
         ),
         (
             "Pipes",
             &["Line", "Inner diameter [mm]", "Length [m]", "C factor"],
             vec![
-                vec![C::S("S1"), C::N(200.0), C::N(10.0), C::N(120.0)],
-                vec![C::S("D1"), C::N(150.0), C::N(200.0), C::N(120.0)],
+                vec![s("S1"), n(200.0), n(10.0), n(120.0)],
+                vec![s("D1"), n(150.0), n(200.0), n(120.0)],
             ],
         ),
         (
@@ -209,22 +210,22 @@ fn station_book(
             ],
             vec![
                 vec![
-                    C::S("D1-CV"),
-                    C::S("D1"),
-                    C::S("valve-globe"),
-                    C::N(1.0),
-                    C::N(50.0),
-                    C::N(15.0),
-                    C::N(8000.0),
+                    s("D1-CV"),
+                    s("D1"),
+                    s("valve-globe"),
+                    n(1.0),
+                    n(50.0),
+                    n(15.0),
+                    n(8000.0),
                 ],
                 vec![
-                    C::S("D1-E"),
-                    C::S("D1"),
-                    C::S("elbow-90"),
-                    C::N(2.0),
-                    C::E,
-                    C::E,
-                    C::E,
+                    s("D1-E"),
+                    s("D1"),
+                    s("elbow-90"),
+                    n(2.0),
+                    Cell::E,
+                    Cell::E,
+                    Cell::E,
                 ],
             ],
         ),
@@ -240,7 +241,7 @@ fn station_book(
 
 fn with_control(name: &str, control: &'static str) -> lossledger::audit::Audit {
     audit(
-        &station_book(name, 20.0, &["Control"], vec![C::S(control)], None),
+        &station_book(name, 20.0, &["Control"], vec![s(control)], None),
         &Rules::default(),
     )
 }
@@ -259,7 +260,13 @@ fn the_curve_efficiency_at_the_operating_point_replaces_the_flat_default() {
         assert_eq!(l.efficiency_basis, CURVE_BASIS);
     }
     // Basis says which lines took the curve's efficiency instead of the flat default.
-    let path = station_book("curve-eff", 20.0, &["Control"], vec![C::S("fixed")], None);
+    let path = station_book(
+        "curve-eff",
+        20.0,
+        &["Control"],
+        vec![Cell::S("fixed".into())],
+        None,
+    );
     let input = lossledger::ingest::read_path(&path).unwrap();
     let bytes = lossledger::report::workbook::build(&input, &a).unwrap();
     let mut book: calamine::Xlsx<_> =
@@ -395,7 +402,7 @@ fn throttled_counts_the_valve_and_present_values_follow_the_life_cycle_rules() {
             "throttled-0",
             20.0,
             &["Control"],
-            vec![C::S("throttled")],
+            vec![Cell::S("throttled".into())],
             None,
         ),
         &rules,
@@ -416,7 +423,7 @@ fn metered(name: &str, energy: f64, volume: f64) -> PathBuf {
         name,
         20.0,
         &["Metered energy [kWh/yr]", "Metered volume [m3/yr]"],
-        vec![C::N(energy), C::N(volume)],
+        vec![n(energy), n(volume)],
         None,
     )
 }
@@ -471,7 +478,7 @@ fn test_point(name: &str, head_m: f64) -> PathBuf {
         name,
         20.0,
         &["Test flow [m3/h]", "Test head [m]", "Test power [kW]"],
-        vec![C::N(170.0), C::N(head_m), C::N(25.0)],
+        vec![n(170.0), n(head_m), n(25.0)],
         None,
     )
 }
@@ -525,7 +532,7 @@ fn test_pressures_give_the_head() {
             "Test discharge pressure [bar]",
             "Test power [kW]",
         ],
-        vec![C::N(180.0), C::N(20.0), C::N(3.2), C::N(25.0)],
+        vec![n(180.0), n(20.0), n(3.2), n(25.0)],
         None,
     );
     let a = audit(&path, &Rules::default());
@@ -685,14 +692,7 @@ fn aliased_headers_with_their_units_read_through_an_audit() {
             "Measured head [ft]",
             "Input power [hp]",
         ],
-        vec![
-            C::S("VSD"),
-            C::N(100.0),
-            C::N(720.0),
-            C::N(50.0),
-            C::N(100.0),
-            C::N(30.0),
-        ],
+        vec![s("VSD"), n(100.0), n(720.0), n(50.0), n(100.0), n(30.0)],
         Some(
             [
                 (0.0, 42.0, 0.0),
@@ -701,14 +701,7 @@ fn aliased_headers_with_their_units_read_through_an_audit() {
                 (300.0, 16.0, 38.0),
             ]
             .into_iter()
-            .map(|(q, h, p)| {
-                vec![
-                    C::S("B"),
-                    C::N(q),
-                    C::N(h),
-                    if p > 0.0 { C::N(p) } else { C::E },
-                ]
-            })
+            .map(|(q, h, p)| vec![s("B"), n(q), n(h), if p > 0.0 { n(p) } else { Cell::E }])
             .collect(),
         ),
     );
@@ -816,13 +809,13 @@ fn impossible_measured_values_are_errors_at_their_cells_with_a_hint() {
         ),
         (
             "volume with no energy",
-            station_book("bad-noenergy", 20.0, &e, vec![C::E, C::N(720_000.0)], None),
+            station_book("bad-noenergy", 20.0, &e, vec![Cell::E, n(720_000.0)], None),
             "Systems!D2",
             "no metered energy",
         ),
         (
             "energy with no volume",
-            station_book("bad-novolume", 20.0, &e, vec![C::N(1000.0), C::E], None),
+            station_book("bad-novolume", 20.0, &e, vec![n(1000.0), Cell::E], None),
             "Systems!E2",
             "no metered volume",
         ),
@@ -832,7 +825,7 @@ fn impossible_measured_values_are_errors_at_their_cells_with_a_hint() {
                 "bad-test",
                 20.0,
                 &["Test flow [m3/h]", "Test head [m]", "Test power [kW]"],
-                vec![C::N(180.0), C::N(30.0), C::N(5.0)],
+                vec![n(180.0), n(30.0), n(5.0)],
                 None,
             ),
             "Systems!F2",
@@ -844,7 +837,7 @@ fn impossible_measured_values_are_errors_at_their_cells_with_a_hint() {
                 "bad-nopower",
                 20.0,
                 &["Test flow [m3/h]", "Test head [m]", "Test power [kW]"],
-                vec![C::N(180.0), C::N(30.0), C::E],
+                vec![n(180.0), n(30.0), Cell::E],
                 None,
             ),
             "Systems!F2",
@@ -861,7 +854,7 @@ fn impossible_measured_values_are_errors_at_their_cells_with_a_hint() {
                     "Test discharge pressure [kPa]",
                     "Test power [kW]",
                 ],
-                vec![C::N(180.0), C::N(300.0), C::N(100.0), C::N(25.0)],
+                vec![n(180.0), n(300.0), n(100.0), n(25.0)],
                 None,
             ),
             "Systems!F2",
@@ -873,7 +866,7 @@ fn impossible_measured_values_are_errors_at_their_cells_with_a_hint() {
                 "bad-sys-eff",
                 20.0,
                 &["Efficiency [%]"],
-                vec![C::N(120.0)],
+                vec![n(120.0)],
                 None,
             ),
             "Systems!D2",
@@ -885,7 +878,7 @@ fn impossible_measured_values_are_errors_at_their_cells_with_a_hint() {
                 "bad-control",
                 20.0,
                 &["Control"],
-                vec![C::S("automatic")],
+                vec![s("automatic")],
                 None,
             ),
             "Systems!D2",
@@ -899,9 +892,9 @@ fn impossible_measured_values_are_errors_at_their_cells_with_a_hint() {
                 &[],
                 vec![],
                 Some(vec![
-                    vec![C::S("B"), C::N(0.0), C::N(40.0), C::E],
-                    vec![C::S("B"), C::N(180.0), C::N(33.0), C::N(120.0)],
-                    vec![C::S("B"), C::N(300.0), C::N(16.0), C::E],
+                    vec![s("B"), n(0.0), n(40.0), Cell::E],
+                    vec![s("B"), n(180.0), n(33.0), n(120.0)],
+                    vec![s("B"), n(300.0), n(16.0), Cell::E],
                 ]),
             ),
             "'Pump curve'!D3",
@@ -922,9 +915,9 @@ fn impossible_measured_values_are_errors_at_their_cells_with_a_hint() {
             &[],
             vec![],
             Some(vec![
-                vec![C::S("B"), C::N(0.0), C::N(40.0), C::E],
-                vec![C::S("B"), C::N(180.0), C::N(33.0), C::N(5.0)],
-                vec![C::S("B"), C::N(300.0), C::N(16.0), C::E],
+                vec![s("B"), n(0.0), n(40.0), Cell::E],
+                vec![s("B"), n(180.0), n(33.0), n(5.0)],
+                vec![s("B"), n(300.0), n(16.0), Cell::E],
             ]),
         ),
         "Pump curve",

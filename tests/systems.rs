@@ -8,9 +8,10 @@ use lossledger::error::Severity;
 use std::path::PathBuf;
 
 mod common;
-use common::{C, Sheet, audit, book, rel};
-
-const G: f64 = 9.80665;
+use common::book::{Cell, Table, book, n, s};
+use common::facts::G;
+use common::library::audit;
+use common::tol::rel;
 
 fn two_line_book(name: &str) -> PathBuf {
     book(
@@ -20,30 +21,30 @@ fn two_line_book(name: &str) -> PathBuf {
                 "Lines",
                 &["Line", "Service", "Flow [m3/h]", "Temperature [°C]"],
                 vec![
-                    vec![C::S("S1"), C::S("pump-suction"), C::N(144.0), C::N(20.0)],
-                    vec![C::S("D1"), C::S("pump-discharge"), C::N(144.0), C::N(20.0)],
+                    vec![s("S1"), s("pump-suction"), n(144.0), n(20.0)],
+                    vec![s("D1"), s("pump-discharge"), n(144.0), n(20.0)],
                 ],
             ),
             (
                 "Pipes",
                 &["Line", "Inner diameter [mm]", "Length [m]", "C factor"],
                 vec![
-                    vec![C::S("S1"), C::N(200.0), C::N(10.0), C::N(120.0)],
-                    vec![C::S("D1"), C::N(150.0), C::N(200.0), C::N(120.0)],
+                    vec![s("S1"), n(200.0), n(10.0), n(120.0)],
+                    vec![s("D1"), n(150.0), n(200.0), n(120.0)],
                 ],
             ),
             (
                 "Fittings",
                 &["Tag", "Line", "Item", "K"],
                 vec![
-                    vec![C::S("S1-K"), C::S("S1"), C::E, C::N(0.5)],
-                    vec![C::S("D1-K"), C::S("D1"), C::E, C::N(5.0)],
+                    vec![s("S1-K"), s("S1"), Cell::E, n(0.5)],
+                    vec![s("D1-K"), s("D1"), Cell::E, n(5.0)],
                 ],
             ),
             (
                 "Systems",
                 &["System", "Lines", "Static head [m]", "Pump head [m]"],
-                vec![vec![C::S("Two"), C::S("S1, D1"), C::N(12.0), C::N(21.0)]],
+                vec![vec![s("Two"), s("S1, D1"), n(12.0), n(21.0)]],
             ),
         ],
     )
@@ -104,10 +105,10 @@ fn system_curve_recomputes_friction_per_flow_across_a_regime_change() {
                 "Lines",
                 &["Line", "Service", "Flow [m3/s]", "Fluid"],
                 vec![vec![
-                    C::S("OIL"),
-                    C::S("pump-discharge"),
-                    C::N(q_duty),
-                    C::S("light oil"),
+                    s("OIL"),
+                    s("pump-discharge"),
+                    n(q_duty),
+                    s("light oil"),
                 ]],
             ),
             (
@@ -118,17 +119,17 @@ fn system_curve_recomputes_friction_per_flow_across_a_regime_change() {
                     "Length [m]",
                     "Roughness [mm]",
                 ],
-                vec![vec![C::S("OIL"), C::N(100.0), C::N(l), C::N(0.0)]],
+                vec![vec![s("OIL"), n(100.0), n(l), n(0.0)]],
             ),
             (
                 "Fluids",
                 &["Fluid", "Density [kg/m3]", "Viscosity [Pa.s]"],
-                vec![vec![C::S("light oil"), C::N(rho), C::N(mu)]],
+                vec![vec![s("light oil"), n(rho), n(mu)]],
             ),
             (
                 "Systems",
                 &["System", "Lines", "Static head [m]"],
-                vec![vec![C::S("OilSys"), C::S("OIL"), C::N(5.0)]],
+                vec![vec![s("OilSys"), s("OIL"), n(5.0)]],
             ),
         ],
     );
@@ -182,36 +183,31 @@ fn operating_point_is_the_intersection() {
 
 #[test]
 fn a_pump_curve_sheet_gives_the_pump_head_and_the_operating_point() {
-    let sheets: Vec<Sheet<'_>> = vec![
+    let sheets: Vec<Table<'_>> = vec![
         (
             "Lines",
             &["Line", "Service", "Flow [m3/h]", "System"],
             vec![
-                vec![
-                    C::S("D1"),
-                    C::S("pump-discharge"),
-                    C::N(144.0),
-                    C::S("Curve"),
-                ],
-                vec![C::S("S1"), C::S("pump-suction"), C::N(144.0), C::S("Curve")],
+                vec![s("D1"), s("pump-discharge"), n(144.0), s("Curve")],
+                vec![s("S1"), s("pump-suction"), n(144.0), s("Curve")],
             ],
         ),
         (
             "Pipes",
             &["Line", "Inner diameter [mm]", "Length [m]", "C factor"],
             vec![
-                vec![C::S("S1"), C::N(200.0), C::N(10.0), C::N(120.0)],
-                vec![C::S("D1"), C::N(150.0), C::N(200.0), C::N(120.0)],
+                vec![s("S1"), n(200.0), n(10.0), n(120.0)],
+                vec![s("D1"), n(150.0), n(200.0), n(120.0)],
             ],
         ),
         (
             "Pump curve",
             &["System", "Flow [m3/h]", "Head [m]"],
             vec![
-                vec![C::S("Curve"), C::N(0.0), C::N(30.0)],
-                vec![C::S("Curve"), C::N(100.0), C::N(28.0)],
-                vec![C::S("Curve"), C::N(200.0), C::N(20.0)],
-                vec![C::S("Curve"), C::N(300.0), C::N(0.0)],
+                vec![s("Curve"), n(0.0), n(30.0)],
+                vec![s("Curve"), n(100.0), n(28.0)],
+                vec![s("Curve"), n(200.0), n(20.0)],
+                vec![s("Curve"), n(300.0), n(0.0)],
             ],
         ),
     ];
@@ -282,24 +278,24 @@ fn npsh_book(name: &str, t: f64, npshr: f64, level: f64) -> PathBuf {
                 "Lines",
                 &["Line", "Service", "Flow [m3/h]", "Temperature [°C]"],
                 vec![
-                    vec![C::S("S"), C::S("pump-suction"), C::N(60.0), C::N(t)],
-                    vec![C::S("D"), C::S("pump-discharge"), C::N(60.0), C::N(t)],
+                    vec![s("S"), s("pump-suction"), n(60.0), n(t)],
+                    vec![s("D"), s("pump-discharge"), n(60.0), n(t)],
                 ],
             ),
             (
                 "Pipes",
                 &["Line", "Size", "Schedule", "Length [m]"],
                 vec![
-                    vec![C::S("S"), C::S("DN150"), C::S("40"), C::N(6.0)],
-                    vec![C::S("D"), C::S("DN100"), C::S("40"), C::N(30.0)],
+                    vec![s("S"), s("DN150"), s("40"), n(6.0)],
+                    vec![s("D"), s("DN100"), s("40"), n(30.0)],
                 ],
             ),
             (
                 "Fittings",
                 &["Tag", "Line", "Item"],
                 vec![
-                    vec![C::S("S-EN"), C::S("S"), C::S("entrance-square-edged")],
-                    vec![C::S("S-V"), C::S("S"), C::S("valve-gate")],
+                    vec![s("S-EN"), s("S"), s("entrance-square-edged")],
+                    vec![s("S-V"), s("S"), s("valve-gate")],
                 ],
             ),
             (
@@ -311,13 +307,7 @@ fn npsh_book(name: &str, t: f64, npshr: f64, level: f64) -> PathBuf {
                     "NPSH required [m]",
                     "Suction level [m]",
                 ],
-                vec![vec![
-                    C::S("N"),
-                    C::S("S, D"),
-                    C::N(10.0),
-                    C::N(npshr),
-                    C::N(level),
-                ]],
+                vec![vec![s("N"), s("S, D"), n(10.0), n(npshr), n(level)]],
             ),
         ],
     )
@@ -404,16 +394,16 @@ fn layout_book(
                 "Lines",
                 &["Line", "Service", "Flow [m3/h]"],
                 vec![
-                    vec![C::S("S"), C::S("pump-suction"), C::N(40.0)],
-                    vec![C::S("D"), C::S("pump-discharge"), C::N(40.0)],
+                    vec![s("S"), s("pump-suction"), n(40.0)],
+                    vec![s("D"), s("pump-discharge"), n(40.0)],
                 ],
             ),
             (
                 "Pipes",
                 &["Line", "Size", "Schedule", "Length [m]"],
                 vec![
-                    vec![C::S("S"), C::S(suction_size), C::S("40"), C::N(4.0)],
-                    vec![C::S("D"), C::S("DN100"), C::S("40"), C::N(30.0)],
+                    vec![s("S"), s(suction_size), s("40"), n(4.0)],
+                    vec![s("D"), s("DN100"), s("40"), n(30.0)],
                 ],
             ),
             (
@@ -421,13 +411,13 @@ fn layout_book(
                 &["Tag", "Line", "Item"],
                 order
                     .iter()
-                    .map(|&(tag, item)| vec![C::S(tag), C::S("S"), C::S(item)])
+                    .map(|&(tag, item)| vec![s(tag), s("S"), s(item)])
                     .collect(),
             ),
             (
                 "Systems",
                 &["System", "Lines", "Static head [m]"],
-                vec![vec![C::S("L"), C::S("S, D"), C::N(5.0)]],
+                vec![vec![s("L"), s("S, D"), n(5.0)]],
             ),
         ],
     )
@@ -481,10 +471,10 @@ fn operating_book_in(
     (header, m_per_unit): (&'static str, f64),
 ) -> PathBuf {
     let mut sys_headers = vec!["System", "Lines", "Static head [m]", "Suction level [m]"];
-    let mut sys_row = vec![C::S("Two"), C::S("S1, D1"), C::N(12.0), C::N(2.0)];
+    let mut sys_row = vec![s("Two"), s("S1, D1"), n(12.0), n(2.0)];
     if let Some(z) = elevation {
         sys_headers.push("Site elevation [m]");
-        sys_row.push(C::N(z));
+        sys_row.push(n(z));
     }
     let sys_headers: &'static [&'static str] = Box::leak(sys_headers.into_boxed_slice());
     book(
@@ -494,24 +484,24 @@ fn operating_book_in(
                 "Lines",
                 &["Line", "Service", "Flow [m3/h]", "Temperature [°C]"],
                 vec![
-                    vec![C::S("S1"), C::S("pump-suction"), C::N(144.0), C::N(20.0)],
-                    vec![C::S("D1"), C::S("pump-discharge"), C::N(144.0), C::N(20.0)],
+                    vec![s("S1"), s("pump-suction"), n(144.0), n(20.0)],
+                    vec![s("D1"), s("pump-discharge"), n(144.0), n(20.0)],
                 ],
             ),
             (
                 "Pipes",
                 &["Line", "Inner diameter [mm]", "Length [m]", "C factor"],
                 vec![
-                    vec![C::S("S1"), C::N(200.0), C::N(10.0), C::N(120.0)],
-                    vec![C::S("D1"), C::N(150.0), C::N(200.0), C::N(120.0)],
+                    vec![s("S1"), n(200.0), n(10.0), n(120.0)],
+                    vec![s("D1"), n(150.0), n(200.0), n(120.0)],
                 ],
             ),
             (
                 "Fittings",
                 &["Tag", "Line", "Item", "K"],
                 vec![
-                    vec![C::S("S1-K"), C::S("S1"), C::E, C::N(0.5)],
-                    vec![C::S("D1-K"), C::S("D1"), C::E, C::N(5.0)],
+                    vec![s("S1-K"), s("S1"), Cell::E, n(0.5)],
+                    vec![s("D1-K"), s("D1"), Cell::E, n(5.0)],
                 ],
             ),
             ("Systems", sys_headers, vec![sys_row]),
@@ -519,18 +509,18 @@ fn operating_book_in(
                 "Pump curve",
                 Box::leak(vec!["System", "Flow [m3/h]", "Head [m]", header].into_boxed_slice()),
                 vec![
-                    vec![C::S("Two"), C::N(0.0), C::N(31.326_937_729_133), C::E],
+                    vec![s("Two"), n(0.0), n(31.326_937_729_133), Cell::E],
                     vec![
-                        C::S("Two"),
-                        C::N(144.0),
-                        C::N(27.326_937_729_133),
-                        C::N(3.0 / m_per_unit),
+                        s("Two"),
+                        n(144.0),
+                        n(27.326_937_729_133),
+                        n(3.0 / m_per_unit),
                     ],
                     vec![
-                        C::S("Two"),
-                        C::N(360.0),
-                        C::N(21.326_937_729_133),
-                        C::N(npshr_360 / m_per_unit),
+                        s("Two"),
+                        n(360.0),
+                        n(21.326_937_729_133),
+                        n(npshr_360 / m_per_unit),
                     ],
                 ],
             ),
@@ -702,17 +692,17 @@ fn a_missing_static_head_is_a_warning_and_the_verdict_says_so() {
             (
                 "Lines",
                 &["Line", "Service", "Flow [m3/h]"],
-                vec![vec![C::S("D1"), C::S("pump-discharge"), C::N(100.0)]],
+                vec![vec![s("D1"), s("pump-discharge"), n(100.0)]],
             ),
             (
                 "Pipes",
                 &["Line", "Size", "Length [m]"],
-                vec![vec![C::S("D1"), C::S("DN150"), C::N(50.0)]],
+                vec![vec![s("D1"), s("DN150"), n(50.0)]],
             ),
             (
                 "Systems",
                 &["System", "Lines", "Pump head [m]"],
-                vec![vec![C::S("NoLift"), C::S("D1"), C::N(30.0)]],
+                vec![vec![s("NoLift"), s("D1"), n(30.0)]],
             ),
         ],
     );

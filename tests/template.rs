@@ -7,12 +7,12 @@ use lossledger::ingest::{self, TableKind, grid};
 use lossledger::template;
 use lossledger::units::UnitSystem;
 
+mod common;
+use common::dirs::temp_dir;
+
 fn sheets(units: UnitSystem, name: &str) -> Vec<lossledger::ingest::SheetGrid> {
     let bytes = template::build(units).expect("template builds");
-    let path = std::env::temp_dir().join(format!(
-        "lossledger-template-{}-{name}.xlsx",
-        std::process::id()
-    ));
+    let path = temp_dir(name).join("template.xlsx");
     std::fs::write(&path, bytes).expect("write");
     let s = grid::read_xlsx(&path, name).expect("readable");
     let _ = std::fs::remove_file(&path);
@@ -168,10 +168,7 @@ fn control_list_holds_the_three_controls() {
 #[test]
 fn list_template_reads_and_audits() {
     let bytes = template::build_list(UnitSystem::Si).expect("template builds");
-    let path = std::env::temp_dir().join(format!(
-        "lossledger-template-{}-list.xlsx",
-        std::process::id()
-    ));
+    let path = temp_dir("list").join("template.xlsx");
     std::fs::write(&path, bytes).expect("write");
     let sh = grid::read_xlsx(&path, "list").expect("readable");
     let _ = std::fs::remove_file(&path);

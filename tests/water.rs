@@ -7,6 +7,10 @@ use lossledger::physics::fluid::{
     FluidError, WATER_T_MAX_C, WATER_T_MIN_C, atmospheric_pressure_pa, water,
 };
 
+mod common;
+use common::csv::numbers;
+use common::tol::rel;
+
 const WATER_CSV: &str = include_str!(concat!(
     env!("CARGO_MANIFEST_DIR"),
     "/fixtures/reference/water_iapws.csv"
@@ -21,33 +25,19 @@ struct Row {
 }
 
 fn rows() -> Vec<Row> {
-    let mut lines = WATER_CSV.lines();
-    let header = lines.next().expect("fixture has a header");
-    assert_eq!(
-        header,
-        "t_c,density_kg_m3,viscosity_pa_s,vapour_pressure_pa,density_iapws95_kg_m3"
-    );
-    lines
-        .filter(|l| !l.trim().is_empty())
-        .map(|l| {
-            let v: Vec<f64> = l
-                .split(',')
-                .map(|s| s.parse().expect("fixture value is a number"))
-                .collect();
-            assert_eq!(v.len(), 5, "row {l}");
-            Row {
-                t_c: v[0],
-                density: v[1],
-                viscosity: v[2],
-                vapour_pressure: v[3],
-                density_iapws95: v[4],
-            }
-        })
-        .collect()
-}
-
-fn rel(a: f64, b: f64) -> f64 {
-    ((a - b) / b).abs()
+    numbers(
+        WATER_CSV,
+        "t_c,density_kg_m3,viscosity_pa_s,vapour_pressure_pa,density_iapws95_kg_m3",
+    )
+    .into_iter()
+    .map(|v| Row {
+        t_c: v[0],
+        density: v[1],
+        viscosity: v[2],
+        vapour_pressure: v[3],
+        density_iapws95: v[4],
+    })
+    .collect()
 }
 
 #[test]
