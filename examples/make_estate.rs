@@ -5,7 +5,9 @@
 //! Writes `DIR/station-001.xlsx`… (the generator is `examples/support/synth.rs`): each station
 //! has its own number of lines between MIN_LINES and MAX_LINES and its own data, all drawn from
 //! fixed-seed generators, so the same arguments give the same estate. Every station reuses the
-//! line ids `SY-000000`, `SY-000001`…, as real stations repeat `P1` or `L-01`. Stations numbered
+//! line ids `SY-000000`, `SY-000001`…, as real stations repeat `P1` or `L-01`, and has one pumped
+//! system (`PS-1`, its first two lines) with a year's meter readings and a pump curve with
+//! efficiency points, so the review shows measured figures. Stations numbered
 //! in BAD (1-based) get a bad length cell (`Pipes!F4`). Every file is marked INVENTED DATA.
 
 use std::process::ExitCode;

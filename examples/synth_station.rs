@@ -30,6 +30,7 @@ fn main() -> ExitCode {
         seed: synth::SEED,
         label: synth::INVENTED,
         bad_length: false,
+        pumped: false,
     };
     match synth::write(&station, out) {
         Ok((runs, fittings)) => {

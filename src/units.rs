@@ -671,7 +671,7 @@ pub enum UnitSystem {
     /// m, mm, m³/h, kPa, m/s, m of head.
     #[default]
     Si,
-    /// US customary: ft, in, US gpm, psi, ft/s, ft of head.
+    /// US customary: ft, in, US gpm, psi, ft/s, ft of head, kgal (thousand US gallons).
     Us,
 }
 
@@ -691,6 +691,10 @@ pub fn us_unit(si_label: &str) -> Option<(&'static str, f64)> {
         "m3/s" => ("US gpm", 1.0 / (US_GAL_M3 / 60.0)),
         "kg/m3" => ("lb/ft3", FT_M * FT_M * FT_M / LB_KG),
         "m/100 m" => ("ft/100 ft", 1.0),
+        // Water utilities in US customary units count volume in thousands of gallons (kgal).
+        "m3" => ("kgal", 1.0 / (1e3 * US_GAL_M3)),
+        "kWh/m3" => ("kWh/kgal", 1e3 * US_GAL_M3),
+        "kWh/m3/m" => ("kWh/kgal/ft", 1e3 * US_GAL_M3 * FT_M),
         _ => return None,
     })
 }

@@ -71,7 +71,16 @@ pub struct Station<'a> {
     pub label: &'a str,
     /// Write text into the first run's length cell (`Pipes!F4`), a bad cell for error tests.
     pub bad_length: bool,
+    /// Make the first two lines a pumped system (`PS-1`, DN200 at 1.5 m/s, suction then
+    /// discharge) with meter readings and a pump curve with efficiency points (`write_system`).
+    pub pumped: bool,
 }
+
+/// Line velocity of the pumped system's two lines, m/s: low enough that their losses stay under
+/// the 20 m the pump head allows above the static head.
+const PUMPED_VELOCITY_M_S: f64 = 1.5;
+/// Bore of the pumped system's lines (DN).
+const PUMPED_DN: u16 = 200;
 
 /// Write `station` to `out`; returns (runs, fittings).
 pub fn write(station: &Station, out: &str) -> Result<(usize, usize), XlsxError> {
@@ -88,7 +97,7 @@ pub fn write(station: &Station, out: &str) -> Result<(usize, usize), XlsxError> 
         runs: u64,
         fittings: u64,
     }
-    let plan: Vec<Line> = (0..lines)
+    let mut plan: Vec<Line> = (0..lines)
         .map(|_| {
             let dn = *rng.pick(&SIZES);
             let d = f64::from(dn) / 1000.0;
@@ -102,6 +111,17 @@ pub fn write(station: &Station, out: &str) -> Result<(usize, usize), XlsxError> 
             }
         })
         .collect();
+    if station.pumped {
+        for (l, service) in plan.iter_mut().zip(["pump-suction", "pump-discharge"]) {
+            let d = f64::from(PUMPED_DN) / 1000.0;
+            l.dn = PUMPED_DN;
+            l.service = service;
+            l.flow_m3_h = (PUMPED_VELOCITY_M_S * std::f64::consts::PI / 4.0 * d * d * 3600.0
+                * 10.0)
+                .round()
+                / 10.0;
+        }
+    }
 
     let ws = wb.add_worksheet();
     ws.set_name("Lines")?;
@@ -117,7 +137,7 @@ pub fn write(station: &Station, out: &str) -> Result<(usize, usize), XlsxError> 
         ws.write_string(r, 0, format!("SY-{i:06}"))?;
         ws.write_string(r, 1, l.service)?;
         ws.write_number(r, 2, l.flow_m3_h)?;
-        ws.write_number(r, 3, 4000.0)?;
+        ws.write_number(r, 3, HOURS)?;
     }
 
     let ws = wb.add_worksheet();
@@ -175,8 +195,75 @@ pub fn write(station: &Station, out: &str) -> Result<(usize, usize), XlsxError> 
             fittings += 1;
         }
     }
+    if station.pumped && lines >= 2 {
+        write_system(&mut wb, station, plan[0].flow_m3_h)?;
+    }
     wb.save(out)?;
     Ok((runs, fittings))
+}
+
+/// Hours a year every synthetic line runs.
+const HOURS: f64 = 4000.0;
+
+/// The `Systems` and `Pump curve` sheets of a pumped station: system `PS-1` over the first two
+/// lines at `flow_m3_h`, with a static head, a pump head 20 m above it, a control mode, a year's
+/// metered energy and volume (from an invented wire-to-water efficiency of 0.40–0.72 at the pump
+/// head, so the computed wire-to-water stays below it), and six curve points: head
+/// `H0 (1 - c (Q/Qd)^2)` with `H0 = 1.3 × pump head`, efficiency a parabola peaking at an invented
+/// best-efficiency flow of 0.75–1.45 × duty (so some stations run outside the preferred region).
+/// Its numbers come from a generator of their own, so the lines match a station without them.
+fn write_system(wb: &mut Workbook, station: &Station, flow_m3_h: f64) -> Result<(), XlsxError> {
+    let mut rng = Rng(station.seed ^ 0x5157_E4D5);
+    let bold = Format::new().set_bold();
+    let static_head = (rng.float(10.0, 40.0) * 10.0).round() / 10.0;
+    let pump_head = static_head + 20.0;
+    let control = *rng.pick(&["fixed", "throttled", "speed"]);
+    let volume = (flow_m3_h * HOURS * rng.float(0.85, 1.0)).round();
+    let wire_to_water = rng.float(0.40, 0.72);
+    let energy = (1000.0 * 9.80665 * pump_head * volume / 3.6e6 / wire_to_water).round();
+    let ws = wb.add_worksheet();
+    ws.set_name("Systems")?;
+    ws.write_string(0, 0, station.label)?;
+    let headers = [
+        "System",
+        "Lines",
+        "Static head [m]",
+        "Pump head [m]",
+        "Control",
+        "Metered energy [kWh]",
+        "Metered volume [m3]",
+    ];
+    for (c, h) in headers.iter().enumerate() {
+        ws.write_string_with_format(HEADER_ROW, c as u16, *h, &bold)?;
+    }
+    let r = HEADER_ROW + 1;
+    ws.write_string(r, 0, "PS-1")?;
+    ws.write_string(r, 1, "SY-000000, SY-000001")?;
+    ws.write_number(r, 2, static_head)?;
+    ws.write_number(r, 3, pump_head)?;
+    ws.write_string(r, 4, control)?;
+    ws.write_number(r, 5, energy)?;
+    ws.write_number(r, 6, volume)?;
+
+    let ws = wb.add_worksheet();
+    ws.set_name("Pump curve")?;
+    ws.write_string(0, 0, station.label)?;
+    for (c, h) in ["System", "Flow [m3/h]", "Head [m]", "Efficiency"].iter().enumerate() {
+        ws.write_string_with_format(HEADER_ROW, c as u16, *h, &bold)?;
+    }
+    let best = rng.float(0.75, 1.45);
+    let peak = rng.float(0.65, 0.85);
+    let shutoff = 1.3 * pump_head;
+    let c = 1.0 - pump_head / shutoff;
+    for (i, x) in [0.0, 0.4, 0.8, 1.0, 1.2, 1.5].into_iter().enumerate() {
+        let r = HEADER_ROW + 1 + i as u32;
+        let eta = peak * (1.0 - ((x - best) / best).powi(2));
+        ws.write_string(r, 0, "PS-1")?;
+        ws.write_number(r, 1, (x * flow_m3_h * 10.0).round() / 10.0)?;
+        ws.write_number(r, 2, (shutoff * (1.0 - c * x * x) * 100.0).round() / 100.0)?;
+        ws.write_number(r, 3, (eta.max(0.02) * 1000.0).round() / 1000.0)?;
+    }
+    Ok(())
 }
 
 /// The label above every table of an estate station.
@@ -184,7 +271,8 @@ pub const ESTATE_LABEL: &str = "INVENTED DATA: a station of an invented estate f
 
 /// Write an invented estate into `dir`: `stations` workbooks `station-001.xlsx`, … each with a
 /// number of lines in `lines.0..=lines.1` and a seed of its own, both drawn from a fixed-seed
-/// generator; the stations numbered in `bad` (1-based) get a bad length cell (`Pipes!F4`).
+/// generator, and a pumped system over its first two lines with meter readings and a pump curve
+/// (`write_system`); the stations numbered in `bad` (1-based) get a bad length cell (`Pipes!F4`).
 /// Returns each station's path and lines.
 pub fn write_estate(
     dir: &std::path::Path,
@@ -200,6 +288,7 @@ pub fn write_estate(
             seed: rng.next() | 1,
             label: ESTATE_LABEL,
             bad_length: bad.contains(&n),
+            pumped: true,
         };
         let path = dir.join(format!("station-{n:03}.xlsx"));
         write(&station, &path.to_string_lossy())?;

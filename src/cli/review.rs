@@ -198,7 +198,7 @@ fn report_bad(row: &StationRow, strict: bool) {
 /// The console summary (or the JSON on stdout), and exit 0.
 fn finish(req: &Request, review: &Review) -> u8 {
     let width = console_width();
-    let text = summary(review, &req.output, width);
+    let text = summary(review, &req.output, req.units, width);
     if req.json.as_deref() == Some("-") {
         eprint!("{text}");
         let mut out = std::io::stdout().lock();
@@ -216,8 +216,45 @@ fn finish(req: &Request, review: &Review) -> u8 {
     0
 }
 
-/// Totals, the five worst fittings of the estate, the cautions and what was written.
-pub fn summary(review: &Review, out: &Path, width: Option<usize>) -> String {
+/// The five metered stations with the lowest wire-to-water, lowest first (empty when none is
+/// metered).
+fn lowest_wire_to_water(review: &Review, units: UnitSystem, width: Option<usize>) -> String {
+    let mut metered: Vec<(&str, &crate::review::summary::StationMeasured)> = review
+        .stations
+        .iter()
+        .filter_map(|r| Some((r.station.as_str(), r.figures.as_ref()?.measured.as_ref()?)))
+        .filter(|(_, m)| m.wire_to_water.is_some())
+        .collect();
+    let w2w = |m: &crate::review::summary::StationMeasured| m.wire_to_water.unwrap_or(f64::INFINITY);
+    metered.sort_by(|a, b| w2w(a.1).total_cmp(&w2w(b.1)));
+    let (energy, factor) = crate::units::header_in("Specific energy [kWh/m3]", units);
+    let mut table = TextTable::new(&[
+        ("Station", Align::Left),
+        (energy.as_str(), Align::Right),
+        ("Wire-to-\nwater", Align::Right),
+        ("Metered\nsystems", Align::Right),
+    ]);
+    for (station, m) in metered.iter().take(5) {
+        table.row(vec![
+            station.to_string(),
+            m.specific_energy_kwh_m3
+                .map_or_else(String::new, |e| format!("{:.3}", e * factor)),
+            m.wire_to_water
+                .map_or_else(String::new, |w| format!("{:.1} %", 100.0 * w)),
+            m.metered_systems.to_string(),
+        ]);
+    }
+    if table.is_empty() {
+        return String::new();
+    }
+    let mut s = fitted_text("Lowest wire-to-water (metered stations, lowest first):", width);
+    s.push_str(&table.render(width));
+    s
+}
+
+/// Totals, the five worst fittings of the estate, the five metered stations with the lowest
+/// wire-to-water, the cautions and what was written.
+pub fn summary(review: &Review, out: &Path, units: UnitSystem, width: Option<usize>) -> String {
     let t = &review.totals;
     let mut s = String::new();
     if let Some(note) = &review.invented_data_note {
@@ -265,6 +302,7 @@ pub fn summary(review: &Review, out: &Path, width: Option<usize>) -> String {
     if !table.is_empty() {
         s.push_str(&table.render(width));
     }
+    s.push_str(&lowest_wire_to_water(review, units, width));
     s.push_str(&fitted_text(review.basis.caution, width));
     s.push_str(&fitted_text(
         &format!(

@@ -48,6 +48,37 @@ pub struct StationFigures {
     pub findings: SeverityCounts,
     /// Its worst fitting (rank 1 of its own ranking).
     pub worst_fitting: Option<WorstOfStation>,
+    /// Its measured performance, over the systems with meter readings or a test point (None
+    /// when no system has either).
+    pub measured: Option<StationMeasured>,
+}
+
+/// A station's measured performance, summed over its systems (docs/review.md).
+///
+/// # Formula
+/// Specific energy `e = ΣE / ΣV` over the metered systems; wire-to-water
+/// `η = Σ(ηᵢ Eᵢ) / ΣE`, the theoretical minimum energy of every metered system over their
+/// metered energy (each `ηᵢ Eᵢ` is system i's minimum, docs/energy.md §8).
+#[derive(Clone, Debug, Default, Serialize)]
+pub struct StationMeasured {
+    /// Systems with metered energy and volume.
+    pub metered_systems: usize,
+    /// Systems with a site test point.
+    pub tested_systems: usize,
+    /// Metered energy per year over the metered systems, kWh (None when none is metered).
+    pub energy_kwh: Option<f64>,
+    /// Metered volume per year over the metered systems, m³.
+    pub volume_m3: Option<f64>,
+    /// Specific energy of the metered systems together, kWh/m³.
+    pub specific_energy_kwh_m3: Option<f64>,
+    /// Wire-to-water efficiency of the metered systems together.
+    pub wire_to_water: Option<f64>,
+    /// The system with the lowest wire-to-water, metered or from its test point.
+    pub lowest_system: Option<String>,
+    /// That system's wire-to-water.
+    pub lowest_wire_to_water: Option<f64>,
+    /// Systems whose duty or operating flow lies outside the preferred operating region.
+    pub outside_preferred: usize,
 }
 
 /// Findings counted by severity.
@@ -180,7 +211,45 @@ fn figures(audit: &Audit) -> StationFigures {
             info: audit.count(Severity::Info),
         },
         worst_fitting,
+        measured: measured(audit),
     }
+}
+
+/// The station's measured performance (None when no system has meter readings or a test point).
+fn measured(audit: &Audit) -> Option<StationMeasured> {
+    let metered: Vec<_> = audit.systems.iter().filter_map(|s| s.measured).collect();
+    let tested = audit.systems.iter().filter(|s| s.test.is_some()).count();
+    if metered.is_empty() && tested == 0 {
+        return None;
+    }
+    let energy: f64 = metered.iter().map(|m| m.energy_kwh).sum();
+    let volume: f64 = metered.iter().map(|m| m.volume_m3).sum();
+    let minimum: f64 = metered.iter().map(|m| m.wire_to_water * m.energy_kwh).sum();
+    let some = |x: f64| (!metered.is_empty()).then_some(x);
+    let lowest = audit
+        .systems
+        .iter()
+        .flat_map(|s| {
+            let metered = s.measured.map(|m| m.wire_to_water);
+            let test = s.test.as_ref().map(|t| t.wire_to_water);
+            metered.into_iter().chain(test).map(|w| (&s.system, w))
+        })
+        .min_by(|a, b| a.1.total_cmp(&b.1));
+    Some(StationMeasured {
+        metered_systems: metered.len(),
+        tested_systems: tested,
+        energy_kwh: some(energy),
+        volume_m3: some(volume),
+        specific_energy_kwh_m3: some(energy / volume),
+        wire_to_water: some(minimum / energy),
+        lowest_system: lowest.map(|l| l.0.clone()),
+        lowest_wire_to_water: lowest.map(|l| l.1),
+        outside_preferred: audit
+            .systems
+            .iter()
+            .filter(|s| s.pump_efficiency.as_ref().is_some_and(|p| p.outside_preferred))
+            .count(),
+    })
 }
 
 /// The row of a station that could not be audited: its problems, each with file and cell.

@@ -77,6 +77,27 @@ const STATION_COLS: &[Col<StationRow>] = &[
     col("Worst fitting head [m]", 12.0, |r| {
         worst_of(r, |w| Cell::Num(Some(w.head_m)))
     }),
+    col("Metered energy [kWh]", 14.0, |r| {
+        Cell::Money(measured(r, |m| m.energy_kwh))
+    }),
+    col("Metered volume [m3]", 14.0, |r| {
+        Cell::Money(measured(r, |m| m.volume_m3))
+    }),
+    col("Specific energy [kWh/m3]", 12.0, |r| {
+        Cell::Num(measured(r, |m| m.specific_energy_kwh_m3))
+    }),
+    col("Wire-to-water", 11.0, |r| {
+        Cell::Pct(measured(r, |m| m.wire_to_water))
+    }),
+    col("Lowest wire-to-water system", 16.0, |r| {
+        Cell::Owned(measured(r, |m| m.lowest_system.clone()).unwrap_or_default())
+    }),
+    col("Lowest wire-to-water", 11.0, |r| {
+        Cell::Pct(measured(r, |m| m.lowest_wire_to_water))
+    }),
+    col("Systems outside preferred region", 12.0, |r| {
+        Cell::Count(measured(r, |m| Some(m.outside_preferred)))
+    }),
     col("Audited copy", 28.0, |r| match &r.copy {
         Some(c) => Cell::External(Some(c.clone()), c.clone()),
         None => Cell::Text(""),
@@ -87,6 +108,19 @@ const STATION_COLS: &[Col<StationRow>] = &[
         Cell::Text(r.invented_data_note.as_deref().unwrap_or(""))
     }),
 ];
+
+/// A measured figure of an audited station (None when it has no measured system).
+fn measured<T>(
+    r: &StationRow,
+    get: impl Fn(&super::summary::StationMeasured) -> Option<T>,
+) -> Option<T> {
+    r.figures.as_ref()?.measured.as_ref().and_then(get)
+}
+
+/// The column of `Stations` headed `header`.
+fn station_col(header: &str) -> u16 {
+    STATION_COLS.iter().position(|c| c.header == header).unwrap_or(0) as u16
+}
 
 fn worst_of(
     r: &StationRow,
@@ -307,11 +341,12 @@ fn write_stations(ws: &mut Worksheet, review: &Review, st: &Styles) -> Result<()
             CHARTED_HEADER + 1,
             CHARTED_HEADER + review.stations.len() as u32,
         );
+        let cost = station_col("Annual loss cost");
         let mut chart = Chart::new(ChartType::Column);
         chart
             .add_series()
             .set_categories((STATIONS, first, 0, last, 0))
-            .set_values((STATIONS, first, 6, last, 6))
+            .set_values((STATIONS, first, cost, last, cost))
             .set_name(format!("Annual loss cost [{}]", t.currency).as_str());
         chart.title().set_name("Annual loss cost by station");
         chart
