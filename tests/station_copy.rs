@@ -1,12 +1,20 @@
 //! The station copy of the invented demo station, read back: each system's chart on the checks
 //! sheet (system curve, pump curve, duty and operating points, the pump efficiency on a
-//! secondary axis).
+//! secondary axis) and the Summary's station-energy block, in SI and `--units us`.
+//!
+//! US conversions use the exact definition of NIST SP 811 (2008) B.8: 1 US gallon =
+//! 3.785411784 L, so 1 m³/h = 1000 / 3.785411784 / 60 US gpm.
 
-use calamine::{Data, Reader, Xlsx, open_workbook};
+use calamine::{Data, Range, Reader, Xlsx, open_workbook};
+use lossledger::audit::station::STATION_CAUTION;
 use std::io::Read;
 use std::path::{Path, PathBuf};
 use std::process::Command;
 
+/// Relative tolerance on a figure written to six significant figures (`report::style::shown`).
+const SHOWN_TOL: f64 = 1e-5;
+/// US gpm per m³/h (NIST SP 811 B.8).
+const GPM_PER_M3H: f64 = 1000.0 / 3.785411784 / 60.0;
 
 /// The demo's input in a fresh folder named after `name`, its audit in SI and in US units, and the SI JSON.
 fn demo(name: &str) -> (PathBuf, PathBuf, PathBuf, serde_json::Value) {
@@ -164,5 +172,82 @@ fn each_system_chart_has_its_curves_points_and_the_efficiency_on_a_second_axis()
         for ((q, e), (fq, fe)) in eff.iter().zip(flows.iter().zip(&values)) {
             assert!((q - fq).abs() < 1e-9 && (e - fe).abs() < 1e-12, "{id}");
         }
+    }
+}
+
+/// Rows of the Summary's station block: (system, label) → column-C value.
+fn station_block(sheet: &Range<Data>) -> Vec<(String, String, Data)> {
+    let (r1, _) = sheet.end().unwrap();
+    let mut out = Vec::new();
+    let mut system = String::new();
+    let mut inside = false;
+    for r in 0..=r1 {
+        let label = match sheet.get_value((r, 0)) {
+            Some(Data::String(s)) => s.clone(),
+            _ if inside => break,
+            _ => continue,
+        };
+        if label.starts_with("Station energy") {
+            inside = true;
+            let caution = sheet.get_value((r, 2)).cloned().unwrap_or(Data::Empty);
+            assert_eq!(caution, Data::String(STATION_CAUTION.into()));
+        } else if let Some(id) = label.strip_prefix("System ").filter(|_| inside) {
+            system = id.to_string();
+        } else if inside {
+            let v = sheet.get_value((r, 2)).cloned().unwrap_or(Data::Empty);
+            out.push((system.clone(), label, v));
+        }
+    }
+    out
+}
+
+fn num(rows: &[(String, String, Data)], system: &str, label: &str) -> f64 {
+    match rows.iter().find(|(s, l, _)| s == system && l == label) {
+        Some((_, _, Data::Float(x))) => *x,
+        other => panic!("{system} {label}: {other:?}"),
+    }
+}
+
+fn close(a: f64, b: f64) -> bool {
+    ((a - b) / b).abs() < SHOWN_TOL
+}
+
+// The Summary's station block: number cells, metered specific energy from the input's own meter
+// cells (E / V), the other figures as the JSON gives them, flows converted by NIST SP 811 in US
+// units, and the screening caution.
+#[test]
+fn summary_station_block_has_number_cells_in_both_unit_systems() {
+    let (input_path, si, us, json) = demo("summary");
+    let input = lossledger::ingest::read_path(&input_path).unwrap();
+    let rows = |p: &Path| {
+        let mut b: Xlsx<_> = open_workbook(p).unwrap();
+        station_block(&b.worksheet_range("Summary").unwrap())
+    };
+    let (si_rows, us_rows) = (rows(&si), rows(&us));
+    for s in json["systems"].as_array().unwrap() {
+        let id = s["system"].as_str().unwrap();
+        let share = num(&si_rows, id, "Piping share of the head");
+        assert!(close(share, s["loss_share"].as_f64().unwrap()), "{id}");
+        let row = input.systems.iter().find(|r| r.system == id).unwrap();
+        if let Some(m) = row.metered {
+            let e = num(&si_rows, id, "Specific energy [kWh/m3]");
+            assert!(close(e, m.energy_kwh / m.volume_m3), "{id}: {e}");
+        }
+        let w = num(&si_rows, id, "Wire-to-water");
+        assert!((0.0..=1.0).contains(&w), "{id}");
+        if let Some(p) = s["pump_efficiency"].as_object() {
+            let bep = p["best"]["flow_m3_s"].as_f64().unwrap() * 3600.0;
+            assert!(close(num(&si_rows, id, "Best-efficiency flow [m3/h]"), bep));
+            let gpm = num(&us_rows, id, "Best-efficiency flow [US gpm]");
+            assert!(close(gpm, bep * GPM_PER_M3H), "{id}: {gpm}");
+        }
+        let control = si_rows
+            .iter()
+            .find(|(sys, l, _)| sys == id && l == "Flow control the savings assume")
+            .map(|r| r.2.clone());
+        assert_eq!(
+            control,
+            Some(Data::String(s["control"].as_str().unwrap().into()))
+        );
     }
 }
