@@ -233,3 +233,42 @@ fn shares_within_the_tolerance_are_scaled_to_one() {
     assert!(rel(s, 1.0) < TOL);
     assert!(rel(a.systems[0].shared_lines[0].share, 0.745 / 0.995) < TOL);
 }
+
+// The Systems copy lists each system's share of the header with that share's energy, as number
+// cells (worked example 9's figures).
+#[test]
+fn system_checks_sheet_lists_each_share_as_number_cells() {
+    use calamine::{Data, Reader, Xlsx, open_workbook};
+    let path = header_book("sheet", "Share", None);
+    let out = path.with_file_name("sheet.audit.xlsx");
+    let run = std::process::Command::new(env!("CARGO_BIN_EXE_lossledger"))
+        .arg("audit")
+        .arg(&path)
+        .arg("-o")
+        .arg(&out)
+        .output()
+        .unwrap();
+    assert!(
+        run.status.success(),
+        "{}",
+        String::from_utf8_lossy(&run.stderr)
+    );
+    let mut book: Xlsx<_> = open_workbook(&out).unwrap();
+    let ws = book.worksheet_range("System checks").unwrap();
+    let rows: Vec<(String, f64)> = ws
+        .rows()
+        .filter_map(|r| match (r.first(), r.get(1)) {
+            (Some(Data::String(l)), Some(Data::Float(x))) => Some((l.clone(), *x)),
+            _ => None,
+        })
+        .collect();
+    let of =
+        |label: &str| -> Vec<f64> { rows.iter().filter(|r| r.0 == label).map(|r| r.1).collect() };
+    let shares = of("Share of shared line H");
+    assert_eq!(shares.len(), 2);
+    assert!(rel(shares[0], 0.6) < 1e-6 && rel(shares[1], 0.4) < 1e-6);
+    // Written to six significant figures (report::style::shown).
+    let energy = of("Line H energy of this share [kWh/yr]");
+    assert!(rel(energy[0], 1_497.095_160_330_298_8) < 1e-5, "{energy:?}");
+    assert!(rel(energy[1], 698.644_408_154_139_5) < 1e-5, "{energy:?}");
+}
