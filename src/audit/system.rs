@@ -648,47 +648,29 @@ fn one_system(
         })
         .collect();
     let pump_curve = pump_points(input, &id, |p| Some(p.head_m));
-    let (pump_head_m, pump_head_basis) = match row.and_then(|r| r.pump_head_m) {
-        Some(h) => (Some(h), "Systems sheet".to_string()),
-        None => match interpolate(&pump_curve, duty) {
-            Some(h) => (Some(h), "Pump curve at duty flow".to_string()),
-            None => {
-                notes.push("no pump head at duty flow (Pump head in Systems, or a Pump curve spanning the duty flow): duty not checked".into());
-                (None, String::new())
+    let (pump_head_m, pump_head_basis) = pump_head(row, &pump_curve, duty, &mut notes);
+    let operating_point = (duty > 0.0 && pump_curve.len() >= 2)
+        .then(|| {
+            let op = operating_point(&pump_curve, |q| {
+                required_head_at(audit, ctx.models, &idx, static_head_m, q / duty)
+            });
+            if op.is_none() {
+                notes.push(
+                    "the pump curve does not cross the system curve within its flow range".into(),
+                );
             }
-        },
-    };
-    let operating_point = if duty > 0.0 && pump_curve.len() >= 2 {
-        let op = operating_point(&pump_curve, |q| {
-            required_head_at(audit, ctx.models, &idx, static_head_m, q / duty)
-        });
-        if op.is_none() {
-            notes.push(
-                "the pump curve does not cross the system curve within its flow range".into(),
-            );
-        }
-        op
-    } else {
-        None
-    };
+            op
+        })
+        .flatten();
     let margin_m = pump_head_m.map(|p| p - required_head_m);
     let fails_duty = margin_m.is_some_and(|m| m < 0.0);
-    if let (Some(m), Some(p)) = (margin_m, pump_head_m)
-        && fails_duty
-    {
-        found.push(Finding {
-            severity: Severity::Error,
-            code: "pump-head-short",
-            line: None,
-            tag: None,
-            cell: place.at("pump_head"),
-            message: format!(
-                "system {id}: the pump gives {p:.2} m at {:.1} m3/h but the system needs {required_head_m:.2} m (static {static_head_m:.2} m + losses {losses_head_m:.2} m): short by {:.2} m",
-                duty * 3600.0,
-                -m
-            ),
-            action: "the pump cannot deliver the duty flow: cut the losses (see Fitting ranking), check the static head, or re-rate the pump with its maker's curve".into(),
-        });
+    if let Some(p) = pump_head_m.filter(|_| fails_duty) {
+        found.push(pump_head_short(
+            &place,
+            duty,
+            p,
+            (static_head_m, losses_head_m),
+        ));
     }
 
     let suction: Vec<usize> = idx
@@ -759,6 +741,46 @@ fn one_system(
         notes,
         defaults: npsh.defaults,
         assumed: npsh.assumed,
+    }
+}
+
+/// Pump head at duty and where it came from: the Systems sheet, else the pump curve at the duty
+/// flow, else none (with a note).
+fn pump_head(
+    row: Option<&SystemRow>,
+    pump_curve: &[CurvePoint],
+    duty: f64,
+    notes: &mut Vec<String>,
+) -> (Option<f64>, String) {
+    if let Some(h) = row.and_then(|r| r.pump_head_m) {
+        return (Some(h), "Systems sheet".to_string());
+    }
+    match interpolate(pump_curve, duty) {
+        Some(h) => (Some(h), "Pump curve at duty flow".to_string()),
+        None => {
+            notes.push("no pump head at duty flow (Pump head in Systems, or a Pump curve spanning the duty flow): duty not checked".into());
+            (None, String::new())
+        }
+    }
+}
+
+/// `pump-head-short`: the pump head `p` at duty is below static head plus losses (`heads`).
+fn pump_head_short(place: &Place<'_>, duty: f64, p: f64, heads: (f64, f64)) -> Finding {
+    let (static_head_m, losses_head_m) = heads;
+    let required_head_m = static_head_m + losses_head_m;
+    Finding {
+        severity: Severity::Error,
+        code: "pump-head-short",
+        line: None,
+        tag: None,
+        cell: place.at("pump_head"),
+        message: format!(
+            "system {}: the pump gives {p:.2} m at {:.1} m3/h but the system needs {required_head_m:.2} m (static {static_head_m:.2} m + losses {losses_head_m:.2} m): short by {:.2} m",
+            place.id,
+            duty * 3600.0,
+            required_head_m - p
+        ),
+        action: "the pump cannot deliver the duty flow: cut the losses (see Fitting ranking), check the static head, or re-rate the pump with its maker's curve".into(),
     }
 }
 
