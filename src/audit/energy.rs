@@ -297,8 +297,38 @@ pub fn is_pumped(service: Service) -> bool {
     service != Service::Gravity
 }
 
-/// Energy basis of a line: efficiency from the Lines row, else its system's row, else the rules;
-/// hours from the Lines row, else the rules.
+/// Efficiency of a line for one system, first match wins: the line's Lines row, the system's
+/// Systems row, the system's pump curve, the rules.
+fn efficiency_of(
+    rules: &Rules,
+    row: Option<&crate::ingest::LineRow>,
+    system: Option<&crate::ingest::SystemRow>,
+    curve: Option<f64>,
+) -> (f64, &'static str) {
+    match (
+        row.and_then(|r| r.efficiency),
+        system.and_then(|s| s.efficiency),
+        curve,
+    ) {
+        (Some(e), _, _) => (e, "Lines"),
+        (None, Some(e), _) => (e, "Systems"),
+        (None, None, Some(e)) => (e, CURVE_BASIS),
+        (None, None, None) => (rules.energy.efficiency, "rules default"),
+    }
+}
+
+/// The rules' tariff and emission factor with an efficiency and hours.
+fn basis_of(rules: &Rules, efficiency: f64, hours_per_year: f64) -> EnergyBasis {
+    EnergyBasis {
+        efficiency,
+        hours_per_year,
+        tariff_per_kwh: rules.energy.tariff_per_kwh,
+        kg_co2_per_kwh: rules.energy.kg_co2_per_kwh,
+    }
+}
+
+/// Energy basis of a line: efficiency from the Lines row, else its system's row, else the
+/// system's pump curve, else the rules; hours from the Lines row, else the rules.
 fn line_basis(
     input: &Input,
     rules: &Rules,
@@ -310,29 +340,62 @@ fn line_basis(
         s.lines.contains(&line.line)
             || row.and_then(|r| r.system.as_deref()) == Some(s.system.as_str())
     });
-    let (efficiency, basis) = match (
-        row.and_then(|r| r.efficiency),
-        system.and_then(|s| s.efficiency),
-    ) {
-        (Some(e), _) => (e, "Lines"),
-        (None, Some(e)) => (e, "Systems"),
-        (None, None) => match curve {
-            Some(e) => (e, CURVE_BASIS),
-            None => (rules.energy.efficiency, "rules default"),
-        },
-    };
+    let (efficiency, basis) = efficiency_of(rules, row, system, curve);
     let hours = row
         .and_then(|r| r.hours_per_year)
         .unwrap_or(rules.energy.hours_per_year);
-    (
-        EnergyBasis {
-            efficiency,
-            hours_per_year: hours,
-            tariff_per_kwh: rules.energy.tariff_per_kwh,
-            kg_co2_per_kwh: rules.energy.kg_co2_per_kwh,
-        },
-        basis,
-    )
+    (basis_of(rules, efficiency, hours), basis)
+}
+
+/// Where a shared line's efficiency and hours came from.
+pub const SHARED_BASIS: &str = "shared line: each system's share at its own efficiency and hours";
+
+/// One system's part of a shared line: (system index, index in its `shared_lines`), its share,
+/// efficiency and where it came from, and hours.
+type SharePart = ((usize, usize), f64, f64, &'static str, f64);
+
+/// The parts of every shared line, by line index: each system's share at its own efficiency
+/// ([`efficiency_of`] with that system's row and pump curve) and hours (the Lines row's, else
+/// the system's duty line's, else the rules').
+fn shared_parts(
+    input: &Input,
+    rules: &Rules,
+    audit: &Audit,
+) -> std::collections::HashMap<usize, Vec<SharePart>> {
+    let mut out: std::collections::HashMap<usize, Vec<SharePart>> = Default::default();
+    for (si, s) in audit.systems.iter().enumerate() {
+        let system = input.systems.iter().find(|r| r.system == s.system);
+        let curve = s.pump_efficiency.and_then(|p| p.wire_to_water);
+        for (k, sh) in s.shared_lines.iter().enumerate() {
+            let Some(li) = audit.line_of(&sh.line) else {
+                continue;
+            };
+            let row = input.lines.iter().find(|l| l.line == sh.line);
+            let (eta, from) = efficiency_of(rules, row, system, curve);
+            let hours = row
+                .and_then(|r| r.hours_per_year)
+                .or(s.duty_hours_per_year)
+                .unwrap_or(rules.energy.hours_per_year);
+            out.entry(li)
+                .or_default()
+                .push(((si, k), sh.share, eta, from, hours));
+        }
+    }
+    out
+}
+
+/// The single basis that costs a shared line's losses as the sum of its parts:
+/// hours `t̄ = Σ s_i t_i` and efficiency `η = t̄ / Σ (s_i t_i / η_i)`, so that
+/// `Δp Q t̄ / η = Σ s_i Δp Q t_i / η_i` (equal to each part's own figure when all agree).
+fn shared_basis(rules: &Rules, parts: &[SharePart]) -> EnergyBasis {
+    let hours: f64 = parts.iter().map(|p| p.1 * p.4).sum();
+    let per_efficiency: f64 = parts.iter().map(|p| p.1 * p.4 / p.2).sum();
+    let efficiency = if per_efficiency > 0.0 {
+        hours / per_efficiency
+    } else {
+        parts.iter().map(|p| p.1 * p.2).sum()
+    };
+    basis_of(rules, efficiency, hours)
 }
 
 /// Candidate replacements of one item: (model after, words).
@@ -509,10 +572,14 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit, models: &[FittingM
     let rows: std::collections::HashMap<&str, &crate::ingest::LineRow> =
         input.lines.iter().map(|l| (l.line.as_str(), l)).collect();
     let curves = curve_efficiencies(audit);
+    let shared = shared_parts(input, rules, audit);
     for (li, line) in audit.lines.iter_mut().enumerate() {
         let pumped = is_pumped(line.service);
         let row = rows.get(line.line.as_str()).copied();
-        let (basis, from) = line_basis(input, rules, line, row, curves.get(&li).copied().flatten());
+        let (basis, from) = match shared.get(&li) {
+            Some(parts) => (shared_basis(rules, parts), SHARED_BASIS),
+            None => line_basis(input, rules, line, row, curves.get(&li).copied().flatten()),
+        };
         line.hours_per_year = Some(basis.hours_per_year);
         line.power_loss_w = Some(line.total_dp_pa * line.flow_m3_s);
         if pumped && let Some(e) = loss_energy(line.total_dp_pa, line.flow_m3_s, &basis) {
@@ -531,6 +598,7 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit, models: &[FittingM
         }
     }
     summary.total_annual_co2_kg = co2.then_some(co2_total);
+    cost_shares(rules, audit, &shared, &bases);
 
     let mut items = Vec::with_capacity(audit.fittings.len());
     for fi in 0..audit.fittings.len() {
@@ -574,6 +642,34 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit, models: &[FittingM
     }
     audit.energy = summary;
     throttled_valves(input, rules, audit, &bases);
+}
+
+/// Fill each system's shared-line figures: its share of the line's losses at its own
+/// efficiency and hours (pumped lines only).
+fn cost_shares(
+    rules: &Rules,
+    audit: &mut Audit,
+    shared: &std::collections::HashMap<usize, Vec<SharePart>>,
+    bases: &[Option<EnergyBasis>],
+) {
+    for (&li, parts) in shared {
+        let dp = audit.lines[li].total_dp_pa;
+        let flow = audit.lines[li].flow_m3_s;
+        for &((si, k), share, eta, from, hours) in parts {
+            let e =
+                bases[li].and_then(|_| loss_energy(dp, share * flow, &basis_of(rules, eta, hours)));
+            let sh = &mut audit.systems[si].shared_lines[k];
+            sh.efficiency = e.map(|_| eta);
+            sh.efficiency_basis = if e.is_some() {
+                from
+            } else {
+                "gravity: no pump energy"
+            };
+            sh.hours_per_year = e.map(|_| hours);
+            sh.annual_energy_kwh = e.map(|e| e.annual_energy_kwh);
+            sh.annual_cost = e.map(|e| e.annual_cost);
+        }
+    }
 }
 
 /// `throttled-valve`: a valve on a pumped line open less than the rule allows.

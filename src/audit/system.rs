@@ -10,7 +10,10 @@ use serde::Serialize;
 use super::lines::{FittingModel, line_heads_at};
 use super::{Audit, Finding, Rules};
 use crate::error::{CellRef, Severity};
+use std::collections::HashSet;
+
 use crate::ingest::rows::Control;
+use crate::ingest::rows::shares::{Membership, memberships, share_of, systems_of_lines};
 use crate::ingest::{Input, PumpCurveRow, Service, SystemRow, TableKind};
 use crate::physics::G;
 use crate::physics::fitting::Group;
@@ -77,6 +80,13 @@ pub struct SystemResult {
     pub curve: Vec<CurvePoint>,
     /// Where the pump curve crosses the system curve, when a pump curve is given.
     pub operating_point: Option<CurvePoint>,
+    /// The lines this system shares with other systems (a common header), with its share of
+    /// each and what that share costs (docs/energy.md §4a).
+    pub shared_lines: Vec<SharedLine>,
+    /// Running hours of the line whose flow is the duty flow (its `Hours per year`), used for
+    /// the system's share of a shared line.
+    #[serde(skip)]
+    pub duty_hours_per_year: Option<f64>,
     /// How the flow is set (Systems `Control`; fixed speed when not given, then assumed).
     pub control: Control,
     /// Where the control came from ("Systems sheet", or assumed).
@@ -130,6 +140,80 @@ pub struct SystemResult {
     /// there is no such column), marked in the copy.
     #[serde(skip)]
     pub assumed: Vec<crate::ingest::rows::Assumed>,
+}
+
+/// One system's share of a line it shares with other systems (a common header).
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct SharedLine {
+    /// Line id.
+    pub line: String,
+    /// Every system listing the line, in order of listing.
+    pub systems: Vec<String>,
+    /// This system's share of the line's flow, 0 to 1 (the shares of a line sum to 1).
+    pub share: f64,
+    /// Where the share came from: `Systems Share` or `duty flows` (`Q_i / ΣQ`).
+    pub share_basis: &'static str,
+    /// This system's part of the line's flow (share × the line's flow), m³/s.
+    pub flow_m3_s: f64,
+    /// Wire-to-water efficiency this share is costed at (None on a gravity line).
+    pub efficiency: Option<f64>,
+    /// Where that efficiency came from (Lines, Systems, pump curve, rules default).
+    pub efficiency_basis: &'static str,
+    /// Running hours this share is costed at (None on a gravity line).
+    pub hours_per_year: Option<f64>,
+    /// Energy of this share of the line's losses, kWh per year.
+    pub annual_energy_kwh: Option<f64>,
+    /// Cost of this share of the line's losses per year.
+    pub annual_cost: Option<f64>,
+}
+
+/// Each system's share of the lines listed by two or more systems: the Systems `Share` cells
+/// (scaled to sum to 1; `rows::shares` has checked them), else the systems' duty flows
+/// (`share_i = Q_i / ΣQ`; equal shares when every duty flow is zero). The energy figures are
+/// filled by the energy review.
+fn split_shared_lines(
+    ctx: &Ctx<'_>,
+    members: &[Membership<'_>],
+    by_line: &[(String, Vec<usize>)],
+    results: &mut [SystemResult],
+) {
+    for (line, sys) in by_line.iter().filter(|(_, s)| s.len() > 1) {
+        let Some(li) = ctx.audit.line_of(line) else {
+            continue;
+        };
+        let given: Option<Vec<f64>> = sys
+            .iter()
+            .map(|&mi| share_of(members[mi].row, line, true))
+            .collect();
+        let (weights, share_basis) = match given {
+            Some(g) => (g, "Systems Share"),
+            None => (
+                sys.iter().map(|&mi| results[mi].flow_m3_s).collect(),
+                "duty flows",
+            ),
+        };
+        let total: f64 = weights.iter().sum();
+        let flow = ctx.audit.lines[li].flow_m3_s;
+        for (&mi, w) in sys.iter().zip(&weights) {
+            let share = if total > 0.0 {
+                w / total
+            } else {
+                1.0 / sys.len() as f64
+            };
+            results[mi].shared_lines.push(SharedLine {
+                line: line.clone(),
+                systems: sys.iter().map(|&m| members[m].system.clone()).collect(),
+                share,
+                share_basis,
+                flow_m3_s: share * flow,
+                efficiency: None,
+                efficiency_basis: "",
+                hours_per_year: None,
+                annual_energy_kwh: None,
+                annual_cost: None,
+            });
+        }
+    }
 }
 
 /// What a system check found.
@@ -346,39 +430,6 @@ pub fn required_head_at(
             .sum::<f64>()
 }
 
-/// The systems named in the input: Systems rows, then ids only the Lines sheet names.
-fn definitions(input: &Input) -> Vec<(String, Vec<String>, Option<&SystemRow>)> {
-    let from_lines = |id: &str| -> Vec<String> {
-        let mut ls: Vec<&crate::ingest::LineRow> = input
-            .lines
-            .iter()
-            .filter(|l| l.system.as_deref() == Some(id))
-            .collect();
-        ls.sort_by_key(|l| l.service != Service::PumpSuction);
-        ls.into_iter().map(|l| l.line.clone()).collect()
-    };
-    let mut defs: Vec<(String, Vec<String>, Option<&SystemRow>)> = Vec::new();
-    for row in &input.systems {
-        if defs.iter().any(|d| d.0 == row.system) {
-            continue;
-        }
-        let lines = if row.lines.is_empty() {
-            from_lines(&row.system)
-        } else {
-            row.lines.clone()
-        };
-        defs.push((row.system.clone(), lines, Some(row)));
-    }
-    for l in &input.lines {
-        if let Some(id) = &l.system
-            && !defs.iter().any(|d| d.0 == *id)
-        {
-            defs.push((id.clone(), from_lines(id), None));
-        }
-    }
-    defs
-}
-
 /// Where a system's findings and assumed values point: its Systems row, else the first Lines row
 /// naming it.
 struct Place<'a> {
@@ -447,10 +498,19 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit, models: &[FittingM
             audit,
             models,
         };
-        definitions(input)
-            .into_iter()
-            .map(|(id, names, row)| one_system(&ctx, id, &names, row, &mut found))
-            .collect()
+        let members = memberships(input);
+        let by_line = systems_of_lines(&members);
+        let shared: HashSet<&str> = by_line
+            .iter()
+            .filter(|(_, s)| s.len() > 1)
+            .map(|(l, _)| l.as_str())
+            .collect();
+        let mut results: Vec<SystemResult> = members
+            .iter()
+            .map(|m| one_system(&ctx, m, &shared, &mut found))
+            .collect();
+        split_shared_lines(&ctx, &members, &by_line, &mut results);
+        results
     };
     for f in found {
         if !audit
@@ -487,19 +547,24 @@ fn static_head(input: &Input, names: &[String], row: Option<&SystemRow>) -> (f64
     }
 }
 
-/// The flow through the pump: that of the first pump-suction or pump-discharge line, else of the
-/// first line.
-fn duty_flow(audit: &Audit, idx: &[usize]) -> f64 {
+/// The line whose flow is the flow through the pump: the first pump-suction or pump-discharge
+/// line, else the first line; a line the system shares with another (a header carrying several
+/// pumps' flow) only when no line of its own qualifies.
+fn duty_line(audit: &Audit, idx: &[usize], shared: &HashSet<&str>) -> Option<usize> {
+    let pump_line = |i: &&usize| {
+        matches!(
+            audit.lines[**i].service,
+            Service::PumpSuction | Service::PumpDischarge
+        )
+    };
+    let own = |i: &&usize| !shared.contains(audit.lines[**i].line.as_str());
     idx.iter()
-        .find(|&&i| {
-            matches!(
-                audit.lines[i].service,
-                Service::PumpSuction | Service::PumpDischarge
-            )
-        })
+        .filter(own)
+        .find(pump_line)
+        .or_else(|| idx.iter().find(pump_line))
+        .or_else(|| idx.iter().find(own))
         .or(idx.first())
-        .map(|&i| audit.lines[i].flow_m3_s)
-        .unwrap_or(0.0)
+        .copied()
 }
 
 /// `static-head-missing`: no static head anywhere, so 0 m was taken.
@@ -541,12 +606,12 @@ fn pump_points(
 
 fn one_system(
     ctx: &Ctx<'_>,
-    id: String,
-    names: &[String],
-    row: Option<&SystemRow>,
+    member: &Membership<'_>,
+    shared: &HashSet<&str>,
     found: &mut Vec<Finding>,
 ) -> SystemResult {
     let (input, audit) = (ctx.input, ctx.audit);
+    let (id, names, row) = (member.system.clone(), &member.lines, member.row);
     let place = Place {
         input,
         row,
@@ -562,7 +627,12 @@ fn one_system(
             )),
         }
     }
-    let duty = duty_flow(audit, &idx);
+    let duty_line = duty_line(audit, &idx, shared);
+    let duty = duty_line.map_or(0.0, |i| audit.lines[i].flow_m3_s);
+    let duty_hours_per_year = duty_line.and_then(|i| {
+        let name = &audit.lines[i].line;
+        input.lines.iter().find(|l| l.line == *name)?.hours_per_year
+    });
     let (static_head_m, static_head_basis, static_head_given) = static_head(input, names, row);
     if !static_head_given {
         notes.push("no static head given (Static head in Systems, or Elevation change in Lines): taken as 0, so the required head leaves out the lift".into());
@@ -578,47 +648,29 @@ fn one_system(
         })
         .collect();
     let pump_curve = pump_points(input, &id, |p| Some(p.head_m));
-    let (pump_head_m, pump_head_basis) = match row.and_then(|r| r.pump_head_m) {
-        Some(h) => (Some(h), "Systems sheet".to_string()),
-        None => match interpolate(&pump_curve, duty) {
-            Some(h) => (Some(h), "Pump curve at duty flow".to_string()),
-            None => {
-                notes.push("no pump head at duty flow (Pump head in Systems, or a Pump curve spanning the duty flow): duty not checked".into());
-                (None, String::new())
+    let (pump_head_m, pump_head_basis) = pump_head(row, &pump_curve, duty, &mut notes);
+    let operating_point = (duty > 0.0 && pump_curve.len() >= 2)
+        .then(|| {
+            let op = operating_point(&pump_curve, |q| {
+                required_head_at(audit, ctx.models, &idx, static_head_m, q / duty)
+            });
+            if op.is_none() {
+                notes.push(
+                    "the pump curve does not cross the system curve within its flow range".into(),
+                );
             }
-        },
-    };
-    let operating_point = if duty > 0.0 && pump_curve.len() >= 2 {
-        let op = operating_point(&pump_curve, |q| {
-            required_head_at(audit, ctx.models, &idx, static_head_m, q / duty)
-        });
-        if op.is_none() {
-            notes.push(
-                "the pump curve does not cross the system curve within its flow range".into(),
-            );
-        }
-        op
-    } else {
-        None
-    };
+            op
+        })
+        .flatten();
     let margin_m = pump_head_m.map(|p| p - required_head_m);
     let fails_duty = margin_m.is_some_and(|m| m < 0.0);
-    if let (Some(m), Some(p)) = (margin_m, pump_head_m)
-        && fails_duty
-    {
-        found.push(Finding {
-            severity: Severity::Error,
-            code: "pump-head-short",
-            line: None,
-            tag: None,
-            cell: place.at("pump_head"),
-            message: format!(
-                "system {id}: the pump gives {p:.2} m at {:.1} m3/h but the system needs {required_head_m:.2} m (static {static_head_m:.2} m + losses {losses_head_m:.2} m): short by {:.2} m",
-                duty * 3600.0,
-                -m
-            ),
-            action: "the pump cannot deliver the duty flow: cut the losses (see Fitting ranking), check the static head, or re-rate the pump with its maker's curve".into(),
-        });
+    if let Some(p) = pump_head_m.filter(|_| fails_duty) {
+        found.push(pump_head_short(
+            &place,
+            duty,
+            p,
+            (static_head_m, losses_head_m),
+        ));
     }
 
     let suction: Vec<usize> = idx
@@ -668,6 +720,8 @@ fn one_system(
         static_head_given,
         curve,
         operating_point,
+        shared_lines: Vec::new(),
+        duty_hours_per_year,
         control: Control::Fixed,
         control_basis: String::new(),
         minimum_specific_energy_kwh_m3_m: f64::NAN,
@@ -687,6 +741,46 @@ fn one_system(
         notes,
         defaults: npsh.defaults,
         assumed: npsh.assumed,
+    }
+}
+
+/// Pump head at duty and where it came from: the Systems sheet, else the pump curve at the duty
+/// flow, else none (with a note).
+fn pump_head(
+    row: Option<&SystemRow>,
+    pump_curve: &[CurvePoint],
+    duty: f64,
+    notes: &mut Vec<String>,
+) -> (Option<f64>, String) {
+    if let Some(h) = row.and_then(|r| r.pump_head_m) {
+        return (Some(h), "Systems sheet".to_string());
+    }
+    match interpolate(pump_curve, duty) {
+        Some(h) => (Some(h), "Pump curve at duty flow".to_string()),
+        None => {
+            notes.push("no pump head at duty flow (Pump head in Systems, or a Pump curve spanning the duty flow): duty not checked".into());
+            (None, String::new())
+        }
+    }
+}
+
+/// `pump-head-short`: the pump head `p` at duty is below static head plus losses (`heads`).
+fn pump_head_short(place: &Place<'_>, duty: f64, p: f64, heads: (f64, f64)) -> Finding {
+    let (static_head_m, losses_head_m) = heads;
+    let required_head_m = static_head_m + losses_head_m;
+    Finding {
+        severity: Severity::Error,
+        code: "pump-head-short",
+        line: None,
+        tag: None,
+        cell: place.at("pump_head"),
+        message: format!(
+            "system {}: the pump gives {p:.2} m at {:.1} m3/h but the system needs {required_head_m:.2} m (static {static_head_m:.2} m + losses {losses_head_m:.2} m): short by {:.2} m",
+            place.id,
+            duty * 3600.0,
+            required_head_m - p
+        ),
+        action: "the pump cannot deliver the duty flow: cut the losses (see Fitting ranking), check the static head, or re-rate the pump with its maker's curve".into(),
     }
 }
 

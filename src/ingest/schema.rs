@@ -657,6 +657,19 @@ static SYSTEMS: TableSpec = TableSpec {
             ],
             "Electrical power drawn by the pump set at the test (default unit kW)",
         ),
+        col(
+            "share",
+            "Share",
+            Text,
+            &[
+                "Flow share",
+                "Share of flow",
+                "Shared line share",
+                "Header share",
+                "Split",
+            ],
+            "This system's share of the flow of the lines it shares with other systems (a common header): a fraction or percentage for all of them (0.6, 60 %), or per line (H1: 60 %, H2: 0.5); default: by the systems' duty flows",
+        ),
     ],
 };
 

@@ -64,7 +64,19 @@ fn row(label: impl Into<String>, value: Value, basis: impl Into<String>) -> Figu
 /// free row.
 pub(crate) fn write_figures(
     ws: &mut Worksheet,
+    r: u32,
+    figures: &[Figure],
+    st: &Styles,
+) -> Result<u32, XlsxError> {
+    write_figures_at(ws, r, 1, figures, st)
+}
+
+/// [`write_figures`] with the values in column `col` and the sources beside them (the Summary
+/// sheet keeps its values in column C). Returns the next free row.
+pub(crate) fn write_figures_at(
+    ws: &mut Worksheet,
     mut r: u32,
+    col: u16,
     figures: &[Figure],
     st: &Styles,
 ) -> Result<u32, XlsxError> {
@@ -74,17 +86,17 @@ pub(crate) fn write_figures(
         let finite = |v: &Option<f64>| v.filter(|x| x.is_finite());
         match &f.value {
             Value::Num(v) => match finite(v) {
-                Some(x) => ws.write_number_with_format(r, 1, shown(x * factor), &st.n3)?,
-                None => ws.write_string(r, 1, "—")?,
+                Some(x) => ws.write_number_with_format(r, col, shown(x * factor), &st.n3)?,
+                None => ws.write_string(r, col, "—")?,
             },
             Value::Share(v) => match finite(v) {
-                Some(x) => ws.write_number_with_format(r, 1, shown(x), &st.pct)?,
-                None => ws.write_string(r, 1, "—")?,
+                Some(x) => ws.write_number_with_format(r, col, shown(x), &st.pct)?,
+                None => ws.write_string(r, col, "—")?,
             },
-            Value::Text(t) => ws.write_string(r, 1, truncate(t, MAX_CELL_CHARS))?,
+            Value::Text(t) => ws.write_string(r, col, truncate(t, MAX_CELL_CHARS))?,
         };
         if !f.basis.is_empty() {
-            ws.write_string(r, 2, truncate(&f.basis, MAX_CELL_CHARS))?;
+            ws.write_string(r, col + 1, truncate(&f.basis, MAX_CELL_CHARS))?;
         }
         r += 1;
     }

@@ -7,7 +7,7 @@ use rust_xlsxwriter::{
 use super::figures::{Figure, figure, write_figures};
 use super::style::{MAX_CELL_CHARS, Styles, shown, truncate};
 use crate::audit::energy::{OPERATING_POINT_CAUTION, RankBasis, SAVINGS_CAUTION};
-use crate::audit::system::{Outcome, SystemResult};
+use crate::audit::system::{CurvePoint, Outcome, SystemResult};
 use crate::audit::{Audit, FittingResult};
 use crate::error::quote_sheet;
 use crate::units::header_in;
@@ -474,7 +474,7 @@ pub(crate) fn write_systems(
     }
     ws.set_column_width(0, 30)?;
     ws.set_column_width(1, 40)?;
-    for c in 2..8 {
+    for c in 2..=*CURVE_COLS.end() {
         ws.set_column_width(c, 13)?;
     }
     Ok(())
@@ -625,8 +625,27 @@ fn write_system(
         r += 1;
     }
     r += 1;
-    // Curve table, in the report's units: flow factor `fq`, head factor `fh`.
-    let hr = r;
+    let last = write_curve_table(ws, s, r, st)?;
+    ws.insert_chart(start, CHART_COL, &system_chart(sheet, s, r, st))?;
+    Ok(last.max(start + 18))
+}
+
+/// Column of the Systems sheet the chart of each system is placed at (right of its curve table).
+const CHART_COL: u16 = 13;
+
+/// Columns of the curve table: flow, % of duty, required head, pump curve flow and head, duty
+/// point, operating point, pump efficiency flow and efficiency.
+const CURVE_COLS: std::ops::RangeInclusive<u16> = 1..=11;
+
+/// Write the curve table of a system at header row `hr`, in the report's units: the system
+/// curve, the pump curve, the duty and operating points and the pump efficiency points.
+/// Returns its last row.
+fn write_curve_table(
+    ws: &mut Worksheet,
+    s: &SystemResult,
+    hr: u32,
+    st: &Styles,
+) -> Result<u32, XlsxError> {
     let (flow_label, fq) = header_in("Flow [m3/h]", st.units);
     let (head_label, fh) = header_in("Head [m]", st.units);
     let unit = |l: &str| l[l.find('[').unwrap_or(l.len())..].to_string();
@@ -639,11 +658,31 @@ fn write_system(
         format!("Pump curve head {hu}"),
         format!("Duty flow {qu}"),
         format!("Duty head {hu}"),
+        format!("Operating flow {qu}"),
+        format!("Operating head {hu}"),
+        format!("Efficiency point flow {qu}"),
+        "Pump efficiency [%]".to_string(),
     ];
-    for (c, h) in headers.iter().enumerate() {
-        ws.write_string_with_format(hr, c as u16 + 1, h, &st.header)?;
+    for (c, h) in CURVE_COLS.zip(headers.iter()) {
+        ws.write_string_with_format(hr, c, h, &st.header)?;
     }
     ws.set_row_height(hr, 30)?;
+    let mut pair = |rows: &[CurvePoint], col: u16, head_factor: f64, fmt: &Format| {
+        for (i, p) in rows.iter().enumerate() {
+            let rr = hr + 1 + i as u32;
+            ws.write_number_with_format(rr, col, m3h(p.flow_m3_s) * fq, &st.n2)?;
+            ws.write_number_with_format(rr, col + 1, p.head_m * head_factor, fmt)?;
+        }
+        Ok::<(), XlsxError>(())
+    };
+    pair(&s.pump_curve, 4, fh, &st.n3)?;
+    let duty = CurvePoint {
+        flow_m3_s: s.flow_m3_s,
+        head_m: s.required_head_m,
+    };
+    pair(&[duty], 6, fh, &st.n3)?;
+    pair(s.operating_point.as_slice(), 8, fh, &st.n3)?;
+    pair(&s.efficiency_curve, 10, 1.0, &st.pct)?;
     for (i, p) in s.curve.iter().enumerate() {
         let rr = hr + 1 + i as u32;
         ws.write_number_with_format(rr, 1, m3h(p.flow_m3_s) * fq, &st.n2)?;
@@ -652,48 +691,62 @@ fn write_system(
         }
         ws.write_number_with_format(rr, 3, p.head_m * fh, &st.n3)?;
     }
-    for (i, p) in s.pump_curve.iter().enumerate() {
-        let rr = hr + 1 + i as u32;
-        ws.write_number_with_format(rr, 4, m3h(p.flow_m3_s) * fq, &st.n2)?;
-        ws.write_number_with_format(rr, 5, p.head_m * fh, &st.n3)?;
-    }
-    ws.write_number_with_format(hr + 1, 6, m3h(s.flow_m3_s) * fq, &st.n2)?;
-    ws.write_number_with_format(hr + 1, 7, s.required_head_m * fh, &st.n3)?;
-    let last = hr + s.curve.len().max(s.pump_curve.len()).max(1) as u32;
+    let rows = s
+        .curve
+        .len()
+        .max(s.pump_curve.len())
+        .max(s.efficiency_curve.len())
+        .max(1);
+    Ok(hr + rows as u32)
+}
 
+/// The chart of a system from its curve table at header row `hr`: the system curve, the pump
+/// curve, the duty and operating points against the head axis, and the pump efficiency curve
+/// (when the pump curve gives efficiency or power points) against a secondary axis.
+fn system_chart(sheet: &str, s: &SystemResult, hr: u32, st: &Styles) -> Chart {
+    let (flow_label, _) = header_in("Flow [m3/h]", st.units);
+    let (head_label, _) = header_in("Head [m]", st.units);
     let mut chart = Chart::new(ChartType::ScatterStraightWithMarkers);
-    let n_curve = s.curve.len().max(1) as u32;
-    chart
-        .add_series()
-        .set_categories((sheet, hr + 1, 1, hr + n_curve, 1))
-        .set_values((sheet, hr + 1, 3, hr + n_curve, 3))
-        .set_name("System curve");
-    if !s.pump_curve.is_empty() {
-        let n = s.pump_curve.len() as u32;
-        chart
+    // One series: x in column `x`, y in column `y`, `n` rows; a point gets a diamond marker.
+    let mut series = |name: &str, (x, y): (u16, u16), n: usize, point: bool, secondary: bool| {
+        let last = hr + n.max(1) as u32;
+        let added = chart
             .add_series()
-            .set_categories((sheet, hr + 1, 4, hr + n, 4))
-            .set_values((sheet, hr + 1, 5, hr + n, 5))
-            .set_name("Pump curve");
+            .set_categories((sheet, hr + 1, x, last, x))
+            .set_values((sheet, hr + 1, y, last, y))
+            .set_name(name)
+            .set_secondary_axis(secondary);
+        if point {
+            added.set_marker(
+                ChartMarker::new()
+                    .set_type(ChartMarkerType::Diamond)
+                    .set_size(10),
+            );
+        }
+    };
+    series("System curve", (1, 3), s.curve.len(), false, false);
+    if !s.pump_curve.is_empty() {
+        series("Pump curve", (4, 5), s.pump_curve.len(), false, false);
     }
-    chart
-        .add_series()
-        .set_categories((sheet, hr + 1, 6, hr + 1, 6))
-        .set_values((sheet, hr + 1, 7, hr + 1, 7))
-        .set_name("Duty point")
-        .set_marker(
-            ChartMarker::new()
-                .set_type(ChartMarkerType::Diamond)
-                .set_size(10),
-        );
+    series("Duty point", (6, 7), 1, true, false);
+    if s.operating_point.is_some() {
+        series("Operating point", (8, 9), 1, true, false);
+    }
+    if !s.efficiency_curve.is_empty() {
+        let n = s.efficiency_curve.len();
+        series("Pump efficiency", (10, 11), n, false, true);
+        chart
+            .y2_axis()
+            .set_name("Pump efficiency [%]")
+            .set_num_format("0%");
+    }
     chart
         .title()
         .set_name(format!("System {}: head against flow", s.system).as_str());
     chart.x_axis().set_name(&flow_label);
     chart.y_axis().set_name(&head_label);
     chart.set_width(620).set_height(340);
-    ws.insert_chart(start, 9, &chart)?;
-    Ok(last.max(start + 18))
+    chart
 }
 
 /// The energy block of `Summary`: total annual loss cost, systems that fail, the top five items.

@@ -6,7 +6,11 @@ use crate::audit::station::STATION_CAUTION;
 use crate::audit::station::TestResult;
 use crate::audit::system::SystemResult;
 
-use super::figures::{Figure, figure, share, text};
+use rust_xlsxwriter::{Worksheet, XlsxError};
+
+use super::figures::{Figure, figure, share, text, write_figures_at};
+use super::style::Styles;
+use crate::audit::Audit;
 
 fn m3h(q: f64) -> f64 {
     q * 3600.0
@@ -32,6 +36,33 @@ pub(crate) fn station_figures(s: &SystemResult, rules: &Rules, cur: &str) -> Vec
             s.loss_share,
             "line losses over required head at duty",
         ));
+    }
+    for sh in &s.shared_lines {
+        let with = format!("shared with {}", sh.systems.join(", "));
+        v.extend([
+            share(
+                format!("Share of shared line {}", sh.line),
+                Some(sh.share),
+                format!("{with}; by {}", sh.share_basis),
+            ),
+            figure(
+                format!("Line {} energy of this share [kWh/yr]", sh.line),
+                sh.annual_energy_kwh,
+                sh.efficiency.map_or(String::new(), |e| {
+                    format!(
+                        "at {} and {:.0} h ({})",
+                        pct(e),
+                        sh.hours_per_year.unwrap_or(0.0),
+                        sh.efficiency_basis
+                    )
+                }),
+            ),
+            figure(
+                format!("Line {} cost of this share [{cur}/yr]", sh.line),
+                sh.annual_cost,
+                "",
+            ),
+        ]);
     }
     if let Some(m) = s.measured {
         let basis = "metered (Systems sheet)";
@@ -225,6 +256,98 @@ fn savings_figures(s: &SystemResult, rules: &Rules, cur: &str, v: &mut Vec<Figur
             figure("Power after [kW]", Some(c.power_after_w / 1e3), basis),
         ]);
     }
+}
+
+/// The short station-energy figures of one system for the Summary sheet: specific energy and
+/// wire-to-water (metered, else the test, else the pump curve's where it runs), the piping share
+/// of the head, the best-efficiency flow and the preferred-region verdict, and the control.
+pub(crate) fn summary_figures(s: &SystemResult, rules: &Rules) -> Vec<Figure> {
+    let measured = s
+        .measured
+        .map(|m| (m.specific_energy_kwh_m3, m.wire_to_water, "metered"))
+        .or(s
+            .test
+            .map(|t| (t.specific_energy_kwh_m3, t.wire_to_water, "test point")));
+    let curve = s.pump_efficiency.and_then(|p| p.wire_to_water);
+    let (energy, wire, basis) = match (measured, curve) {
+        (Some((e, w, b)), _) => (Some(e), Some(w), b.to_string()),
+        // e = ρ g H / (η 3.6e6): the minimum over the wire-to-water where the pump runs.
+        (None, Some(w)) => (
+            Some(s.minimum_specific_energy_kwh_m3_m * s.required_head_m / w),
+            Some(w),
+            "computed: required head at duty over the pump curve's wire-to-water".into(),
+        ),
+        (None, None) => (None, None, "no meter, test or pump efficiency given".into()),
+    };
+    let mut v = vec![
+        figure("Specific energy [kWh/m3]", energy, &basis),
+        share("Wire-to-water", wire, &basis),
+        share(
+            "Piping share of the head",
+            s.loss_share,
+            "line losses over required head at duty",
+        ),
+    ];
+    match s.pump_efficiency {
+        Some(p) => v.extend([
+            figure(
+                "Best-efficiency flow [m3/h]",
+                Some(m3h(p.best.flow_m3_s)),
+                "pump curve",
+            ),
+            text(
+                format!(
+                    "Preferred region ({:.0}–{:.0} % of best-efficiency flow)",
+                    rules.station.preferred_min * 100.0,
+                    rules.station.preferred_max * 100.0
+                ),
+                if p.outside_preferred {
+                    "OUTSIDE"
+                } else {
+                    "inside"
+                },
+                format!(
+                    "duty at {:.0} % of best-efficiency flow",
+                    p.duty_ratio * 100.0
+                ),
+            ),
+        ]),
+        None => v.push(text(
+            "Best-efficiency flow",
+            "not known",
+            "no efficiency or power points on the pump curve",
+        )),
+    }
+    v.push(text(
+        "Flow control the savings assume",
+        s.control.id(),
+        &s.control_basis,
+    ));
+    v
+}
+
+/// Write the Summary's station-energy block from row `start`: one short block per system
+/// ([`summary_figures`], values in column C in the report's units) under the screening caution.
+/// Returns the next free row (`start` when there are no systems).
+pub(crate) fn write_summary_station(
+    ws: &mut Worksheet,
+    audit: &Audit,
+    start: u32,
+    st: &Styles,
+) -> Result<u32, XlsxError> {
+    if audit.systems.is_empty() {
+        return Ok(start);
+    }
+    let mut r = start;
+    ws.set_row_height(r, 45)?;
+    ws.write_string_with_format(r, 0, "Station energy (screening estimate)", &st.bold)?;
+    ws.write_string_with_format(r, 2, STATION_CAUTION, &st.wrap)?;
+    r += 1;
+    for s in &audit.systems {
+        ws.write_string_with_format(r, 0, format!("System {}", s.system), &st.bold)?;
+        r = write_figures_at(ws, r + 1, 2, &summary_figures(s, &audit.rules), st)?;
+    }
+    Ok(r + 1)
 }
 
 /// One sentence per system for the console: control, piping share, measured wire-to-water,

@@ -870,6 +870,7 @@ fn write_summary(
     }
     r = write_legend(ws, r + 1, st)? + 1;
     r = super::ranking::write_summary_block(ws, audit, r, st)?;
+    r = super::station::write_summary_station(ws, audit, r, st)?;
     let headers = [
         "Line",
         "Service",

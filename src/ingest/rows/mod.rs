@@ -10,6 +10,7 @@ mod fluids;
 mod lines;
 mod pipes;
 mod pump_curve;
+pub mod shares;
 mod systems;
 
 pub use cells::format_number;
@@ -214,6 +215,7 @@ pub fn cross_check(input: &mut Input) {
             hint: Some("enter at least one run (line, size, length) below the header".into()),
         });
     }
+    diags.extend(shares::check(input));
     fold_unchecked(&mut input.diagnostics, &erred_runs);
     input.diagnostics.extend(diags);
 }

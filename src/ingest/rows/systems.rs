@@ -34,6 +34,9 @@ pub struct SystemRow {
     pub metered: Option<Metered>,
     /// A site test point, when one is given.
     pub test_point: Option<TestPoint>,
+    /// The system's shares of the lines it shares with other systems (Systems `Share`; empty:
+    /// split by the systems' duty flows).
+    pub shares: Vec<super::shares::Share>,
 }
 
 /// How a system's flow is set, which decides what a lower loss saves (docs/energy.md §10).
@@ -141,6 +144,7 @@ pub(super) fn read_systems(input: &Input, sink: &mut Sink) -> Vec<SystemRow> {
             control: control(c),
             metered: metered(c),
             test_point: test_point(c),
+            shares: super::shares::read(c),
         });
     });
     systems
