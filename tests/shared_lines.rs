@@ -7,7 +7,9 @@ use lossledger::audit::energy::SHARED_BASIS;
 use std::path::PathBuf;
 
 mod common;
-use common::{C, Sheet, audit, book, rel};
+use common::book::{Cell, Table, book, n, s};
+use common::library::audit;
+use common::tol::rel;
 
 /// Hand-worked figures of docs/energy.md, worked example 9 (Hazen–Williams SI form
 /// h_f = 10.67 L Q^1.852 / (C^1.852 D^4.8704), ρ g = 998.2 × 9.80665).
@@ -22,10 +24,10 @@ const TOL: f64 = 1e-9;
 /// The invented header station: header H (0.05 m³/s) feeding pump A's discharge DA (0.03 m³/s,
 /// 6000 h, 70 %) and pump B's DB (0.02 m³/s, 3000 h, 50 %). `share` fills the Systems `Share`
 /// column of A and B (None: no such column), under the header `share_header`.
-fn header_book(name: &str, share_header: &'static str, share: Option<[C; 2]>) -> PathBuf {
+fn header_book(name: &str, share_header: &'static str, share: Option<[Cell; 2]>) -> PathBuf {
     let mut headers = vec!["System", "Lines", "Static head [m]", "Efficiency [%]"];
-    let mut a = vec![C::S("A"), C::S("H, DA"), C::N(10.0), C::N(70.0)];
-    let mut b = vec![C::S("B"), C::S("H, DB"), C::N(10.0), C::N(50.0)];
+    let mut a = vec![s("A"), s("H, DA"), n(10.0), n(70.0)];
+    let mut b = vec![s("B"), s("H, DB"), n(10.0), n(50.0)];
     if let Some([sa, sb]) = share {
         headers.push(share_header);
         a.push(sa);
@@ -34,15 +36,15 @@ fn header_book(name: &str, share_header: &'static str, share: Option<[C; 2]>) ->
     let headers: &'static [&'static str] = Box::leak(headers.into_boxed_slice());
     let line = |id, service, q, hours: Option<f64>| {
         vec![
-            C::S(id),
-            C::S(service),
-            C::N(q),
-            C::S("water-20"),
-            hours.map_or(C::E, C::N),
+            s(id),
+            s(service),
+            n(q),
+            s("water-20"),
+            hours.map_or(Cell::E, n),
         ]
     };
-    let run = |id, d, l| vec![C::S(id), C::N(d), C::N(l), C::N(120.0)];
-    let sheets: Vec<Sheet<'_>> = vec![
+    let run = |id, d, l| vec![s(id), n(d), n(l), n(120.0)];
+    let sheets: Vec<Table<'_>> = vec![
         (
             "Notes",
             &["INVENTED DATA: a fictional header station for a test"],
@@ -69,7 +71,7 @@ fn header_book(name: &str, share_header: &'static str, share: Option<[C; 2]>) ->
         (
             "Fluids",
             &["Fluid", "Density [kg/m3]", "Viscosity [Pa.s]"],
-            vec![vec![C::S("water-20"), C::N(998.2), C::N(0.001)]],
+            vec![vec![s("water-20"), n(998.2), n(0.001)]],
         ),
         ("Systems", headers, vec![a, b]),
     ];
@@ -141,7 +143,7 @@ fn shared_header_split_by_duty_flows_matches_the_hand_worked_example() {
 // Source: docs/energy.md, worked example 9, the Share column (0.75 and 25 %).
 #[test]
 fn shared_header_split_by_the_share_column_matches_the_hand_worked_example() {
-    let shares = Some([C::S("0.75"), C::S("H: 25 %")]);
+    let shares = Some([s("0.75"), s("H: 25 %")]);
     let a = audit(&header_book("by-share", "Share", shares), &Rules::default());
     let (ha, hb) = (&a.systems[0].shared_lines[0], &a.systems[1].shared_lines[0]);
     assert_eq!(ha.share_basis, "Systems Share");
@@ -160,7 +162,7 @@ fn shared_header_split_by_the_share_column_matches_the_hand_worked_example() {
 #[test]
 fn share_column_aliases_read_as_share() {
     for header in ["Flow share", "Share of flow", "Split"] {
-        let shares = Some([C::N(0.75), C::N(0.25)]);
+        let shares = Some([n(0.75), n(0.25)]);
         let name = format!("alias-{}", header.replace(' ', "-"));
         let a = audit(&header_book(&name, header, shares), &Rules::default());
         assert!(
@@ -191,24 +193,24 @@ fn errors(path: &std::path::Path) -> Vec<(String, String, String)> {
 // Bad input (docs/energy.md §4a): each error at its Share cell with a hint, one per cause.
 #[test]
 fn bad_shares_are_errors_at_their_cells_with_a_hint() {
-    let cases: [(&str, [C; 2], &str, &str); 5] = [
+    let cases: [(&str, [Cell; 2], &str, &str); 5] = [
         (
             "outside",
-            [C::N(1.2), C::N(0.25)],
+            [n(1.2), n(0.25)],
             "Systems!E2",
             "outside 0 to 1",
         ),
         (
             "percent",
-            [C::S("120 %"), C::E],
+            [s("120 %"), Cell::E],
             "Systems!E2",
             "outside 0 to 1",
         ),
-        ("sum", [C::N(0.6), C::N(0.6)], "Systems!E3", "sum to 1.2"),
-        ("missing", [C::N(0.6), C::E], "Systems!E2", "but not for B"),
+        ("sum", [n(0.6), n(0.6)], "Systems!E3", "sum to 1.2"),
+        ("missing", [n(0.6), Cell::E], "Systems!E2", "but not for B"),
         (
             "not-listed",
-            [C::S("DB: 0.5"), C::N(0.5)],
+            [s("DB: 0.5"), n(0.5)],
             "Systems!E2",
             "does not list",
         ),
@@ -227,7 +229,7 @@ fn bad_shares_are_errors_at_their_cells_with_a_hint() {
 // to sum to 1.
 #[test]
 fn shares_within_the_tolerance_are_scaled_to_one() {
-    let shares = Some([C::S("74.5 %"), C::S("25 %")]);
+    let shares = Some([s("74.5 %"), s("25 %")]);
     let a = audit(&header_book("rounded", "Share", shares), &Rules::default());
     let s = a.systems[0].shared_lines[0].share + a.systems[1].shared_lines[0].share;
     assert!(rel(s, 1.0) < TOL);
