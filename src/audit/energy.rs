@@ -633,7 +633,7 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit, models: &[FittingM
         f.annual_energy_kwh = energy.map(|e| e.annual_energy_kwh);
         f.annual_cost = energy.map(|e| e.annual_cost);
         f.annual_co2_kg = energy.filter(|_| co2).map(|e| e.annual_co2_kg);
-        f.suggestion = suggestion;
+        f.suggestion = suggestion.map(Box::new);
     }
     for (f, r) in audit.fittings.iter_mut().zip(rank(&items)) {
         f.rank = Some(r.rank);

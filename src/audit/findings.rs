@@ -2,6 +2,7 @@
 
 use serde::Serialize;
 
+use super::lines::Placements;
 use super::{Audit, Rules};
 use crate::error::{CellRef, Severity};
 use crate::ingest::{FittingRow, Input, Service, TableKind};
@@ -321,6 +322,21 @@ pub fn sort(findings: &mut [Finding]) {
             .then_with(|| a.cell.cmp(&b.cell))
             .then(a.code.cmp(b.code))
     });
+}
+
+/// Raise the placement findings the line computation gathered: fittings whose size matches no
+/// run ([`size_mismatch`]), fittings placed by their kind or the list order
+/// ([`size_inferred`]), closed valves ([`closed_valve`]), in that order.
+pub fn placement(input: &Input, audit: &mut Audit, placements: &Placements) {
+    for &(fi, run) in &placements.mismatched {
+        size_mismatch(input, audit, &input.fittings[fi], run);
+    }
+    for (fi, run, why) in &placements.inferred {
+        size_inferred(input, audit, &input.fittings[*fi], *run, why);
+    }
+    for &fi in &placements.closed {
+        closed_valve(input, audit, &input.fittings[fi]);
+    }
 }
 
 /// A fitting whose size matches no run of its line.

@@ -2,6 +2,8 @@
 
 use std::collections::HashMap;
 
+use polars::prelude::{Column, DataFrame, PolarsError, PolarsResult};
+
 use super::{Audit, FittingResult, FluidUsed, LineResult, Rules, RunResult};
 use crate::error::{CellRef, Diagnostic, Severity};
 use crate::ingest::parse::SizeSpec;
@@ -65,6 +67,26 @@ impl Ctx<'_> {
             hint,
         });
     }
+
+    /// The errors recorded so far, taken, when there are any.
+    fn check(&mut self) -> Result<(), Vec<Diagnostic>> {
+        if self.errors.is_empty() {
+            Ok(())
+        } else {
+            Err(std::mem::take(&mut self.errors))
+        }
+    }
+
+    /// An internal table error as the audit's one error.
+    fn internal(&self, e: PolarsError) -> Vec<Diagnostic> {
+        vec![Diagnostic {
+            severity: Severity::Error,
+            file: self.input.file.clone(),
+            cell: None,
+            message: format!("internal table error: {e}"),
+            hint: None,
+        }]
+    }
 }
 
 fn is_water(name: &str) -> bool {
@@ -72,115 +94,161 @@ fn is_water(name: &str) -> bool {
         .any(|w| w == "water")
 }
 
+/// A line's flow and fluid as the input gives them, before the fluid's properties are found.
+struct LineSpec<'a> {
+    line: &'a str,
+    service: Service,
+    /// The Lines row (None when only Pipes names the line).
+    row: Option<u32>,
+    sheet: &'a str,
+    flow_m3_s: f64,
+    fluid: &'a str,
+    temperature_c: f64,
+    elevation_change_m: f64,
+}
+
+/// Why a fluid has no properties: message, the Lines column it is about, hint.
+type NoFluid = (String, &'static str, Option<String>);
+
 /// Fluid state of every line: Lines rows, plus lines only Pipes names (with flow on their runs).
 fn line_states(
     ctx: &mut Ctx<'_>,
     fluids_used: &mut Vec<FluidUsed>,
 ) -> (Vec<String>, HashMap<String, LineState>) {
-    let input = ctx.input;
     let mut order = Vec::new();
     let mut states = HashMap::new();
+    let input = ctx.input;
+    for spec in line_specs(input) {
+        match fluid_props(input, spec.fluid, spec.temperature_c) {
+            Ok((props, basis)) => {
+                let (fluid, t) = (spec.fluid, spec.temperature_c);
+                if !fluids_used
+                    .iter()
+                    .any(|u| u.fluid == fluid && u.temperature_c == t)
+                {
+                    fluids_used.push(FluidUsed {
+                        fluid: fluid.to_string(),
+                        temperature_c: t,
+                        props,
+                        basis,
+                    });
+                }
+                order.push(spec.line.to_string());
+                states.insert(
+                    spec.line.to_string(),
+                    LineState {
+                        service: spec.service,
+                        row: spec.row,
+                        sheet: spec.sheet.to_string(),
+                        flow_m3_s: spec.flow_m3_s,
+                        fluid: fluid.to_string(),
+                        temperature_c: t,
+                        props,
+                        elevation_change_m: spec.elevation_change_m,
+                    },
+                );
+            }
+            Err((message, key, hint)) => {
+                let cell = ctx.cell(TableKind::Lines, spec.sheet, spec.row.unwrap_or(0), key);
+                ctx.error(cell, message, hint);
+            }
+        }
+    }
+    (order, states)
+}
+
+/// The lines with a flow: Lines rows in order (flow from the row, else from a run), then the
+/// lines only Pipes names, in the order of their first run (water at 20 °C, flow from the run).
+fn line_specs(input: &Input) -> Vec<LineSpec<'_>> {
     let mut run_flow: HashMap<&str, f64> = HashMap::new();
     for p in &input.pipes {
         if let Some(q) = p.flow_m3_s {
             run_flow.entry(p.line.as_str()).or_insert(q);
         }
     }
-    let mut add = |ctx: &mut Ctx<'_>,
-                   line: &str,
-                   service,
-                   row: Option<u32>,
-                   sheet: &str,
-                   flow: f64,
-                   fluid_name: &str,
-                   t: f64,
-                   dz: f64| {
-        let props = match input.fluids.iter().find(|f| f.fluid == fluid_name) {
-            Some(f) => Ok((fluid::FluidProps {
+    let mut specs: Vec<LineSpec<'_>> = input
+        .lines
+        .iter()
+        .filter_map(|l| {
+            let flow = l
+                .flow_m3_s
+                .or_else(|| run_flow.get(l.line.as_str()).copied())?;
+            Some(LineSpec {
+                line: &l.line,
+                service: l.service,
+                row: Some(l.origin.row),
+                sheet: &l.origin.sheet,
+                flow_m3_s: flow,
+                fluid: &l.fluid,
+                temperature_c: l.temperature_c,
+                elevation_change_m: l.elevation_change_m.unwrap_or(0.0),
+            })
+        })
+        .collect();
+    let mut seen: std::collections::HashSet<&str> =
+        input.lines.iter().map(|l| l.line.as_str()).collect();
+    for p in &input.pipes {
+        if !seen.insert(p.line.as_str()) {
+            continue;
+        }
+        if let Some(&flow) = run_flow.get(p.line.as_str()) {
+            specs.push(LineSpec {
+                line: &p.line,
+                service: Service::General,
+                row: None,
+                sheet: &p.origin.sheet,
+                flow_m3_s: flow,
+                fluid: "water",
+                temperature_c: 20.0,
+                elevation_change_m: 0.0,
+            });
+        }
+    }
+    specs
+}
+
+/// A fluid's properties at a temperature and where they came from: a Fluids row, else the
+/// water model for water.
+fn fluid_props(
+    input: &Input,
+    fluid_name: &str,
+    t: f64,
+) -> Result<(fluid::FluidProps, String), NoFluid> {
+    match input.fluids.iter().find(|f| f.fluid == fluid_name) {
+        Some(f) => Ok((
+            fluid::FluidProps {
                 density_kg_m3: f.density_kg_m3,
                 viscosity_pa_s: f.viscosity_pa_s,
                 vapour_pressure_pa: f.vapour_pressure_pa.unwrap_or(f64::NAN),
-            }, format!("Fluids sheet row {}", f.origin.row + 1))),
-            None if is_water(fluid_name) => fluid::water(t).map(|p| (p, "IAPWS-IF97 (density, saturation pressure) and IAPWS 2008 viscosity via seuif97, at 101.325 kPa".to_string())).map_err(|e| (format!("{e}"), "temperature", Some(format!("the water model covers {}–{} °C", fluid::WATER_T_MIN_C, fluid::WATER_T_MAX_C)))),
-            None => Err((format!("fluid '{fluid_name}' is not water and is not listed in a Fluids sheet"), "fluid", Some("add a Fluids sheet with Fluid, Density and Viscosity for it".to_string()))),
-        };
-        match props {
-            Ok((props, basis)) => {
-                if !fluids_used
-                    .iter()
-                    .any(|u| u.fluid == fluid_name && u.temperature_c == t)
-                {
-                    fluids_used.push(FluidUsed {
-                        fluid: fluid_name.to_string(),
-                        temperature_c: t,
-                        props,
-                        basis,
-                    });
-                }
-                order.push(line.to_string());
-                states.insert(
-                    line.to_string(),
-                    LineState {
-                        service,
-                        row,
-                        sheet: sheet.to_string(),
-                        flow_m3_s: flow,
-                        fluid: fluid_name.to_string(),
-                        temperature_c: t,
-                        props,
-                        elevation_change_m: dz,
-                    },
-                );
-            }
-            Err((message, key, hint)) => {
-                let cell = ctx.cell(TableKind::Lines, sheet, row.unwrap_or(0), key);
-                ctx.error(cell, message, hint);
-            }
-        }
-    };
-    for l in &input.lines {
-        let Some(flow) = l
-            .flow_m3_s
-            .or_else(|| run_flow.get(l.line.as_str()).copied())
-        else {
-            continue;
-        };
-        add(
-            ctx,
-            &l.line,
-            l.service,
-            Some(l.origin.row),
-            &l.origin.sheet,
-            flow,
-            &l.fluid,
-            l.temperature_c,
-            l.elevation_change_m.unwrap_or(0.0),
-        );
+            },
+            format!("Fluids sheet row {}", f.origin.row + 1),
+        )),
+        None if is_water(fluid_name) => fluid::water(t)
+            .map(|p| {
+                (
+                    p,
+                    "IAPWS-IF97 (density, saturation pressure) and IAPWS 2008 viscosity via \
+                     seuif97, at 101.325 kPa"
+                        .to_string(),
+                )
+            })
+            .map_err(|e| {
+                (
+                    format!("{e}"),
+                    "temperature",
+                    Some(format!(
+                        "the water model covers {}–{} °C",
+                        fluid::WATER_T_MIN_C,
+                        fluid::WATER_T_MAX_C
+                    )),
+                )
+            }),
+        None => Err((
+            format!("fluid '{fluid_name}' is not water and is not listed in a Fluids sheet"),
+            "fluid",
+            Some("add a Fluids sheet with Fluid, Density and Viscosity for it".to_string()),
+        )),
     }
-    let mut seen: std::collections::HashSet<&str> =
-        input.lines.iter().map(|l| l.line.as_str()).collect();
-    let mut implicit: Vec<&PipeRow> = Vec::new();
-    for p in &input.pipes {
-        if seen.insert(p.line.as_str()) {
-            implicit.push(p);
-        }
-    }
-    for p in implicit {
-        if let Some(&flow) = run_flow.get(p.line.as_str()) {
-            add(
-                ctx,
-                &p.line,
-                Service::General,
-                None,
-                &p.origin.sheet,
-                flow,
-                "water",
-                20.0,
-                0.0,
-            );
-        }
-    }
-    (order, states)
 }
 
 struct ResolvedRun {
@@ -201,131 +269,180 @@ fn resolve_run(ctx: &mut Ctx<'_>, p: &PipeRow) -> Option<ResolvedRun> {
         Some(SizeKey::Dn(dn)) => Some(dn),
         _ => None,
     };
-    let nps = dn.and_then(pipe::dn_to_nps);
-    let size_cell = ctx.cell(TableKind::Pipes, &p.origin.sheet, p.origin.row, "size");
-    let mut wall = None;
-    let (d_m, basis) = if let Some(d) = p.inner_diameter_m {
-        (d, "Inner diameter given".to_string())
-    } else {
-        match p.size? {
-            SizeSpec::InnerDiameter { id_m } => (id_m, "bore written in Size".to_string()),
-            SizeSpec::OdWall { od_m, wall_m } => {
-                if 2.0 * wall_m >= od_m {
-                    ctx.error(
-                        size_cell,
-                        format!(
-                            "wall {:.2} mm is too thick for OD {:.1} mm",
-                            wall_m * 1e3,
-                            od_m * 1e3
-                        ),
-                        None,
-                    );
-                    return None;
-                }
-                wall = Some(wall_m);
-                (
-                    od_m - 2.0 * wall_m,
-                    "OD and wall written in Size".to_string(),
-                )
-            }
-            SizeSpec::OuterDiameter { od_m } => {
-                match pipe::bore_from_od(p.material, od_m, p.schedule) {
-                    Ok(b) => {
-                        wall = Some(b.wall_m);
-                        (
-                            b.inner_diameter_m,
-                            format!(
-                                "{} OD {:.1} mm {}",
-                                b.standard,
-                                od_m * 1e3,
-                                p.schedule.map(|s| s.label()).unwrap_or_default()
-                            ),
-                        )
-                    }
-                    Err(e) => {
-                        ctx.error(
-                            size_cell,
-                            e.to_string(),
-                            Some("give the bore in an Inner diameter column".into()),
-                        );
-                        return None;
-                    }
-                }
-            }
-            SizeSpec::Dn(_) | SizeSpec::Nps(_) => {
-                let Some(dn) = dn else {
-                    ctx.error(
-                        size_cell,
-                        "size has no DN equivalent in ASME B36.10M".into(),
-                        Some("give the bore in an Inner diameter column".into()),
-                    );
-                    return None;
-                };
-                match pipe::bore(p.material, dn, p.schedule) {
-                    Ok(b) => {
-                        wall = Some(b.wall_m);
-                        let sch = p
-                            .schedule
-                            .or_else(|| pipe::default_schedule(p.material, dn))
-                            .map(|s| s.label())
-                            .unwrap_or_default();
-                        (
-                            b.inner_diameter_m,
-                            format!("{} DN{dn} {sch}", b.standard)
-                                .trim_end()
-                                .to_string(),
-                        )
-                    }
-                    Err(e) => {
-                        ctx.error(size_cell, e.to_string(), Some("check the size and schedule, or give the bore in an Inner diameter column".into()));
-                        return None;
-                    }
-                }
-            }
-        }
-    };
-    let (eps_m, eps_basis) = match p.roughness_m {
-        Some(e) => (e, "Roughness given".to_string()),
-        None => {
-            let r = pipe::roughness(p.material);
-            match p
-                .age_years
-                .and_then(|a| pipe::aged_roughness(p.material, a).map(|e| (a, e)))
-            {
-                Some((a, e)) => (
-                    e,
-                    format!("{} new, aged {a} years (linear growth)", r.source),
-                ),
-                None => (r.epsilon_m, r.source.to_string()),
-            }
-        }
-    };
+    let (d_m, basis, wall_m) = run_bore(ctx, p, dn)?;
+    let (eps_m, eps_basis) = run_roughness(p);
     Some(ResolvedRun {
         dn,
-        nps,
+        nps: dn.and_then(pipe::dn_to_nps),
         key,
         d_m,
-        wall_m: wall,
+        wall_m,
         basis,
         eps_m,
         eps_basis,
     })
 }
 
-/// Compute runs, fittings and line totals; also returns each fitting's model, in the order of
-/// `Audit::fittings`.
-pub fn compute(
-    input: &Input,
-    rules: &Rules,
-) -> Result<(Audit, Vec<FittingModel>), Vec<Diagnostic>> {
+/// A run's bore, where it came from, and its wall where known: the Inner diameter cell, the
+/// bore or OD and wall written in Size, or the bore tables for an OD or a DN/NPS. None when it
+/// has none (an error is recorded unless the row has no size at all).
+fn run_bore(ctx: &mut Ctx<'_>, p: &PipeRow, dn: Option<u16>) -> Option<(f64, String, Option<f64>)> {
+    if let Some(d) = p.inner_diameter_m {
+        return Some((d, "Inner diameter given".to_string(), None));
+    }
+    const BORE_HINT: &str = "give the bore in an Inner diameter column";
+    let looked_up = match p.size? {
+        SizeSpec::InnerDiameter { id_m } => {
+            return Some((id_m, "bore written in Size".to_string(), None));
+        }
+        SizeSpec::OdWall { od_m, wall_m } if 2.0 * wall_m >= od_m => Err((
+            format!(
+                "wall {:.2} mm is too thick for OD {:.1} mm",
+                wall_m * 1e3,
+                od_m * 1e3
+            ),
+            None,
+        )),
+        SizeSpec::OdWall { od_m, wall_m } => {
+            let basis = "OD and wall written in Size".to_string();
+            return Some((od_m - 2.0 * wall_m, basis, Some(wall_m)));
+        }
+        SizeSpec::OuterDiameter { od_m } => pipe::bore_from_od(p.material, od_m, p.schedule)
+            .map(|b| {
+                let sch = p.schedule.map(|s| s.label()).unwrap_or_default();
+                (b, format!("{} OD {:.1} mm {sch}", b.standard, od_m * 1e3))
+            })
+            .map_err(|e| (e.to_string(), Some(BORE_HINT))),
+        SizeSpec::Dn(_) | SizeSpec::Nps(_) => match dn {
+            None => Err((
+                "size has no DN equivalent in ASME B36.10M".to_string(),
+                Some(BORE_HINT),
+            )),
+            Some(dn) => pipe::bore(p.material, dn, p.schedule)
+                .map(|b| {
+                    let sch = p
+                        .schedule
+                        .or_else(|| pipe::default_schedule(p.material, dn))
+                        .map(|s| s.label())
+                        .unwrap_or_default();
+                    let basis = format!("{} DN{dn} {sch}", b.standard);
+                    (b, basis.trim_end().to_string())
+                })
+                .map_err(|e| {
+                    (
+                        e.to_string(),
+                        Some(
+                            "check the size and schedule, or give the bore in an Inner \
+                             diameter column",
+                        ),
+                    )
+                }),
+        },
+    };
+    match looked_up {
+        Ok((b, basis)) => Some((b.inner_diameter_m, basis, Some(b.wall_m))),
+        Err((message, hint)) => {
+            let cell = ctx.cell(TableKind::Pipes, &p.origin.sheet, p.origin.row, "size");
+            ctx.error(cell, message, hint.map(str::to_string));
+            None
+        }
+    }
+}
+
+/// A run's roughness and where it came from: given, else the material's new roughness, aged
+/// when the run's age is given and the material has an ageing rate.
+fn run_roughness(p: &PipeRow) -> (f64, String) {
+    if let Some(e) = p.roughness_m {
+        return (e, "Roughness given".to_string());
+    }
+    let r = pipe::roughness(p.material);
+    match p
+        .age_years
+        .and_then(|a| pipe::aged_roughness(p.material, a).map(|e| (a, e)))
+    {
+        Some((a, e)) => (
+            e,
+            format!("{} new, aged {a} years (linear growth)", r.source),
+        ),
+        None => (r.epsilon_m, r.source.to_string()),
+    }
+}
+
+/// What the placement findings need, gathered while the fittings are placed: indices into
+/// `Input::fittings` and `Audit::runs`. `findings::placement` raises the findings from it, so
+/// the line computation never depends on the findings.
+#[derive(Debug, Default)]
+pub struct Placements {
+    /// Fittings whose size matches no run of their line, with the run they were computed on.
+    pub mismatched: Vec<(usize, usize)>,
+    /// Fittings with no size on a line of several bores, placed by their kind or the list
+    /// order: the run and the reason in words.
+    pub inferred: Vec<(usize, usize, String)>,
+    /// Valves 0 % open on a line that carries flow (left out of the totals).
+    pub closed: Vec<usize>,
+}
+
+/// What [`compute`] gives: the audit's lines, runs and fittings (no findings yet), each
+/// fitting's model and what the placement findings need.
+#[derive(Debug)]
+pub struct Computed {
+    /// Lines, runs, fittings, fluids and kinds used.
+    pub audit: Audit,
+    /// Each fitting's model, in the order of `Audit::fittings`.
+    pub models: Vec<FittingModel>,
+    /// Fittings placed off their size or by inference, and closed valves.
+    pub placements: Placements,
+}
+
+/// Compute runs, fittings and line totals, in four stages: resolve fluids and bores
+/// (`line_states`, `resolve_runs`), hydraulics per run (`hydraulics`), fittings on their runs
+/// (`fittings`) and line totals (`line_totals`).
+///
+/// # Errors
+///
+/// The error diagnostics applying the physics reveals (a size with no bore, a fluid with no
+/// properties, a fitting that cannot be placed or evaluated).
+pub fn compute(input: &Input, rules: &Rules) -> Result<Computed, Vec<Diagnostic>> {
     let mut ctx = Ctx {
         input,
         errors: Vec::new(),
     };
-    let mut fluids_used = Vec::new();
-    let (line_order, states) = line_states(&mut ctx, &mut fluids_used);
+    let mut fluids = Vec::new();
+    let (line_order, states) = line_states(&mut ctx, &mut fluids);
+    let (pipes, resolved) = resolve_runs(&mut ctx, &line_order, &states)?;
+    let (runs_df, runs) = hydraulics(&ctx, &pipes, &resolved, &line_order, &states)?;
+    let on_runs = RunsOfLines::new(input, &pipes, &resolved);
+    let fitted = fittings(&mut ctx, &on_runs, &states)?;
+    let mut lines = line_totals(&ctx, runs_df, &runs, &fitted.results, &line_order, &states)?;
+    let line_index = index_fittings(&mut lines, &fitted.results);
+    let audit = Audit {
+        line_index,
+        lines,
+        runs,
+        fittings: fitted.results,
+        findings: Vec::new(),
+        fluids,
+        kinds_used: fitted.kinds_used,
+        rules: rules.clone(),
+        notes: Vec::new(),
+        energy: Default::default(),
+        systems: Vec::new(),
+    };
+    Ok(Computed {
+        audit,
+        models: fitted.models,
+        placements: fitted.placements,
+    })
+}
 
-    // Runs of each line in sequence order (then row order).
+/// The runs of the lines that have a fluid state, in sequence order (then row order) within
+/// the lines' order, and their bores and roughness.
+fn resolve_runs<'a>(
+    ctx: &mut Ctx<'a>,
+    line_order: &[String],
+    states: &HashMap<String, LineState>,
+) -> Result<(Vec<&'a PipeRow>, Vec<ResolvedRun>), Vec<Diagnostic>> {
+    let input = ctx.input;
     let mut pipes: Vec<&PipeRow> = input
         .pipes
         .iter()
@@ -346,17 +463,23 @@ pub fn compute(
             )
             .then(a.origin.row.cmp(&b.origin.row))
     });
-    let resolved: Vec<Option<ResolvedRun>> =
-        pipes.iter().map(|p| resolve_run(&mut ctx, p)).collect();
-    if !ctx.errors.is_empty() {
-        return Err(ctx.errors);
-    }
-    let resolved: Vec<ResolvedRun> = resolved.into_iter().flatten().collect();
+    let resolved: Vec<Option<ResolvedRun>> = pipes.iter().map(|p| resolve_run(ctx, p)).collect();
+    ctx.check()?;
+    Ok((pipes, resolved.into_iter().flatten().collect()))
+}
 
-    // Vectorised velocity and Reynolds number (polars), then friction per run.
+/// Velocity and Reynolds number of every run, vectorised in polars, then friction per run.
+/// Also returns the runs frame, which the line totals group.
+fn hydraulics(
+    ctx: &Ctx<'_>,
+    pipes: &[&PipeRow],
+    resolved: &[ResolvedRun],
+    line_order: &[String],
+    states: &HashMap<String, LineState>,
+) -> Result<(DataFrame, Vec<RunResult>), Vec<Diagnostic>> {
     let records: Vec<table::RunRecord<'_>> = pipes
         .iter()
-        .zip(&resolved)
+        .zip(resolved)
         .map(|(p, r)| table::RunRecord {
             line: &p.line,
             sheet: &p.origin.sheet,
@@ -377,250 +500,152 @@ pub fn compute(
             }
         })
         .collect();
-    let internal = |e: polars::error::PolarsError| {
-        vec![Diagnostic {
-            severity: Severity::Error,
-            file: input.file.clone(),
-            cell: None,
-            message: format!("internal table error: {e}"),
-            hint: None,
-        }]
-    };
     let runs_df = table::runs_frame(&records)
         .and_then(|r| table::lines_frame(&line_records).and_then(|l| table::run_hydraulics(&r, &l)))
-        .map_err(internal)?;
-    let velocity: Vec<f64> = runs_df
-        .column(table::col::VELOCITY)
-        .and_then(|c| {
-            c.f64()
-                .map(|c| c.iter().map(|v| v.unwrap_or(0.0)).collect())
-        })
-        .map_err(internal)?;
-    let reynolds: Vec<f64> = runs_df
-        .column(table::col::REYNOLDS)
-        .and_then(|c| {
-            c.f64()
-                .map(|c| c.iter().map(|v| v.unwrap_or(0.0)).collect())
-        })
-        .map_err(internal)?;
+        .map_err(|e| ctx.internal(e))?;
+    let velocity = f64_column(&runs_df, table::col::VELOCITY).map_err(|e| ctx.internal(e))?;
+    let reynolds = f64_column(&runs_df, table::col::REYNOLDS).map_err(|e| ctx.internal(e))?;
+    let runs = pipes
+        .iter()
+        .zip(resolved)
+        .enumerate()
+        .map(|(i, (p, r))| run_result(ctx, p, r, &states[&p.line], velocity[i], reynolds[i]))
+        .collect();
+    Ok((runs_df, runs))
+}
 
-    let mut runs = Vec::with_capacity(pipes.len());
-    for (i, (p, r)) in pipes.iter().zip(&resolved).enumerate() {
-        let s = &states[&p.line];
-        let (v, re) = (velocity[i], reynolds[i]);
-        let RunFriction {
-            factor,
-            regime,
-            method,
-            head_m: head,
-        } = run_friction(r.d_m, p.length_m, r.eps_m, p.c_factor, s.flow_m3_s, v, re);
-        runs.push(RunResult {
-            cell: ctx.cell(TableKind::Pipes, &p.origin.sheet, p.origin.row, "line"),
-            line: p.line.clone(),
-            row: p.origin.row,
-            dn: r.dn,
-            bore_basis: r.basis.clone(),
-            inner_diameter_m: r.d_m,
-            length_m: p.length_m,
-            roughness_m: r.eps_m,
-            roughness_basis: r.eps_basis.clone(),
-            flow_m3_s: s.flow_m3_s,
-            velocity_m_s: v,
-            reynolds: re,
-            friction_factor: factor,
-            regime,
-            method,
-            head_m: head,
-            dp_pa: head * s.props.density_kg_m3 * G,
-            c_factor: p.c_factor,
-        });
+/// A column of f64 values, nulls as 0.
+fn f64_column(df: &DataFrame, name: &str) -> PolarsResult<Vec<f64>> {
+    df.column(name).and_then(|c| {
+        c.f64()
+            .map(|c| c.iter().map(|v| v.unwrap_or(0.0)).collect())
+    })
+}
+
+/// One run's result at its line's flow, with velocity and Reynolds number from the frame.
+fn run_result(
+    ctx: &Ctx<'_>,
+    p: &PipeRow,
+    r: &ResolvedRun,
+    s: &LineState,
+    v: f64,
+    re: f64,
+) -> RunResult {
+    let RunFriction {
+        factor,
+        regime,
+        method,
+        head_m: head,
+    } = run_friction(r.d_m, p.length_m, r.eps_m, p.c_factor, s.flow_m3_s, v, re);
+    RunResult {
+        cell: ctx.cell(TableKind::Pipes, &p.origin.sheet, p.origin.row, "line"),
+        line: p.line.clone(),
+        row: p.origin.row,
+        dn: r.dn,
+        bore_basis: r.basis.clone(),
+        inner_diameter_m: r.d_m,
+        length_m: p.length_m,
+        roughness_m: r.eps_m,
+        roughness_basis: r.eps_basis.clone(),
+        flow_m3_s: s.flow_m3_s,
+        velocity_m_s: v,
+        reynolds: re,
+        friction_factor: factor,
+        regime,
+        method,
+        head_m: head,
+        dp_pa: head * s.props.density_kg_m3 * G,
+        c_factor: p.c_factor,
+    }
+}
+
+/// The runs and fittings of each line, indexed once (a scan per fitting is quadratic on large
+/// registers).
+struct RunsOfLines<'a> {
+    /// Runs in line order, then sequence.
+    pipes: &'a [&'a PipeRow],
+    /// Their bores and roughness.
+    resolved: &'a [ResolvedRun],
+    /// Runs of each line, in order (indices into `pipes`).
+    runs: HashMap<&'a str, Vec<usize>>,
+    /// Fittings of each line in list order (indices into `Input::fittings`), for placing
+    /// fittings with no Size.
+    fittings: HashMap<&'a str, Vec<usize>>,
+}
+
+impl<'a> RunsOfLines<'a> {
+    fn new(input: &'a Input, pipes: &'a [&'a PipeRow], resolved: &'a [ResolvedRun]) -> Self {
+        let mut runs: HashMap<&str, Vec<usize>> = HashMap::new();
+        for (i, p) in pipes.iter().enumerate().take(resolved.len()) {
+            runs.entry(p.line.as_str()).or_default().push(i);
+        }
+        let mut fittings: HashMap<&str, Vec<usize>> = HashMap::new();
+        for (i, f) in input.fittings.iter().enumerate() {
+            fittings.entry(f.line.as_str()).or_default().push(i);
+        }
+        RunsOfLines {
+            pipes,
+            resolved,
+            runs,
+            fittings,
+        }
     }
 
-    // Fittings on the run of their line with the same size.
-    let mut fittings = Vec::with_capacity(input.fittings.len());
-    let mut models = Vec::with_capacity(input.fittings.len());
-    let mut kinds_used: Vec<&'static str> = Vec::new();
-    let mut mismatches = Vec::new();
-    let mut closed = Vec::new();
-    // Runs of each line, in order, built once (a scan per fitting is quadratic on large registers).
-    let mut runs_by_line: HashMap<&str, Vec<usize>> = HashMap::new();
-    for (i, p) in pipes.iter().enumerate().take(runs.len()) {
-        runs_by_line.entry(p.line.as_str()).or_default().push(i);
+    /// The runs of a line, in order.
+    fn runs_of(&self, line: &str) -> &[usize] {
+        self.runs.get(line).map_or(&[][..], Vec::as_slice)
     }
-    // Fittings of each line in list order (for placing fittings with no Size).
-    let mut fits_by_line: HashMap<&str, Vec<usize>> = HashMap::new();
-    for (i, f) in input.fittings.iter().enumerate() {
-        fits_by_line.entry(f.line.as_str()).or_default().push(i);
+
+    /// The fittings of a line, in list order.
+    fn fittings_of(&self, line: &str) -> &[usize] {
+        self.fittings.get(line).map_or(&[][..], Vec::as_slice)
     }
-    let mut inferred = Vec::new();
+}
+
+/// The fittings computed, their models and kinds, and what the placement findings need.
+struct Fitted {
+    results: Vec<FittingResult>,
+    models: Vec<FittingModel>,
+    kinds_used: Vec<&'static str>,
+    placements: Placements,
+}
+
+/// Each fitting on the run of its line with the same size, evaluated at the line's flow.
+/// Fittings of lines with no fluid state or no runs are left out; closed valves are left out
+/// of the totals and listed for their finding.
+fn fittings(
+    ctx: &mut Ctx<'_>,
+    on_runs: &RunsOfLines<'_>,
+    states: &HashMap<String, LineState>,
+) -> Result<Fitted, Vec<Diagnostic>> {
+    let input = ctx.input;
+    let mut out = Fitted {
+        results: Vec::with_capacity(input.fittings.len()),
+        models: Vec::with_capacity(input.fittings.len()),
+        kinds_used: Vec::new(),
+        placements: Placements::default(),
+    };
     let mut same_cause = super::same_cause::SameCause::default();
     for (fi, f) in input.fittings.iter().enumerate() {
         let Some(state) = states.get(&f.line) else {
             continue;
         };
-        let line_runs: Vec<usize> = runs_by_line
-            .get(f.line.as_str())
-            .cloned()
-            .unwrap_or_default();
-        let Some(&first) = line_runs.first() else {
+        let Some((run, matched)) = place_fitting(ctx, on_runs, fi, &mut out.placements) else {
             continue;
         };
-        let key = f.size.as_ref().and_then(size_key);
-        let siblings = fits_by_line
-            .get(f.line.as_str())
-            .map_or(&[][..], |v| &v[..]);
-        let matched = match place(&ctx, &resolved, &line_runs, siblings, fi) {
-            Placement::Run(i) => Some(i),
-            Placement::Inferred(i, why) => {
-                inferred.push((f, i, why));
-                Some(i)
-            }
-            Placement::NoMatch => None,
-            Placement::Ambiguous => {
-                let cell = ctx.cell(TableKind::Fittings, &f.origin.sheet, f.origin.row, "size");
-                let sizes = line_sizes(&ctx, &pipes, &resolved, &line_runs);
-                ctx.error(
-                    cell,
-                    format!(
-                        "{} has no Size and line {} has runs of several sizes ({sizes}): it cannot \
-                         be placed on one of them",
-                        fitting_label(f),
-                        f.line
-                    ),
-                    Some(
-                        "write the fitting's Size (or list it after a fitting of known size, in \
-                         flow order)"
-                            .into(),
-                    ),
-                );
-                continue;
-            }
+        let Some(model) = fitting_model(ctx, on_runs, f, run, matched) else {
+            continue;
         };
-        let run = match matched {
-            Some(i) => i,
-            None => {
-                mismatches.push((f, first));
-                first
-            }
-        };
-        let r = &resolved[run];
-        let d_in = match (matched, key) {
-            (None, Some(k)) => bore_of_key(k, pipes[run], r).unwrap_or(r.d_m),
-            _ => r.d_m,
-        };
-        // The wall of the run, when the fitting sits on it (a projecting entrance's t/d).
-        let wall_m = matched.and(r.wall_m);
-        let d_out = f.size_out.as_ref().and_then(|size| {
-            let k = size_key(size)?;
-            Some(
-                run_of_size(&resolved, &line_runs, size)
-                    .map(|i| resolved[i].d_m)
-                    .or_else(|| bore_of_key(k, pipes[run], r)),
-            )
-        });
-        let d_out = match d_out {
-            Some(Some(d)) => Some(d),
-            Some(None) => {
-                let cell = ctx.cell(
-                    TableKind::Fittings,
-                    &f.origin.sheet,
-                    f.origin.row,
-                    "size_out",
-                );
-                ctx.error(
-                    cell,
-                    "the outlet size has no bore on this line and none can be looked up".into(),
-                    Some(
-                        "list a run of that size on the line, or write the outlet as ID in mm"
-                            .into(),
-                    ),
-                );
-                continue;
-            }
-            None => None,
-        };
-        let nps_in = match (matched, key) {
-            (None, Some(SizeKey::Dn(dn))) => pipe::dn_to_nps(dn),
-            _ => r.nps,
-        };
-        let fin = FittingInput {
-            nps_in,
-            d_in_m: d_in,
-            d_out_m: d_out,
-            re_in: 0.0,
-            relative_roughness: r.eps_m / d_in,
-            opening: f.opening,
-            k_given: f.k,
-            kv_given: f.kv,
-            cv_given: f.cv,
-            le_d: f.le_d,
-            bend_radius_d: f.bend_radius_d,
-            angle_deg: f.angle_deg,
-            fouling: f.fouling,
-            beta: f.beta,
-            length_ratio: match f.kind.model {
-                fitting::Model::EntranceProjecting { .. } => wall_m.map(|w| w / d_in),
-                _ => None,
-            },
-            ..FittingInput::default()
-        };
-        let model = FittingModel {
-            kind: f.kind,
-            input: fin,
-            qty: f.qty,
-        };
-        match fitting_at(
-            &model,
-            state.flow_m3_s,
-            state.props.density_kg_m3,
-            state.props.viscosity_pa_s,
-        ) {
-            Ok(FittingHeads {
-                k,
-                velocity_m_s: v,
-                reynolds: re,
-                head_m,
-                head_low_m,
-                head_high_m,
-            }) => {
-                if !kinds_used.contains(&f.kind.id) {
-                    kinds_used.push(f.kind.id);
+        let (rho, mu) = (state.props.density_kg_m3, state.props.viscosity_pa_s);
+        match fitting_at(&model, state.flow_m3_s, rho, mu) {
+            Ok(heads) => {
+                if !out.kinds_used.contains(&f.kind.id) {
+                    out.kinds_used.push(f.kind.id);
                 }
-                fittings.push(FittingResult {
-                    tag: f.tag.clone(),
-                    line: f.line.clone(),
-                    item: f.item.clone(),
-                    kind: f.kind.id,
-                    cell: ctx.cell(TableKind::Fittings, &f.origin.sheet, f.origin.row, "item"),
-                    row: f.origin.row,
-                    qty: f.qty,
-                    k: k.k,
-                    k_low: k.k_low,
-                    k_high: k.k_high,
-                    reference_diameter_m: k.reference_diameter_m,
-                    velocity_m_s: v,
-                    reynolds: re,
-                    head_m,
-                    head_low_m,
-                    head_high_m,
-                    dp_pa: head_m * state.props.density_kg_m3 * G,
-                    model: k.model,
-                    source: k.source,
-                    opening: f.opening,
-                    replacement_cost: f.replacement_cost,
-                    power_loss_w: None,
-                    annual_energy_kwh: None,
-                    annual_cost: None,
-                    annual_co2_kg: None,
-                    rank: None,
-                    rank_uncertain: None,
-                    suggestion: None,
-                    ranking: None,
-                    group: f.kind.group,
-                });
-                models.push(model);
+                out.results.push(fitting_result(ctx, f, heads, rho));
+                out.models.push(model);
             }
-            Err(fitting::FittingError::Closed { .. }) => closed.push(f),
+            Err(FittingError::Closed { .. }) => out.placements.closed.push(fi),
             Err(e) => {
                 let why = e.to_string();
                 if same_cause.repeats(&f.line, &why, ctx.errors.len()) {
@@ -632,76 +657,267 @@ pub fn compute(
         }
     }
     same_cause.fold_into(&mut ctx.errors, "fitting");
-    if !ctx.errors.is_empty() {
-        return Err(ctx.errors);
-    }
+    ctx.check()?;
+    out.kinds_used.sort_unstable();
+    Ok(out)
+}
 
-    // Line totals by polars group-by and join.
-    let fit_df = table::heads_frame(
+/// Place fitting `fi` (an index into `Input::fittings`) on a run of its line: the run and
+/// whether its size matched it (a fitting whose size matches no run goes on the line's first
+/// run). Records inferred and mismatched placements; None when the line has no runs or the
+/// fitting cannot be placed (the error is recorded).
+fn place_fitting(
+    ctx: &mut Ctx<'_>,
+    on_runs: &RunsOfLines<'_>,
+    fi: usize,
+    placements: &mut Placements,
+) -> Option<(usize, bool)> {
+    let input = ctx.input;
+    let f = &input.fittings[fi];
+    let line_runs = on_runs.runs_of(&f.line);
+    let &first = line_runs.first()?;
+    let siblings = on_runs.fittings_of(&f.line);
+    match place(ctx, on_runs.resolved, line_runs, siblings, fi) {
+        Placement::Run(i) => Some((i, true)),
+        Placement::Inferred(i, why) => {
+            placements.inferred.push((fi, i, why));
+            Some((i, true))
+        }
+        Placement::NoMatch => {
+            placements.mismatched.push((fi, first));
+            Some((first, false))
+        }
+        Placement::Ambiguous => {
+            let cell = ctx.cell(TableKind::Fittings, &f.origin.sheet, f.origin.row, "size");
+            let sizes = line_sizes(ctx, on_runs.pipes, on_runs.resolved, line_runs);
+            ctx.error(
+                cell,
+                format!(
+                    "{} has no Size and line {} has runs of several sizes ({sizes}): it cannot \
+                     be placed on one of them",
+                    fitting_label(f),
+                    f.line
+                ),
+                Some(
+                    "write the fitting's Size (or list it after a fitting of known size, in \
+                     flow order)"
+                        .into(),
+                ),
+            );
+            None
+        }
+    }
+}
+
+/// The model of a fitting placed on `run` (`matched`: its size is the run's): its inlet bore
+/// (its own size looked up when it matched no run), outlet bore, and the run's wall and
+/// roughness. None when the outlet has no bore (the error is recorded).
+fn fitting_model(
+    ctx: &mut Ctx<'_>,
+    on_runs: &RunsOfLines<'_>,
+    f: &FittingRow,
+    run: usize,
+    matched: bool,
+) -> Option<FittingModel> {
+    let (p, r) = (on_runs.pipes[run], &on_runs.resolved[run]);
+    let key = f.size.as_ref().and_then(size_key).filter(|_| !matched);
+    let d_in = key.map_or(r.d_m, |k| bore_of_key(k, p, r).unwrap_or(r.d_m));
+    // The wall of the run, when the fitting sits on it (a projecting entrance's t/d).
+    let wall_m = r.wall_m.filter(|_| matched);
+    let d_out = match f
+        .size_out
+        .as_ref()
+        .and_then(|size| outlet_bore(on_runs, f, size, p, r))
+    {
+        Some(Some(d)) => Some(d),
+        Some(None) => {
+            let cell = ctx.cell(
+                TableKind::Fittings,
+                &f.origin.sheet,
+                f.origin.row,
+                "size_out",
+            );
+            ctx.error(
+                cell,
+                "the outlet size has no bore on this line and none can be looked up".into(),
+                Some("list a run of that size on the line, or write the outlet as ID in mm".into()),
+            );
+            return None;
+        }
+        None => None,
+    };
+    let nps_in = match key {
+        Some(SizeKey::Dn(dn)) => pipe::dn_to_nps(dn),
+        _ => r.nps,
+    };
+    let input = FittingInput {
+        nps_in,
+        d_in_m: d_in,
+        d_out_m: d_out,
+        re_in: 0.0,
+        relative_roughness: r.eps_m / d_in,
+        opening: f.opening,
+        k_given: f.k,
+        kv_given: f.kv,
+        cv_given: f.cv,
+        le_d: f.le_d,
+        bend_radius_d: f.bend_radius_d,
+        angle_deg: f.angle_deg,
+        fouling: f.fouling,
+        beta: f.beta,
+        length_ratio: match f.kind.model {
+            fitting::Model::EntranceProjecting { .. } => wall_m.map(|w| w / d_in),
+            _ => None,
+        },
+        ..FittingInput::default()
+    };
+    Some(FittingModel {
+        kind: f.kind,
+        input,
+        qty: f.qty,
+    })
+}
+
+/// The bore of a fitting's written outlet size: `Some(None)` when the size has a key but no
+/// run of the line has it and none can be looked up, `None` when the size has no key.
+fn outlet_bore(
+    on_runs: &RunsOfLines<'_>,
+    f: &FittingRow,
+    size: &SizeSpec,
+    p: &PipeRow,
+    r: &ResolvedRun,
+) -> Option<Option<f64>> {
+    let k = size_key(size)?;
+    Some(
+        run_of_size(on_runs.resolved, on_runs.runs_of(&f.line), size)
+            .map(|i| on_runs.resolved[i].d_m)
+            .or_else(|| bore_of_key(k, p, r)),
+    )
+}
+
+/// One fitting's result from its heads at the line's flow (density `rho`, kg/m³).
+fn fitting_result(ctx: &Ctx<'_>, f: &FittingRow, heads: FittingHeads, rho: f64) -> FittingResult {
+    let FittingHeads {
+        k,
+        velocity_m_s,
+        reynolds,
+        head_m,
+        head_low_m,
+        head_high_m,
+    } = heads;
+    FittingResult {
+        tag: f.tag.clone(),
+        line: f.line.clone(),
+        item: f.item.clone(),
+        kind: f.kind.id,
+        cell: ctx.cell(TableKind::Fittings, &f.origin.sheet, f.origin.row, "item"),
+        row: f.origin.row,
+        qty: f.qty,
+        k: k.k,
+        k_low: k.k_low,
+        k_high: k.k_high,
+        reference_diameter_m: k.reference_diameter_m,
+        velocity_m_s,
+        reynolds,
+        head_m,
+        head_low_m,
+        head_high_m,
+        dp_pa: head_m * rho * G,
+        model: k.model,
+        source: k.source,
+        opening: f.opening,
+        replacement_cost: f.replacement_cost,
+        power_loss_w: None,
+        annual_energy_kwh: None,
+        annual_cost: None,
+        annual_co2_kg: None,
+        rank: None,
+        rank_uncertain: None,
+        suggestion: None,
+        ranking: None,
+        group: f.kind.group,
+    }
+}
+
+/// Line totals by polars group-by and join: friction and length of the runs, the fittings'
+/// heads, the highest velocity; one result per line in the lines' order.
+fn line_totals(
+    ctx: &Ctx<'_>,
+    mut runs_df: DataFrame,
+    runs: &[RunResult],
+    fittings: &[FittingResult],
+    line_order: &[String],
+    states: &HashMap<String, LineState>,
+) -> Result<Vec<LineResult>, Vec<Diagnostic>> {
+    let totals = table::heads_frame(
         fittings.iter().map(|f| f.line.as_str()).collect(),
         fittings.iter().map(|f| f.head_m).collect(),
         fittings.iter().map(|f| f.head_low_m).collect(),
         fittings.iter().map(|f| f.head_high_m).collect(),
-    );
-    let run_heads: Vec<f64> = runs.iter().map(|r| r.head_m).collect();
-    let totals = fit_df
-        .and_then(|fit| {
-            let mut df = runs_df.clone();
-            df.with_column(polars::prelude::Column::new(
-                table::col::HEAD.into(),
-                run_heads,
-            ))?;
-            table::line_totals(&df, &fit)
-        })
-        .map_err(internal)?;
+    )
+    .and_then(|fit| {
+        let run_heads: Vec<f64> = runs.iter().map(|r| r.head_m).collect();
+        runs_df.with_column(Column::new(table::col::HEAD.into(), run_heads))?;
+        table::line_totals(&runs_df, &fit)
+    })
+    .map_err(|e| ctx.internal(e))?;
+    drop(runs_df);
     let totals: HashMap<String, table::LineTotals> = totals.into_iter().collect();
-
     let mut run_index: HashMap<&str, Vec<usize>> = HashMap::new();
     for (i, r) in runs.iter().enumerate() {
         run_index.entry(r.line.as_str()).or_default().push(i);
     }
-    let mut lines = Vec::with_capacity(line_order.len());
-    for l in &line_order {
-        let s = &states[l];
-        let t = totals.get(l).cloned().unwrap_or_default();
-        let total = t.friction_head_m + t.fittings_head_m;
-        lines.push(LineResult {
-            line: l.clone(),
-            service: s.service,
-            row: s.row,
-            sheet: s.row.map(|_| s.sheet.clone()),
-            flow_m3_s: s.flow_m3_s,
-            fluid: s.fluid.clone(),
-            temperature_c: s.temperature_c,
-            density_kg_m3: s.props.density_kg_m3,
-            viscosity_pa_s: s.props.viscosity_pa_s,
-            vapour_pressure_pa: s
-                .props
-                .vapour_pressure_pa
-                .is_finite()
-                .then_some(s.props.vapour_pressure_pa),
-            elevation_change_m: s.elevation_change_m,
-            length_m: t.length_m,
-            friction_head_m: t.friction_head_m,
-            fittings_head_m: t.fittings_head_m,
-            total_head_m: total,
-            total_head_low_m: t.friction_head_m + t.fittings_head_low_m,
-            total_head_high_m: t.friction_head_m + t.fittings_head_high_m,
-            total_dp_pa: total * s.props.density_kg_m3 * G,
-            max_velocity_m_s: t.max_velocity_m_s,
-            runs: run_index.get(l.as_str()).cloned().unwrap_or_default(),
-            fittings: Vec::new(),
-            power_loss_w: None,
-            annual_energy_kwh: None,
-            annual_cost: None,
-            annual_co2_kg: None,
-            efficiency: None,
-            efficiency_basis: "",
-            hours_per_year: None,
-        });
-    }
-    kinds_used.sort_unstable();
+    Ok(line_order
+        .iter()
+        .map(|l| {
+            let t = totals.get(l).cloned().unwrap_or_default();
+            let line_runs = run_index.get(l.as_str()).cloned().unwrap_or_default();
+            line_result(l, &states[l], &t, line_runs)
+        })
+        .collect())
+}
 
+/// One line's result from its fluid state and totals (no fittings indexed yet, no energy).
+fn line_result(l: &str, s: &LineState, t: &table::LineTotals, runs: Vec<usize>) -> LineResult {
+    let total = t.friction_head_m + t.fittings_head_m;
+    LineResult {
+        line: l.to_string(),
+        service: s.service,
+        row: s.row,
+        sheet: s.row.map(|_| s.sheet.clone()),
+        flow_m3_s: s.flow_m3_s,
+        fluid: s.fluid.clone(),
+        temperature_c: s.temperature_c,
+        density_kg_m3: s.props.density_kg_m3,
+        viscosity_pa_s: s.props.viscosity_pa_s,
+        vapour_pressure_pa: s
+            .props
+            .vapour_pressure_pa
+            .is_finite()
+            .then_some(s.props.vapour_pressure_pa),
+        elevation_change_m: s.elevation_change_m,
+        length_m: t.length_m,
+        friction_head_m: t.friction_head_m,
+        fittings_head_m: t.fittings_head_m,
+        total_head_m: total,
+        total_head_low_m: t.friction_head_m + t.fittings_head_low_m,
+        total_head_high_m: t.friction_head_m + t.fittings_head_high_m,
+        total_dp_pa: total * s.props.density_kg_m3 * G,
+        max_velocity_m_s: t.max_velocity_m_s,
+        runs,
+        fittings: Vec::new(),
+        power_loss_w: None,
+        annual_energy_kwh: None,
+        annual_cost: None,
+        annual_co2_kg: None,
+        efficiency: None,
+        efficiency_basis: "",
+        hours_per_year: None,
+    }
+}
+
+/// Index the lines by id and list each line's fittings (in input order) on it.
+fn index_fittings(lines: &mut [LineResult], fittings: &[FittingResult]) -> HashMap<String, usize> {
     let line_index: HashMap<String, usize> = lines
         .iter()
         .enumerate()
@@ -712,29 +928,7 @@ pub fn compute(
             lines[li].fittings.push(i);
         }
     }
-    let mut audit = Audit {
-        line_index,
-        lines,
-        runs,
-        fittings,
-        findings: Vec::new(),
-        fluids: fluids_used,
-        kinds_used,
-        rules: rules.clone(),
-        notes: Vec::new(),
-        energy: Default::default(),
-        systems: Vec::new(),
-    };
-    for (f, run) in mismatches {
-        super::findings::size_mismatch(input, &mut audit, f, run);
-    }
-    for (f, run, why) in inferred {
-        super::findings::size_inferred(input, &mut audit, f, run, &why);
-    }
-    for f in closed {
-        super::findings::closed_valve(input, &mut audit, f);
-    }
-    Ok((audit, models))
+    line_index
 }
 
 /// Where a fitting goes among its line's runs.

@@ -123,8 +123,9 @@ pub struct FittingResult {
     pub rank: Option<usize>,
     /// True when the rank can move by more than a few places across the K band.
     pub rank_uncertain: Option<bool>,
-    /// The lower-loss alternative, when one applies.
-    pub suggestion: Option<energy::Suggestion>,
+    /// The lower-loss alternative, when one applies (boxed: most items have none, and an
+    /// inline suggestion made every result about 170 bytes larger).
+    pub suggestion: Option<Box<energy::Suggestion>>,
     /// Ranking details (share, rank range), filled by the energy review.
     #[serde(skip)]
     pub ranking: Option<energy::Ranking>,
@@ -273,7 +274,12 @@ pub fn run(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
     crate::worker::fault::point(crate::worker::fault::Place::Audit);
     // The fitting models (what re-evaluates an item at another flow or as another kind) live
     // only while the audit runs: on huge registers they are a good share of the memory.
-    let (mut audit, models) = lines::compute(input, rules)?;
+    let lines::Computed {
+        mut audit,
+        models,
+        placements,
+    } = lines::compute(input, rules)?;
+    findings::placement(input, &mut audit, &placements);
     findings::apply(input, rules, &mut audit);
     system::apply(input, rules, &mut audit, &models);
     station::pump_curves(input, rules, &mut audit)?;

@@ -120,7 +120,7 @@ fn cost_at(f: &FittingResult, h: f64) -> Option<f64> {
 }
 
 fn sugg(f: &FittingResult) -> Option<&crate::audit::energy::Suggestion> {
-    f.suggestion.as_ref()
+    f.suggestion.as_deref()
 }
 
 /// The columns of the `Fitting ranking` table, in order.

@@ -193,7 +193,7 @@ fn item(f: &FittingResult, station: (usize, &str), copy: &str, i: usize) -> Wors
         } else {
             RankBasis::HeadLoss
         },
-        suggestion: f.suggestion.clone(),
+        suggestion: f.suggestion.as_deref().cloned(),
         replacement_cost: f.replacement_cost,
         cell: f.cell.clone(),
         copy: copy.to_string(),
