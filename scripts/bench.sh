@@ -10,6 +10,7 @@
 #
 # Usage: scripts/bench.sh [SIZES...]      (default: 2000 20000 60000 lines)
 #        scripts/bench.sh review [STATIONS MIN_LINES MAX_LINES]   (default: 200 20 200)
+#        scripts/bench.sh corpus      (peak memory of every bad-input case, bound 2 GB)
 # Env:   RUNS=3 (alternating runs per size; the median is reported), BENCH_DIR=/tmp/lossledger-bench,
 #        JOBS (review: stations at once, default every core)
 #
@@ -23,6 +24,9 @@ cd "$(dirname "$0")/.."
 if [ "${1:-}" = review ]; then
     shift
     exec "$(dirname "$0")/bench_review.sh" "$@"
+fi
+if [ "${1:-}" = corpus ]; then
+    exec "$(dirname "$0")/bench_corpus.sh"
 fi
 SIZES=("${@:-2000 20000 60000}")
 # shellcheck disable=SC2206

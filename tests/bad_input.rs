@@ -784,7 +784,22 @@ fn check(name: &str, case: &Case) {
     }
 }
 
+/// With `LOSSLEDGER_CORPUS_DIR` set, each case's input and arguments are also written to
+/// `DIR/NAME/` (the file, and `args`, one per line), for `scripts/bench.sh corpus` to measure
+/// each case's peak memory with the release binary.
+fn keep_for_bench(name: &str, case: &Case) -> Result<(), String> {
+    let Some(root) = std::env::var_os("LOSSLEDGER_CORPUS_DIR") else {
+        return Ok(());
+    };
+    let dir = std::path::Path::new(&root).join(name);
+    std::fs::create_dir_all(&dir).map_err(|e| e.to_string())?;
+    std::fs::write(dir.join(case.file), &case.bytes).map_err(|e| e.to_string())?;
+    let args: String = case.args.iter().map(|a| format!("{a}\n")).collect();
+    std::fs::write(dir.join("args"), args).map_err(|e| e.to_string())
+}
+
 fn outcome(name: &str, case: &Case) -> Result<(), String> {
+    keep_for_bench(name, case)?;
     let dir = temp_dir(name);
     let input = dir.join(case.file);
     std::fs::write(&input, &case.bytes).map_err(|e| e.to_string())?;

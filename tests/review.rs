@@ -137,9 +137,15 @@ fn every_station_in_the_review_is_its_own_audit() {
         // (Σ ηᵢEᵢ / ΣEᵢ = η to rounding).
         let (m, sm) = (&alone["systems"][0]["measured"], &f["measured"]);
         assert_eq!(sm["energy_kwh"], m["energy_kwh"], "{name}");
-        assert_eq!(sm["specific_energy_kwh_m3"], m["specific_energy_kwh_m3"], "{name}");
+        assert_eq!(
+            sm["specific_energy_kwh_m3"], m["specific_energy_kwh_m3"],
+            "{name}"
+        );
         let (w, ws) = (m["wire_to_water"].as_f64(), sm["wire_to_water"].as_f64());
-        assert!((w.unwrap() - ws.unwrap()).abs() <= 1e-12, "{name}: {w:?} {ws:?}");
+        assert!(
+            (w.unwrap() - ws.unwrap()).abs() <= 1e-12,
+            "{name}: {w:?} {ws:?}"
+        );
         assert_eq!(sm["lowest_system"], "PS-1", "{name}");
         assert_eq!(row["sha256"], alone["input"]["sha256"]);
         let reviewed =

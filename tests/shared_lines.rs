@@ -194,12 +194,7 @@ fn errors(path: &std::path::Path) -> Vec<(String, String, String)> {
 #[test]
 fn bad_shares_are_errors_at_their_cells_with_a_hint() {
     let cases: [(&str, [Cell; 2], &str, &str); 5] = [
-        (
-            "outside",
-            [n(1.2), n(0.25)],
-            "Systems!E2",
-            "outside 0 to 1",
-        ),
+        ("outside", [n(1.2), n(0.25)], "Systems!E2", "outside 0 to 1"),
         (
             "percent",
             [s("120 %"), Cell::E],

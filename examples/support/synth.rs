@@ -116,10 +116,9 @@ pub fn write(station: &Station, out: &str) -> Result<(usize, usize), XlsxError> 
             let d = f64::from(PUMPED_DN) / 1000.0;
             l.dn = PUMPED_DN;
             l.service = service;
-            l.flow_m3_h = (PUMPED_VELOCITY_M_S * std::f64::consts::PI / 4.0 * d * d * 3600.0
-                * 10.0)
-                .round()
-                / 10.0;
+            l.flow_m3_h =
+                (PUMPED_VELOCITY_M_S * std::f64::consts::PI / 4.0 * d * d * 3600.0 * 10.0).round()
+                    / 10.0;
         }
     }
 
@@ -248,7 +247,10 @@ fn write_system(wb: &mut Workbook, station: &Station, flow_m3_h: f64) -> Result<
     let ws = wb.add_worksheet();
     ws.set_name("Pump curve")?;
     ws.write_string(0, 0, station.label)?;
-    for (c, h) in ["System", "Flow [m3/h]", "Head [m]", "Efficiency"].iter().enumerate() {
+    for (c, h) in ["System", "Flow [m3/h]", "Head [m]", "Efficiency"]
+        .iter()
+        .enumerate()
+    {
         ws.write_string_with_format(HEADER_ROW, c as u16, *h, &bold)?;
     }
     let best = rng.float(0.75, 1.45);

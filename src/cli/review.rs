@@ -225,7 +225,8 @@ fn lowest_wire_to_water(review: &Review, units: UnitSystem, width: Option<usize>
         .filter_map(|r| Some((r.station.as_str(), r.figures.as_ref()?.measured.as_ref()?)))
         .filter(|(_, m)| m.wire_to_water.is_some())
         .collect();
-    let w2w = |m: &crate::review::summary::StationMeasured| m.wire_to_water.unwrap_or(f64::INFINITY);
+    let w2w =
+        |m: &crate::review::summary::StationMeasured| m.wire_to_water.unwrap_or(f64::INFINITY);
     metered.sort_by(|a, b| w2w(a.1).total_cmp(&w2w(b.1)));
     let (energy, factor) = crate::units::header_in("Specific energy [kWh/m3]", units);
     let mut table = TextTable::new(&[
@@ -247,7 +248,10 @@ fn lowest_wire_to_water(review: &Review, units: UnitSystem, width: Option<usize>
     if table.is_empty() {
         return String::new();
     }
-    let mut s = fitted_text("Lowest wire-to-water (metered stations, lowest first):", width);
+    let mut s = fitted_text(
+        "Lowest wire-to-water (metered stations, lowest first):",
+        width,
+    );
     s.push_str(&table.render(width));
     s
 }

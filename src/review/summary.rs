@@ -247,7 +247,11 @@ fn measured(audit: &Audit) -> Option<StationMeasured> {
         outside_preferred: audit
             .systems
             .iter()
-            .filter(|s| s.pump_efficiency.as_ref().is_some_and(|p| p.outside_preferred))
+            .filter(|s| {
+                s.pump_efficiency
+                    .as_ref()
+                    .is_some_and(|p| p.outside_preferred)
+            })
             .count(),
     })
 }

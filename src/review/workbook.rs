@@ -119,7 +119,10 @@ fn measured<T>(
 
 /// The column of `Stations` headed `header`.
 fn station_col(header: &str) -> u16 {
-    STATION_COLS.iter().position(|c| c.header == header).unwrap_or(0) as u16
+    STATION_COLS
+        .iter()
+        .position(|c| c.header == header)
+        .unwrap_or(0) as u16
 }
 
 fn worst_of(
