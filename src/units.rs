@@ -699,6 +699,29 @@ pub fn us_unit(si_label: &str) -> Option<(&'static str, f64)> {
     })
 }
 
+/// A console unit: `shown` (the SI unit as the console prints it) and `si_factor` on SI values
+/// for SI, else the US replacement of `si_label` ([`us_unit`]) and its factor.
+///
+/// # Example
+/// ```
+/// use lossledger::units::{UnitSystem, console_unit};
+/// assert_eq!(console_unit("m3/s", "m³/h", 3600.0, UnitSystem::Si), ("m³/h", 3600.0));
+/// let (gpm, f) = console_unit("m3/s", "m³/h", 3600.0, UnitSystem::Us);
+/// assert_eq!(gpm, "US gpm");
+/// assert!((0.01 * f - 158.503_230_8).abs() < 1e-6); // 0.01 m³/s in US gpm (NIST SP 811)
+/// ```
+pub fn console_unit(
+    si_label: &str,
+    shown: &'static str,
+    si_factor: f64,
+    units: UnitSystem,
+) -> (&'static str, f64) {
+    match (units, us_unit(si_label)) {
+        (UnitSystem::Us, Some(us)) => us,
+        _ => (shown, si_factor),
+    }
+}
+
 /// A header `Name [unit]` in the given units: the new header and the factor on its values.
 pub fn header_in(header: &str, units: UnitSystem) -> (String, f64) {
     if units == UnitSystem::Si {

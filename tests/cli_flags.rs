@@ -14,7 +14,7 @@
 //! | `audit --rules` | `audit_rules_file_tightens_a_velocity_band` |
 //! | `audit --pipes/--fittings/--lines` | `audit_csv_tables_by_flag_read_as_the_same_sheets` |
 //! | `audit --map`, `check --map` | `audit_and_check_map_read_a_sheet_with_other_headers`; a bad map: `ingest_bad::bad_map_file_exits_2` |
-//! | `audit --units us` | `spreadsheet::units_us_converts_the_summary_and_ranking_heads` (workbook), `ingest_bad::warnings_never_block_the_audit` (console) |
+//! | `audit --units us` | `spreadsheet::units_us_converts_the_summary_and_ranking_heads` (workbook), `audit_units_us_converts_the_console_systems_and_ranking` (console) |
 //! | `audit --ranking-rows` | `e2e::ranking_rows_caps_the_ranking_sheet_and_says_what_is_left_out` |
 //! | `audit --max-cells`, `--max-unzipped-mb`, `--max-ratio` | `bad_input::too_many_cells`, `bad_input::cells_under_a_raised_limit`, `bad_input::inflated_sheet_part_over_size_limit`, `bad_input::inflated_sheet_part`, `bad_input::inflated_sheet_part_allowed` |
 //! | `check` | `ingest_bad::each_problem_class_exits_2_with_cell_and_hint_and_writes_nothing` (exit 2), `bad_input::list_rows_skipped_with_their_reasons` (exit 0) |
@@ -588,4 +588,36 @@ fn review_max_cells_leaves_a_station_over_the_limit_out() {
         ran.stderr
     );
     assert_eq!(doc.unwrap()["totals"]["audited"], 1);
+}
+
+/// `audit --units us` prints the systems tables and the ranking's heads in US gpm and ft: each
+/// system's duty flow and required head from the JSON (SI) converted with the exact factors of
+/// NIST SP 811 (1 US gal = 3.785411784e-3 m³, 1 ft = 0.3048 m).
+#[test]
+fn audit_units_us_converts_the_console_systems_and_ranking() {
+    let dir = temp_dir("units-us-console");
+    common::bin::demo(&dir);
+    let (ran, doc) = audit(&dir.join("kestrel-ridge.xlsx"), &["--units", "us"]);
+    assert_eq!(ran.code, Some(0), "{}", ran.stderr);
+    let doc = doc.expect("JSON written");
+    let gpm = 60.0 / 3.785_411_784e-3;
+    for system in doc["systems"].as_array().unwrap() {
+        let name = system["system"].as_str().unwrap();
+        let row = ran
+            .stdout
+            .lines()
+            .find(|l| l.starts_with(name) && l.contains(", "))
+            .unwrap_or_else(|| panic!("no systems row for {name}:\n{}", ran.stdout));
+        let flow = format!("{:.1}", system["flow_m3_s"].as_f64().unwrap() * gpm);
+        let head = format!(
+            "{:.2}",
+            system["required_head_m"].as_f64().unwrap() / 0.3048
+        );
+        assert!(
+            row.contains(&flow) && row.contains(&head),
+            "{row}: {flow} {head}"
+        );
+    }
+    assert!(ran.stdout.contains("US gpm"), "{}", ran.stdout);
+    assert!(!ran.stdout.contains("m³/h"), "{}", ran.stdout);
 }

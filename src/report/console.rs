@@ -130,7 +130,7 @@ pub fn summary_fitted(audit: &Audit, units: UnitSystem, width: Option<usize>) ->
         out.push_str(&t.render(width));
         out.push('\n');
     }
-    out.push_str(&super::ranking::console_energy(audit, width));
+    out.push_str(&super::ranking::console_energy(audit, units, width));
     out.push_str(&format!(
         "Findings: {} error, {} warning, {} info\n",
         audit.count(Severity::Error),

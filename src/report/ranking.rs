@@ -10,7 +10,7 @@ use crate::audit::energy::{OPERATING_POINT_CAUTION, RankBasis, SAVINGS_CAUTION};
 use crate::audit::system::{CurvePoint, Outcome, SystemResult};
 use crate::audit::{Audit, FittingResult};
 use crate::error::quote_sheet;
-use crate::units::header_in;
+use crate::units::{UnitSystem, console_unit, header_in};
 
 /// What the columns of a systems checks table mean (console, Summary).
 pub const CHECKS_KEY: &str = "Has: pump head, or NPSH available with the suction losses at the high end of their K band; Nominal: NPSH available with the nominal losses; Needs: required head, or the NPSH the margin rule asks for.";
@@ -893,10 +893,11 @@ fn write_summary_systems(
 
 /// Console text: annual loss cost, the worst items by cost, and each system's figures, checks
 /// and verdict, fitted to `width` (see [`super::text_table`]).
-pub fn console_energy(audit: &Audit, width: Option<usize>) -> String {
+pub fn console_energy(audit: &Audit, units: UnitSystem, width: Option<usize>) -> String {
     use super::console::fitted_text;
     use super::text_table::{Align::Left, Align::Right, TextTable};
     let cur = &audit.energy.currency;
+    let (hu, fh) = console_unit("m", "m", 1.0, units);
     let mut out = fitted_text(
         &format!(
             "Annual cost of losses: {cur} {:.0} ({:.0} kWh at {cur} {} per kWh; estimates to confirm by field test)",
@@ -910,11 +911,12 @@ pub fn console_energy(audit: &Audit, width: Option<usize>) -> String {
     if !items.is_empty() {
         let per_year = format!("Cost\n{cur}/yr");
         let saving = format!("Saving\n{cur}/yr");
+        let head = format!("Head\n{hu}");
         let mut t = TextTable::new(&[
             ("Rank", Right),
             ("Fitting", Left),
             ("Line", Left),
-            ("Head\nm", Right),
+            (&head, Right),
             (&per_year, Right),
             ("Rank\nholds", Left),
             ("Suggestion", Left),
@@ -930,7 +932,7 @@ pub fn console_energy(audit: &Audit, width: Option<usize>) -> String {
                 f.rank.map(|r| r.to_string()).unwrap_or_default(),
                 label(f),
                 f.line.clone(),
-                format!("{:.3}", f.head_m),
+                format!("{:.3}", f.head_m * fh),
                 f.annual_cost
                     .map(|c| format!("{c:.0}"))
                     .unwrap_or_else(|| "—".into()),
@@ -959,7 +961,7 @@ pub fn console_energy(audit: &Audit, width: Option<usize>) -> String {
         out.push('\n');
     }
     if !audit.systems.is_empty() {
-        out.push_str(&console_systems(audit, width));
+        out.push_str(&console_systems(audit, units, width));
     }
     out
 }
@@ -996,37 +998,44 @@ pub fn suggestion_text(s: &crate::audit::energy::Suggestion, mark: &str) -> Stri
 
 /// Console systems block: figures, every check with its pass/fail, the verdicts, the defaults
 /// that fed NPSH and the screening caution.
-fn console_systems(audit: &Audit, width: Option<usize>) -> String {
+fn console_systems(audit: &Audit, units: UnitSystem, width: Option<usize>) -> String {
     use super::console::fitted_text;
     use super::text_table::{Align::Left, Align::Right, TextTable};
-    let f2 = |v: Option<f64>| v.map(|x| format!("{x:.2}")).unwrap_or_else(|| "—".into());
+    let (qu, fq) = console_unit("m3/s", "m³/h", 3600.0, units);
+    let (hu, fh) = console_unit("m", "m", 1.0, units);
+    let f2 = |v: Option<f64>| {
+        v.map(|x| format!("{:.2}", x * fh))
+            .unwrap_or_else(|| "—".into())
+    };
+    let head = |name: &str| format!("{name}\n{hu}");
+    let (flow, at) = (format!("Duty\n{qu}"), format!("At\n{qu}"));
     let mut out = String::new();
     let mut t = TextTable::new(&[
         ("System", Left),
-        ("Duty\nm³/h", Right),
-        ("Static\nm", Right),
-        ("Losses\nm", Right),
-        ("Required\nm", Right),
-        ("Pump\nm", Right),
-        ("Margin\nm", Right),
+        (&flow, Right),
+        (&head("Static"), Right),
+        (&head("Losses"), Right),
+        (&head("Required"), Right),
+        (&head("Pump"), Right),
+        (&head("Margin"), Right),
         ("Operating\npoint", Left),
         ("Lines", Left),
     ]);
     for s in &audit.systems {
         t.row(vec![
             s.system.clone(),
-            format!("{:.1}", m3h(s.flow_m3_s)),
+            format!("{:.1}", s.flow_m3_s * fq),
             if s.static_head_given {
-                format!("{:.2}", s.static_head_m)
+                format!("{:.2}", s.static_head_m * fh)
             } else {
                 "none".into()
             },
-            format!("{:.2}", s.losses_head_m),
-            format!("{:.2}", s.required_head_m),
+            f2(Some(s.losses_head_m)),
+            f2(Some(s.required_head_m)),
             f2(s.pump_head_m),
             f2(s.margin_m),
             s.operating_point
-                .map(|p| format!("{:.1} m³/h at {:.2} m", m3h(p.flow_m3_s), p.head_m))
+                .map(|p| format!("{:.1} {qu} at {:.2} {hu}", p.flow_m3_s * fq, p.head_m * fh))
                 .unwrap_or_else(|| "—".into()),
             s.lines.join(", "),
         ]);
@@ -1036,10 +1045,10 @@ fn console_systems(audit: &Audit, width: Option<usize>) -> String {
     let mut t = TextTable::new(&[
         ("System", Left),
         ("Check", Left),
-        ("At\nm³/h", Right),
-        ("Has\nm", Right),
-        ("Nominal\nm", Right),
-        ("Needs\nm", Right),
+        (&at, Right),
+        (&head("Has"), Right),
+        (&head("Nominal"), Right),
+        (&head("Needs"), Right),
         ("Result", Left),
         ("Note", Left),
     ]);
@@ -1048,9 +1057,11 @@ fn console_systems(audit: &Audit, width: Option<usize>) -> String {
             t.row(vec![
                 s.system.clone(),
                 c.check.to_string(),
-                format!("{:.1}", m3h(c.flow_m3_s)),
+                format!("{:.1}", c.flow_m3_s * fq),
                 f2(c.available_m),
-                c.nominal_m.map(|x| format!("{x:.2}")).unwrap_or_default(),
+                c.nominal_m
+                    .map(|x| format!("{:.2}", x * fh))
+                    .unwrap_or_default(),
                 f2(c.needed_m),
                 c.outcome.label().to_string(),
                 c.note.clone(),
@@ -1071,7 +1082,7 @@ fn console_systems(audit: &Audit, width: Option<usize>) -> String {
         out.push_str(&fitted_text(&line, width));
     }
     for s in &audit.systems {
-        let line = super::station::console_line(s, &audit.energy.currency);
+        let line = super::station::console_line(s, &audit.energy.currency, units);
         out.push_str(&fitted_text(&line, width));
     }
     out.push_str(&fitted_text(SYSTEMS_CAUTION, width));

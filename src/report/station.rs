@@ -5,6 +5,7 @@ use crate::audit::Rules;
 use crate::audit::station::STATION_CAUTION;
 use crate::audit::station::TestResult;
 use crate::audit::system::SystemResult;
+use crate::units::{UnitSystem, console_unit};
 
 use rust_xlsxwriter::{Worksheet, XlsxError};
 
@@ -351,32 +352,35 @@ pub(crate) fn write_summary_station(
 }
 
 /// One sentence per system for the console: control, piping share, measured wire-to-water,
-/// best-efficiency flow and the savings with their case.
-pub fn console_line(s: &SystemResult, cur: &str) -> String {
+/// best-efficiency flow and the savings with their case, in `units`.
+pub fn console_line(s: &SystemResult, cur: &str, units: UnitSystem) -> String {
+    let (qu, fq) = console_unit("m3/s", "m3/h", 3600.0, units);
+    let (hu, fh) = console_unit("m", "m", 1.0, units);
+    let (eu, fe) = console_unit("kWh/m3", "kWh/m3", 1.0, units);
     let mut parts = vec![format!("control {} ({})", s.control.id(), s.control_basis)];
     if let Some(x) = s.loss_share {
         parts.push(format!("piping {} of the head", pct(x)));
     }
     if let Some(m) = s.measured {
         parts.push(format!(
-            "metered {:.4} kWh/m3, wire-to-water {}",
-            m.specific_energy_kwh_m3,
+            "metered {:.4} {eu}, wire-to-water {}",
+            m.specific_energy_kwh_m3 * fe,
             pct(m.wire_to_water)
         ));
     }
     if let Some(t) = s.test {
         parts.push(format!(
-            "test {:.1} m3/h at {:.2} m, wire-to-water {}, computed head there {:.2} m",
-            m3h(t.point.flow_m3_s),
-            t.point.head_m,
+            "test {:.1} {qu} at {:.2} {hu}, wire-to-water {}, computed head there {:.2} {hu}",
+            t.point.flow_m3_s * fq,
+            t.point.head_m * fh,
             pct(t.wire_to_water),
-            t.computed_head_m
+            t.computed_head_m * fh
         ));
     }
     if let Some(p) = s.pump_efficiency {
         parts.push(format!(
-            "best efficiency {:.1} m3/h, duty at {:.0} %{}",
-            m3h(p.best.flow_m3_s),
+            "best efficiency {:.1} {qu}, duty at {:.0} %{}",
+            p.best.flow_m3_s * fq,
             p.duty_ratio * 100.0,
             if p.outside_preferred {
                 " (outside 70–120 %)"
