@@ -5,17 +5,22 @@ use super::book::{Cell, Sheet, n, s};
 
 /// The smallest valid station: one line, one run, an elbow and a gate valve.
 ///
+/// The Lines sheet of both small stations: line `L1`, pump discharge, 50 m³/h. Invented.
+fn lines_sheet() -> Sheet {
+    Sheet::new(
+        "Lines",
+        vec![
+            vec![s("Line"), s("Service"), s("Flow [m3/h]")],
+            vec![s("L1"), s("pump-discharge"), n(50.0)],
+        ],
+    )
+}
+
 /// Lines: A Line, B Service, C Flow [m3/h]. Pipes: A Line, B Seq, C Size, D Schedule, E Material,
 /// F Length [m]. Fittings: A Tag, B Line, C Item, D Size, E Size out, F Qty, G Opening [%], H K.
 pub fn base_station() -> Vec<Sheet> {
     vec![
-        Sheet::new(
-            "Lines",
-            vec![
-                vec![s("Line"), s("Service"), s("Flow [m3/h]")],
-                vec![s("L1"), s("pump-discharge"), n(50.0)],
-            ],
-        ),
+        lines_sheet(),
         Sheet::new(
             "Pipes",
             vec![
@@ -68,13 +73,7 @@ pub fn base_station() -> Vec<Sheet> {
 /// Qty, Unit) with its Lines sheet. Invented.
 pub fn list_station() -> Vec<Sheet> {
     vec![
-        Sheet::new(
-            "Lines",
-            vec![
-                vec![s("Line"), s("Service"), s("Flow [m3/h]")],
-                vec![s("L1"), s("pump-discharge"), n(50.0)],
-            ],
-        ),
+        lines_sheet(),
         Sheet::new(
             "BoQ",
             vec![
