@@ -590,6 +590,9 @@ fn run_job(job: &AuditJob) -> Result<audit::Audit, u8> {
     };
     progress.set_message("writing the annotated workbook");
     let prepared = job.prepare(&input, &done).map_err(written_or)?;
+    // The input (every cell and row read) is not needed to save: free it before the save's
+    // own peak (docs/reliability.md, memory).
+    drop(input);
     progress.set_message("saving the workbook");
     let written = prepared.save().map_err(written_or)?;
     progress.finish_and_clear();

@@ -335,11 +335,13 @@ impl AuditJob {
     }
 
     /// Refuse outputs that would land on an input, then build every sheet of the annotated
-    /// workbook (the input copies wait in temporary files until [`Prepared::save`]).
+    /// workbook (the input copies wait in temporary files until [`Prepared::save`]) and the
+    /// JSON when asked.
     ///
     /// # Errors
     /// [`WriteError::WouldOverwrite`] when the workbook or the JSON would overwrite an input;
-    /// [`WriteError::Book`] when the workbook cannot be built.
+    /// [`WriteError::Book`] when the workbook cannot be built; [`WriteError::Json`] when the JSON
+    /// cannot.
     ///
     /// # Example
     /// ```
@@ -358,11 +360,7 @@ impl AuditJob {
     /// std::fs::remove_dir_all(&dir)?;
     /// # Ok::<(), Box<dyn std::error::Error>>(())
     /// ```
-    pub fn prepare<'a>(
-        &'a self,
-        input: &'a Input,
-        audit: &'a Audit,
-    ) -> Result<Prepared<'a>, WriteError> {
+    pub fn prepare(&self, input: &Input, audit: &Audit) -> Result<Prepared<'_>, WriteError> {
         self.check_outputs(input)
             .map_err(WriteError::WouldOverwrite)?;
         crate::worker::enter(
@@ -371,11 +369,16 @@ impl AuditJob {
         );
         let book = crate::report::workbook::prepare(input, audit, &self.book)
             .map_err(|source| WriteError::Book { source })?;
+        let json = self
+            .json
+            .as_ref()
+            .map(|_| crate::report::json::to_string(input, audit))
+            .transpose()
+            .map_err(|source| WriteError::Json { source })?;
         Ok(Prepared {
             job: self,
-            input,
-            audit,
             book,
+            json,
         })
     }
 
@@ -397,29 +400,29 @@ impl AuditJob {
     }
 }
 
-/// An annotated workbook built and waiting to be saved ([`AuditJob::prepare`]).
+/// An annotated workbook built and waiting to be saved, with its JSON when asked
+/// ([`AuditJob::prepare`]). It holds nothing of the input or the audit: a caller short of
+/// memory may drop them before [`Prepared::save`].
 pub struct Prepared<'a> {
     job: &'a AuditJob,
-    input: &'a Input,
-    audit: &'a Audit,
     book: rust_xlsxwriter::Workbook,
+    json: Option<String>,
 }
 
 impl Prepared<'_> {
-    /// Save the workbook straight into a temporary file beside its target, build and stage the
-    /// JSON, then rename both into place: an error never leaves output.
+    /// Save the workbook straight into a temporary file beside its target, stage the JSON, then
+    /// rename both into place: an error never leaves output.
     ///
     /// # Errors
-    /// [`WriteError::Book`] or [`WriteError::Json`] when an output cannot be assembled (ours);
+    /// [`WriteError::Book`] when the workbook cannot be assembled (ours);
     /// [`WriteError::Output`] when it cannot be written (the disk's), nothing left behind;
     /// [`WriteError::JsonNotCommitted`] when the workbook was renamed into place and the JSON
     /// could not be.
     pub fn save(self) -> Result<Written, WriteError> {
         let Prepared {
             job,
-            input,
-            audit,
             mut book,
+            json,
         } = self;
         let staged_book =
             crate::report::stage_book(&job.output, &mut book).map_err(|e| match e {
@@ -427,12 +430,6 @@ impl Prepared<'_> {
                 source => WriteError::Output { source },
             })?;
         drop(book);
-        let json = job
-            .json
-            .as_ref()
-            .map(|_| crate::report::json::to_string(input, audit))
-            .transpose()
-            .map_err(|source| WriteError::Json { source })?;
         let staged_json = match (job.json_file(), &json) {
             (Some(path), Some(text)) => Some(
                 crate::report::stage(path, text.as_bytes())
