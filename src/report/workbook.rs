@@ -569,9 +569,11 @@ pub(crate) fn copy_plain(
 /// shown by `lossledger check`).
 const MAX_CLASSIFIED: usize = 5_000;
 
-/// Cell notes written per sheet at most; beyond this the cells are still filled by severity and
-/// every finding is listed in Findings (a note per cell makes huge registers slow to open).
-pub const MAX_NOTES_PER_SHEET: usize = 10_000;
+/// Cell notes written per sheet at most, in row order; beyond this the cells are still filled by
+/// severity and every finding is listed in Findings with its cell. A note costs the writer about
+/// 9 kB until the file is saved (measured, docs/reliability.md), and a sheet with thousands of
+/// notes is slow to open and no easier to read than Findings.
+pub const MAX_NOTES_PER_SHEET: usize = 2_000;
 
 /// A formula that evaluates to an error value, for error cells that had no formula of their own.
 fn error_formula(e: &calamine::CellErrorType) -> &'static str {
