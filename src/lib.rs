@@ -15,6 +15,7 @@ pub mod physics;
 pub mod pipeline;
 pub mod report;
 pub mod review;
+pub mod sentence;
 pub mod table;
 pub mod template;
 pub mod units;

@@ -10,6 +10,7 @@ use common::book::{Sheet, s, texts, xlsx};
 use common::dirs::{entries, temp_dir};
 use common::facts::G;
 use common::readback::{open, read_json};
+use common::tol::REL_TOL_SIX_FIGURES;
 use std::path::PathBuf;
 
 #[test]
@@ -140,7 +141,10 @@ fn demo_audit_keeps_every_input_cell_and_matches_json() {
         };
         let j = l["total_head_m"].as_f64().unwrap();
         // The workbook shows six significant figures; the JSON keeps full precision.
-        assert!((v - j).abs() <= 5e-6 * j.abs(), "workbook {v} vs JSON {j}");
+        assert!(
+            (v - j).abs() <= REL_TOL_SIX_FIGURES * j.abs(),
+            "workbook {v} vs JSON {j}"
+        );
         assert!(v.to_string().trim_start_matches(['-', '0', '.']).len() <= 7);
     }
     let codes: Vec<&str> = doc["findings"]

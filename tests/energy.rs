@@ -12,7 +12,7 @@ mod common;
 use common::book::{Cell, book, n, s};
 use common::facts::G;
 use common::library::audit;
-use common::tol::rel;
+use common::tol::{REL_TOL_EXACT, REL_TOL_SAME_ARITHMETIC, rel};
 
 // Source: docs/energy.md, worked example 1 (hand-worked, step by step).
 #[test]
@@ -24,13 +24,28 @@ fn energy_arithmetic_matches_the_hand_worked_example() {
         kg_co2_per_kwh: 0.4,
     };
     let dp = 998.2 * G * 4.0;
-    assert!(rel(dp, 39_155.992_12) < 1e-9, "Δp {dp}");
+    assert!(rel(dp, 39_155.992_12) < REL_TOL_SAME_ARITHMETIC, "Δp {dp}");
     let e = loss_energy(39_155.992_12, 0.05, &basis).unwrap();
-    assert!(rel(e.power_loss_w, 1_957.799_606) < 1e-9, "{e:?}");
-    assert!(rel(e.electrical_power_w, 2_796.856_580) < 1e-9, "{e:?}");
-    assert!(rel(e.annual_energy_kwh, 13_984.282_90) < 1e-9, "{e:?}");
-    assert!(rel(e.annual_cost, 1_678.113_948) < 1e-9, "{e:?}");
-    assert!(rel(e.annual_co2_kg, 5_593.713_160) < 1e-9, "{e:?}");
+    assert!(
+        rel(e.power_loss_w, 1_957.799_606) < REL_TOL_SAME_ARITHMETIC,
+        "{e:?}"
+    );
+    assert!(
+        rel(e.electrical_power_w, 2_796.856_580) < REL_TOL_SAME_ARITHMETIC,
+        "{e:?}"
+    );
+    assert!(
+        rel(e.annual_energy_kwh, 13_984.282_90) < REL_TOL_SAME_ARITHMETIC,
+        "{e:?}"
+    );
+    assert!(
+        rel(e.annual_cost, 1_678.113_948) < REL_TOL_SAME_ARITHMETIC,
+        "{e:?}"
+    );
+    assert!(
+        rel(e.annual_co2_kg, 5_593.713_160) < REL_TOL_SAME_ARITHMETIC,
+        "{e:?}"
+    );
 }
 
 #[test]
@@ -126,14 +141,14 @@ fn efficiency_and_hours_come_from_lines_then_systems_then_rules() {
     };
     let (ca, cb, cc) = (cost("A"), cost("B"), cost("C"));
     assert!(
-        rel(ca / cc, (0.65 / 0.50) * (1000.0 / 4000.0)) < 1e-12,
+        rel(ca / cc, (0.65 / 0.50) * (1000.0 / 4000.0)) < REL_TOL_EXACT,
         "{ca} {cc}"
     );
     assert!(
-        rel(cb / cc, (0.65 / 0.80) * (1000.0 / 4000.0)) < 1e-12,
+        rel(cb / cc, (0.65 / 0.80) * (1000.0 / 4000.0)) < REL_TOL_EXACT,
         "{cb} {cc}"
     );
-    assert!(rel(a.energy.total_annual_cost, ca + cb + cc) < 1e-12);
+    assert!(rel(a.energy.total_annual_cost, ca + cb + cc) < REL_TOL_EXACT);
 }
 
 #[test]
@@ -211,13 +226,13 @@ fn ties_share_a_rank_and_shares_add_up() {
     ]);
     let ranks: Vec<usize> = r.iter().map(|x| x.rank).collect();
     assert_eq!(ranks, vec![2, 1, 2, 4]);
-    assert!(rel(r[1].share, 300.0 / 550.0) < 1e-12);
+    assert!(rel(r[1].share, 300.0 / 550.0) < REL_TOL_EXACT);
     assert!(
-        rel(r[3].cumulative_share, 1.0) < 1e-12,
+        rel(r[3].cumulative_share, 1.0) < REL_TOL_EXACT,
         "the last item closes the cumulative share"
     );
     assert!(
-        rel(r[2].cumulative_share, 500.0 / 550.0) < 1e-12,
+        rel(r[2].cumulative_share, 500.0 / 550.0) < REL_TOL_EXACT,
         "ties are taken in input order"
     );
 }
@@ -233,7 +248,7 @@ fn items_without_energy_data_rank_after_by_head() {
     assert_eq!(r[0].basis, RankBasis::HeadLoss);
     assert_eq!(r[1].basis, RankBasis::AnnualCost);
     assert!(
-        rel(r[2].share, 7.0 / 12.0) < 1e-12,
+        rel(r[2].share, 7.0 / 12.0) < REL_TOL_EXACT,
         "head items share their own total"
     );
 }
@@ -422,7 +437,7 @@ fn standard_elbows_get_long_radius_with_payback_and_long_radius_gets_nothing() {
     assert!(s.k_after < e1.k);
     let saving = s.annual_saving.unwrap();
     assert!(saving > 0.0 && saving < e1.annual_cost.unwrap());
-    assert!(rel(s.payback_years.unwrap(), 400.0 / saving) < 1e-12);
+    assert!(rel(s.payback_years.unwrap(), 400.0 / saving) < REL_TOL_EXACT);
     let e2 = a.fittings.iter().find(|x| x.tag == "E2").unwrap();
     assert!(e2.suggestion.is_none());
 }

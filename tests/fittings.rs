@@ -13,7 +13,7 @@ use proptest::prelude::*;
 
 mod common;
 use common::csv::{keyed, num};
-use common::tol::rel;
+use common::tol::{REL_TOL_EXACT, REL_TOL_SAME_ARITHMETIC, rel};
 
 const KFACTOR: &str = include_str!(concat!(
     env!("CARGO_MANIFEST_DIR"),
@@ -307,7 +307,7 @@ fn borda_carnot_closed_form_and_smaller_bore_rule() {
         let got = evaluate(kind("expansion"), &inp).unwrap();
         let area_ratio: f64 = (d2 / d1) * (d2 / d1);
         let k_large = (area_ratio - 1.0).powi(2);
-        assert!(rel(got.k, k_large / (area_ratio * area_ratio)) < 1e-12);
+        assert!(rel(got.k, k_large / (area_ratio * area_ratio)) < REL_TOL_EXACT);
         assert_eq!(
             got.reference_diameter_m, d1,
             "expansion refers to the inlet (smaller) bore"
@@ -363,7 +363,7 @@ fn borda_carnot_closed_form_and_smaller_bore_rule() {
         },
     )
     .unwrap();
-    assert!(rel(g.k, kv_to_k(50.0, 0.05)) < 1e-12);
+    assert!(rel(g.k, kv_to_k(50.0, 0.05)) < REL_TOL_EXACT);
 }
 
 #[test]
@@ -547,7 +547,11 @@ fn partly_open_valves_pass_through_handbook_points() {
             },
         )
         .unwrap();
-        assert!(rel(got.k, want) < 1e-9, "{id} at {h}: {} vs {want}", got.k);
+        assert!(
+            rel(got.k, want) < REL_TOL_SAME_ARITHMETIC,
+            "{id} at {h}: {} vs {want}",
+            got.k
+        );
         assert!(
             got.k_low <= 0.6 * got.k + 1e-12 && got.k_high >= 1.6 * got.k - 1e-12,
             "wide band"
@@ -574,7 +578,7 @@ fn given_kv_scaled_by_inherent_characteristic() {
     .unwrap()
     .k;
     assert!(
-        rel(eq / full, 50.0) < 1e-9,
+        rel(eq / full, 50.0) < REL_TOL_SAME_ARITHMETIC,
         "default equal percentage R = 50: {}",
         eq / full
     );
@@ -588,7 +592,7 @@ fn given_kv_scaled_by_inherent_characteristic() {
     )
     .unwrap()
     .k;
-    assert!(rel(lin / full, 4.0) < 1e-9);
+    assert!(rel(lin / full, 4.0) < REL_TOL_SAME_ARITHMETIC);
     let e = evaluate(
         kind("given"),
         &FittingInput {

@@ -16,7 +16,7 @@ use proptest::prelude::*;
 mod common;
 use common::csv::numbers;
 use common::facts::G;
-use common::tol::rel;
+use common::tol::{REL_TOL_SAME_ARITHMETIC, rel};
 
 const COLEBROOK_CSV: &str = include_str!(concat!(
     env!("CARGO_MANIFEST_DIR"),
@@ -104,15 +104,15 @@ fn transition_interpolates_between_endpoints() {
         assert!(rel(hi.factor, f4000) < 1e-8, "eD={ed} {hi:?} ref={f4000}");
         let at = darcy_friction(RE_TURBULENT_MIN, ed);
         assert_eq!(at.regime, Regime::Turbulent);
-        assert!(rel(at.factor, f4000) < 1e-9);
+        assert!(rel(at.factor, f4000) < REL_TOL_SAME_ARITHMETIC);
         // Linear in Re: the midpoint is the mean of the endpoint values.
         let mid = darcy_friction(3000.0, ed);
         assert!(
-            rel(mid.factor, 0.5 * (0.032 + f4000)) < 1e-9,
+            rel(mid.factor, 0.5 * (0.032 + f4000)) < REL_TOL_SAME_ARITHMETIC,
             "eD={ed} {mid:?}"
         );
         let quarter = darcy_friction(2500.0, ed);
-        assert!(rel(quarter.factor, 0.75 * 0.032 + 0.25 * f4000) < 1e-9);
+        assert!(rel(quarter.factor, 0.75 * 0.032 + 0.25 * f4000) < REL_TOL_SAME_ARITHMETIC);
     }
 }
 
@@ -140,7 +140,10 @@ fn fully_turbulent_is_the_high_re_limit_of_fluids_colebrook() {
         assert!(rel(f, f12) < 2e-5, "eD={ed} f={f} ref={f12}");
         assert!(f <= f12 * (1.0 + 1e-12), "eD={ed}");
         // Our own Colebrook solve tends to the same limit.
-        assert!(rel(colebrook(1e12, ed), f12) < 1e-9, "eD={ed}");
+        assert!(
+            rel(colebrook(1e12, ed), f12) < REL_TOL_SAME_ARITHMETIC,
+            "eD={ed}"
+        );
         assert_eq!(colebrook(f64::INFINITY, ed), f);
     }
 }

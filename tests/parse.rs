@@ -4,6 +4,9 @@
 //! digits, e.g. "1-1/2" = 1.5) and from the inch definition 1 in = 25.4 mm exactly
 //! (NIST SP 811 B.8) for sizes written in inches.
 
+mod common;
+use common::tol::REL_TOL_EXACT;
+
 use approx::assert_relative_eq;
 use lossledger::ingest::parse::{
     CellNumber, NumberError, SizeError, SizeSpec, SizeUnit, looks_decimal_comma, parse_number_text,
@@ -25,14 +28,14 @@ fn value(text: &str, decimal_comma: bool) -> (f64, Option<String>, bool, bool) {
 
 fn num(text: &str, decimal_comma: bool, expected: f64) {
     let (v, unit, percent, _) = value(text, decimal_comma);
-    assert_relative_eq!(v, expected, max_relative = 1e-12);
+    assert_relative_eq!(v, expected, max_relative = REL_TOL_EXACT);
     assert_eq!(unit, None, "{text:?}");
     assert!(!percent, "{text:?}");
 }
 
 fn with_unit(text: &str, expected: f64, unit: &str) {
     let (v, u, percent, converted) = value(text, false);
-    assert_relative_eq!(v, expected, max_relative = 1e-12);
+    assert_relative_eq!(v, expected, max_relative = REL_TOL_EXACT);
     assert_eq!(u.as_deref(), Some(unit), "{text:?}");
     assert!(!percent, "{text:?}");
     assert!(converted, "{text:?}");
@@ -146,7 +149,7 @@ fn cell_units_feed_parse_unit() {
         let (v, unit, _, _) = value(text, false);
         let unit = unit.unwrap_or_else(|| panic!("{text:?}: no unit"));
         let u = parse_unit(&unit, *q).unwrap_or_else(|| panic!("{text:?}: unit {unit:?}"));
-        assert_relative_eq!(u.to_si(v), *si, max_relative = 1e-12);
+        assert_relative_eq!(u.to_si(v), *si, max_relative = REL_TOL_EXACT);
     }
 }
 
@@ -298,7 +301,9 @@ fn nps_notations() {
 
 fn assert_od(spec: SizeSpec, od: f64, text: &str) {
     match spec {
-        SizeSpec::OuterDiameter { od_m } => assert_relative_eq!(od_m, od, max_relative = 1e-12),
+        SizeSpec::OuterDiameter { od_m } => {
+            assert_relative_eq!(od_m, od, max_relative = REL_TOL_EXACT)
+        }
         other => panic!("{text:?} gave {other:?}"),
     }
 }
@@ -335,8 +340,8 @@ fn od_by_wall_notations() {
     ] {
         match size(t, None) {
             SizeSpec::OdWall { od_m, wall_m } => {
-                assert_relative_eq!(od_m, 0.1143, max_relative = 1e-12);
-                assert_relative_eq!(wall_m, 0.00602, max_relative = 1e-12);
+                assert_relative_eq!(od_m, 0.1143, max_relative = REL_TOL_EXACT);
+                assert_relative_eq!(wall_m, 0.00602, max_relative = REL_TOL_EXACT);
             }
             other => panic!("{t:?} gave {other:?}"),
         }
@@ -354,7 +359,7 @@ fn inner_diameter_notations() {
     ] {
         match size(t, None) {
             SizeSpec::InnerDiameter { id_m } => {
-                assert_relative_eq!(id_m, 0.1023, max_relative = 1e-12)
+                assert_relative_eq!(id_m, 0.1023, max_relative = REL_TOL_EXACT)
             }
             other => panic!("{t:?} gave {other:?}"),
         }

@@ -11,6 +11,7 @@ use lossledger::physics::pipe::{
 
 mod common;
 use common::csv::rows;
+use common::tol::REL_TOL_EXACT;
 
 const ASME_CSV: &str = include_str!(concat!(
     env!("CARGO_MANIFEST_DIR"),
@@ -639,7 +640,7 @@ fn roughness_against_fluids() {
     assert_relative_eq!(
         eps(Material::DuctileIron),
         v.expect("v"),
-        max_relative = 1e-12
+        max_relative = REL_TOL_EXACT
     );
     // Commercial steel: Moody 1944 0.00015 ft = 0.046 mm (from memory; not in fluids' table).
     assert_relative_eq!(eps(Material::CarbonSteel), 0.046e-3, max_relative = 0.01);

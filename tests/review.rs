@@ -10,6 +10,7 @@ use calamine::{Data, Reader};
 use common::bin::{Ran, Runs, bin};
 use common::dirs::{entries, temp_dir};
 use common::readback::{open, read_json};
+use common::tol::REL_TOL_SIX_FIGURES;
 use serde_json::Value;
 use std::path::{Path, PathBuf};
 
@@ -360,7 +361,7 @@ fn default_output_json_on_stdout_and_basis() {
     for (c, row) in costs.iter().zip(r["stations"].as_array().unwrap()) {
         let j = row["figures"]["annual_cost"].as_f64().unwrap();
         // Six significant figures in the workbook (report::style::shown).
-        assert!((c - j).abs() <= 5e-6 * j, "{c} {j}");
+        assert!((c - j).abs() <= REL_TOL_SIX_FIGURES * j, "{c} {j}");
     }
     let zip = zip::ZipArchive::new(std::fs::File::open(root.join("review.xlsx")).unwrap()).unwrap();
     let charts = zip

@@ -185,3 +185,99 @@ fn units_us_converts_the_summary_and_ranking_heads() {
         );
     }
 }
+
+/// The figures in a message: (value, half a unit in its last decimal, unit) for each number
+/// followed by one of `units`. Gradients (`m per 100 m`) are ratios and left out.
+fn figures(message: &str, units: &[&str]) -> Vec<(f64, f64, String)> {
+    let message = message
+        .replace("m per 100 m", "m-per-100-m")
+        .replace("ft per 100 ft", "ft-per-100-ft");
+    let alternatives: Vec<String> = units.iter().map(|u| regex::escape(u)).collect();
+    let re = regex::Regex::new(&format!(
+        r"(-?\d+(?:\.\d+)?) ({})(?:[ ,;:)]|$)",
+        alternatives.join("|")
+    ))
+    .unwrap();
+    re.captures_iter(&message)
+        .map(|c| {
+            let decimals = c[1].split_once('.').map_or(0, |(_, d)| d.len());
+            let half = 0.5 * 10f64.powi(-(decimals as i32));
+            (c[1].parse().unwrap(), half, c[2].to_string())
+        })
+        .collect()
+}
+
+/// The Findings sheet's messages (column F), in row order.
+fn messages(book: &mut Xlsx<std::io::BufReader<std::fs::File>>) -> Vec<String> {
+    let sheet = book.worksheet_range("Findings").unwrap();
+    (1..sheet.height())
+        .filter_map(|r| match sheet.get((r, 5)) {
+            Some(Data::String(s)) => Some(s.clone()),
+            _ => None,
+        })
+        .collect()
+}
+
+/// `--units us` writes the figures of the finding messages in ft, ft/s and US gpm (each the SI
+/// figure converted, to the decimals shown), while the JSON's messages stay SI.
+#[test]
+fn units_us_writes_the_finding_messages_in_us_units() {
+    let dir = temp_dir("messages");
+    let (si, us) = (
+        messages(&mut demo_audited(&dir, "si")),
+        messages(&mut demo_audited(&dir, "us")),
+    );
+    assert_eq!(si.len(), us.len());
+    let (si_units, us_units) = (["m/s", "m3/h", "m"], ["ft/s", "US gpm", "ft"]);
+    let mut converted = 0;
+    for (a, b) in si.iter().zip(&us) {
+        let (fa, fb) = (figures(a, &si_units), figures(b, &us_units));
+        assert_eq!(fa.len(), fb.len(), "{a}\n{b}");
+        assert!(figures(b, &si_units).is_empty(), "SI figure left in: {b}");
+        for ((x, hx, ux), (y, hy, uy)) in fa.iter().zip(&fb) {
+            let factor = match ux.as_str() {
+                "m3/h" => GPM_PER_M3H,
+                _ => FT_PER_M,
+            };
+            assert_eq!(us_units[si_units.iter().position(|u| u == ux).unwrap()], uy);
+            // Each side is rounded once: half a unit in the SI figure's last decimal, scaled,
+            // plus half a unit in the US figure's.
+            let slack = hx * factor + hy;
+            assert!((x * factor - y).abs() <= slack, "{x} {ux} vs {y} {uy}: {a}");
+            converted += 1;
+        }
+    }
+    assert!(
+        converted >= 3,
+        "the demo's findings hold only {converted} figures"
+    );
+    let json = dir.join("audit-us.json");
+    let out = bin()
+        .arg("audit")
+        .arg(dir.join("kestrel-ridge.xlsx"))
+        .args(["--units", "us", "-o"])
+        .arg(dir.join("audit-us-json.xlsx"))
+        .arg("--json")
+        .arg(&json)
+        .ran();
+    assert_eq!(out.code, Some(0), "{}", out.stderr);
+    let json = common::readback::read_json(&json);
+    let json_messages: Vec<&str> = json["findings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .filter_map(|f| f["message"].as_str())
+        .collect();
+    assert_eq!(json_messages.len(), si.len());
+    for m in &json_messages {
+        assert!(
+            figures(m, &us_units).is_empty(),
+            "JSON message not in SI: {m}"
+        );
+    }
+    let si_figures: usize = json_messages
+        .iter()
+        .map(|m| figures(m, &si_units).len())
+        .sum();
+    assert_eq!(si_figures, converted, "the JSON's messages lost figures");
+}

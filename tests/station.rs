@@ -20,7 +20,7 @@ mod common;
 use common::book::{Cell, Table, book, n, s};
 use common::facts::G;
 use common::library::audit;
-use common::tol::rel;
+use common::tol::{REL_TOL_EXACT, REL_TOL_SAME_ARITHMETIC, rel};
 
 fn fixture_density(t: f64) -> f64 {
     let text = std::fs::read_to_string(concat!(
@@ -63,12 +63,18 @@ const RHO20: f64 = 998.206_092_467_947_7;
 fn metered_specific_energy_and_wire_to_water_match_the_hand_worked_example() {
     assert_eq!(fixture_density(20.0), RHO20);
     let e_min = minimum_specific_energy(RHO20);
-    assert!(rel(e_min, 0.002_719_182_715_750_222) < 1e-9, "{e_min}");
+    assert!(
+        rel(e_min, 0.002_719_182_715_750_222) < REL_TOL_SAME_ARITHMETIC,
+        "{e_min}"
+    );
     let se = specific_energy(236_500.0, 1_050_000.0).unwrap();
-    assert!(rel(se, 0.225_238_095_238_095_24) < 1e-9);
-    assert!(rel(se / 48.6, 0.004_634_528_708_602_782) < 1e-9);
+    assert!(rel(se, 0.225_238_095_238_095_24) < REL_TOL_SAME_ARITHMETIC);
+    assert!(rel(se / 48.6, 0.004_634_528_708_602_782) < REL_TOL_SAME_ARITHMETIC);
     let w = wire_to_water(RHO20, 48.6, se).unwrap();
-    assert!(rel(w, 0.586_722_596_129_952_7) < 1e-9, "{w}");
+    assert!(
+        rel(w, 0.586_722_596_129_952_7) < REL_TOL_SAME_ARITHMETIC,
+        "{w}"
+    );
 }
 
 // The theoretical minimum is ρ g / 3.6e6 (definition of potential energy; 1 kWh = 3.6 MJ):
@@ -76,7 +82,7 @@ fn metered_specific_energy_and_wire_to_water_match_the_hand_worked_example() {
 // 20 °C with ρ from the water model, cross-checked against the iapws fixture.
 #[test]
 fn theoretical_minimum_is_rho_g_over_3_6e6_at_the_station_temperature() {
-    assert!(rel(minimum_specific_energy(1000.0), 0.002_724_069_444_444_444) < 1e-12);
+    assert!(rel(minimum_specific_energy(1000.0), 0.002_724_069_444_444_444) < REL_TOL_EXACT);
     for t in [12.0, 20.0] {
         let a = audit(
             &station_book(&format!("min-{t}"), t, &[], vec![], None),
@@ -90,7 +96,7 @@ fn theoretical_minimum_is_rho_g_over_3_6e6_at_the_station_temperature() {
             rel(
                 s.minimum_specific_energy_kwh_m3_m,
                 a.lines[0].density_kg_m3 * G / 3.6e6
-            ) < 1e-12
+            ) < REL_TOL_EXACT
         );
         assert!(rel(s.minimum_specific_energy_kwh_m3_m, rho_fixture * G / 3.6e6) < 1e-4);
     }
@@ -104,17 +110,29 @@ fn speed_saving_by_the_affinity_laws_matches_the_hand_worked_example() {
     let q = 0.05;
     let r0 = speed_ratio(&pump, q, 25.0).unwrap();
     let r1 = speed_ratio(&pump, q, 21.0).unwrap();
-    assert!(rel(r0, 1.0) < 1e-9, "{r0}");
-    assert!(rel(r1, 0.930_517_071_548_012_7) < 1e-9, "{r1}");
+    assert!(rel(r0, 1.0) < REL_TOL_SAME_ARITHMETIC, "{r0}");
+    assert!(
+        rel(r1, 0.930_517_071_548_012_7) < REL_TOL_SAME_ARITHMETIC,
+        "{r1}"
+    );
     let e0 = interpolate(&eff, q / r0).unwrap();
     let e1 = interpolate(&eff, q / r1).unwrap();
-    assert!(rel(e0, 0.766_666_666_666_666_7) < 1e-9);
-    assert!(rel(e1, 0.779_111_884_953_813_1) < 1e-9, "{e1}");
+    assert!(rel(e0, 0.766_666_666_666_666_7) < REL_TOL_SAME_ARITHMETIC);
+    assert!(
+        rel(e1, 0.779_111_884_953_813_1) < REL_TOL_SAME_ARITHMETIC,
+        "{e1}"
+    );
     let p0 = input_power_w(RHO20, q, 25.0, e0 * 0.92);
     let p1 = input_power_w(RHO20, q, 21.0, e1 * 0.92);
-    assert!(rel(p0, 17_348.282_921_846_876) < 1e-9, "{p0}");
-    assert!(rel(p1, 14_339.781_509_470_491) < 1e-9, "{p1}");
-    assert!(rel((p0 - p1) * 4000.0 / 1000.0, 12_034.005_649_505_54) < 1e-9);
+    assert!(
+        rel(p0, 17_348.282_921_846_876) < REL_TOL_SAME_ARITHMETIC,
+        "{p0}"
+    );
+    assert!(
+        rel(p1, 14_339.781_509_470_491) < REL_TOL_SAME_ARITHMETIC,
+        "{p1}"
+    );
+    assert!(rel((p0 - p1) * 4000.0 / 1000.0, 12_034.005_649_505_54) < REL_TOL_SAME_ARITHMETIC);
     // The cube law alone (P ∝ r³) ignores the static head and overstates the saving.
     assert!(p0 * (1.0 - r1.powi(3)) > 1.1 * (p0 - p1));
 }
@@ -124,16 +142,19 @@ fn speed_saving_by_the_affinity_laws_matches_the_hand_worked_example() {
 fn fixed_speed_operating_point_with_the_loss_removed_matches_the_hand_worked_example() {
     let (pump, eff) = example_pump();
     let before = resolved_point(&pump, |q| 15.0 + 4000.0 * q * q, 0.0, 0.05).unwrap();
-    assert!(rel(before.flow_m3_s, 0.05) < 1e-9);
+    assert!(rel(before.flow_m3_s, 0.05) < REL_TOL_SAME_ARITHMETIC);
     let after = resolved_point(&pump, |q| 15.0 + 4000.0 * q * q, 4.0, 0.05).unwrap();
     assert!(
-        rel(after.flow_m3_s, 0.058_679_954_823_269_126) < 1e-9,
+        rel(after.flow_m3_s, 0.058_679_954_823_269_126) < REL_TOL_SAME_ARITHMETIC,
         "{after:?}"
     );
-    assert!(rel(after.head_m, 23.264_009_035_346_177) < 1e-9);
+    assert!(rel(after.head_m, 23.264_009_035_346_177) < REL_TOL_SAME_ARITHMETIC);
     let e = interpolate(&eff, after.flow_m3_s).unwrap();
     let p = input_power_w(RHO20, after.flow_m3_s, after.head_m, e * 0.92);
-    assert!(rel(p, 18_257.138_109_242_092) < 1e-9, "{p}");
+    assert!(
+        rel(p, 18_257.138_109_242_092) < REL_TOL_SAME_ARITHMETIC,
+        "{p}"
+    );
 }
 
 // Source: docs/energy.md, worked example 6 (hand-worked): the vertex of the symmetric three
@@ -142,14 +163,14 @@ fn fixed_speed_operating_point_with_the_loss_removed_matches_the_hand_worked_exa
 fn best_efficiency_point_and_present_value_match_the_hand_worked_example() {
     let (pump, eff) = example_pump();
     let b = best_efficiency(&eff, &pump).unwrap();
-    assert!(rel(b.flow_m3_s, 0.06) < 1e-12 && rel(b.head_m, 23.0) < 1e-12);
-    assert!(rel(b.efficiency, 0.8) < 1e-12);
-    assert!(rel(present_value(1.0, 15.0, 0.05), 10.379_658_038_180_6) < 1e-9);
+    assert!(rel(b.flow_m3_s, 0.06) < REL_TOL_EXACT && rel(b.head_m, 23.0) < REL_TOL_EXACT);
+    assert!(rel(b.efficiency, 0.8) < REL_TOL_EXACT);
+    assert!(rel(present_value(1.0, 15.0, 0.05), 10.379_658_038_180_6) < REL_TOL_SAME_ARITHMETIC);
     assert!(
         rel(
             present_value(1805.1, 15.0, 0.05),
             1805.1 * 10.379_658_038_180_6
-        ) < 1e-9
+        ) < REL_TOL_SAME_ARITHMETIC
     );
 }
 
@@ -254,7 +275,7 @@ fn the_curve_efficiency_at_the_operating_point_replaces_the_flat_default() {
     let op = s.operating_point.expect("curves cross");
     assert_eq!(pe.flow_m3_s, op.flow_m3_s);
     let eta = interpolate(&s.efficiency_curve, op.flow_m3_s).unwrap();
-    assert!(rel(pe.wire_to_water.unwrap(), eta * 0.92) < 1e-12);
+    assert!(rel(pe.wire_to_water.unwrap(), eta * 0.92) < REL_TOL_EXACT);
     for l in &a.lines {
         assert_eq!(l.efficiency, pe.wire_to_water);
         assert_eq!(l.efficiency_basis, CURVE_BASIS);
@@ -331,7 +352,7 @@ fn speed_control_saves_at_once_with_the_affinity_laws() {
         s.required_head_m - v.head_saving_m,
     )
     .unwrap();
-    assert!(rel(sp.speed_ratio_after, r1) < 1e-12);
+    assert!(rel(sp.speed_ratio_after, r1) < REL_TOL_EXACT);
     assert!(sp.speed_ratio_after < sp.speed_ratio_before && sp.power_after_w < sp.power_before_w);
     assert!(sp.efficiency_from_curve);
     let fittings: Vec<_> = a
@@ -345,7 +366,7 @@ fn speed_control_saves_at_once_with_the_affinity_laws() {
         assert!(!x.saving_conditional && x.resolved_flow_m3_s.is_none());
     }
     let total: f64 = fittings.iter().map(|x| x.head_saving_m).sum();
-    assert!(rel(v.head_saving_m, total) < 1e-12);
+    assert!(rel(v.head_saving_m, total) < REL_TOL_EXACT);
 }
 
 #[test]
@@ -387,13 +408,13 @@ fn throttled_counts_the_valve_and_present_values_follow_the_life_cycle_rules() {
     let v = s.savings.as_ref().unwrap();
     let valve = a.fittings.iter().find(|f| f.tag == "D1-CV").unwrap();
     let vs = valve.suggestion.as_ref().unwrap();
-    assert!(rel(v.throttling_head_m, vs.head_saving_m) < 1e-12);
+    assert!(rel(v.throttling_head_m, vs.head_saving_m) < REL_TOL_EXACT);
     assert!(v.note.contains("throttling valves"));
     assert_eq!(vs.saving_case, Some(SavingCase::Throttled));
     // Uniform-series present worth, 15 years at 5 % (rules defaults): 10.3796580381806.
     let pv = vs.present_value.unwrap();
-    assert!(rel(pv, vs.annual_saving.unwrap() * 10.379_658_038_180_6) < 1e-9);
-    assert!(rel(vs.net_present_value.unwrap(), pv - 8000.0) < 1e-12);
+    assert!(rel(pv, vs.annual_saving.unwrap() * 10.379_658_038_180_6) < REL_TOL_SAME_ARITHMETIC);
+    assert!(rel(vs.net_present_value.unwrap(), pv - 8000.0) < REL_TOL_EXACT);
     let mut rules = Rules::default();
     rules.life_cycle.discount_rate = 0.0;
     rules.life_cycle.years = 10.0;
@@ -415,7 +436,7 @@ fn throttled_counts_the_valve_and_present_values_follow_the_life_cycle_rules() {
         .suggestion
         .clone()
         .unwrap();
-    assert!(rel(bs.present_value.unwrap(), 10.0 * bs.annual_saving.unwrap()) < 1e-12);
+    assert!(rel(bs.present_value.unwrap(), 10.0 * bs.annual_saving.unwrap()) < REL_TOL_EXACT);
 }
 
 fn metered(name: &str, energy: f64, volume: f64) -> PathBuf {
@@ -437,7 +458,7 @@ fn metered_figures_give_wire_to_water_and_low_wire_to_water_follows_its_rule() {
     let s = &a.systems[0];
     let m = s.measured.expect("metered figures given");
     let expect = s.minimum_specific_energy_kwh_m3_m * s.required_head_m / (100_000.0 / 720_000.0);
-    assert!(rel(m.wire_to_water, expect) < 1e-12);
+    assert!(rel(m.wire_to_water, expect) < REL_TOL_EXACT);
     assert!(m.wire_to_water > 0.55, "{m:?}");
     assert!(!a.findings.iter().any(|f| f.code == "low-wire-to-water"));
     let b = audit(
@@ -461,7 +482,7 @@ fn loss_share_high_follows_its_rule() {
     let path = station_book("share", 20.0, &[], vec![], None);
     let a = audit(&path, &Rules::default());
     let s = &a.systems[0];
-    assert!(rel(s.loss_share.unwrap(), s.losses_head_m / s.required_head_m) < 1e-12);
+    assert!(rel(s.loss_share.unwrap(), s.losses_head_m / s.required_head_m) < REL_TOL_EXACT);
     assert!(a.findings.iter().any(|f| f.code == "loss-share-high"));
     let mut rules = Rules::default();
     rules.station.max_loss_share = 0.9;
@@ -493,8 +514,8 @@ fn a_test_point_gives_its_figures_and_measured_vs_computed_follows_its_tolerance
         rel(t.wire_to_water, RHO20 * G * q * 31.0 / 25_000.0) < 1e-4,
         "{t:?}"
     );
-    assert!(rel(t.specific_energy_kwh_m3, 25.0 / 170.0) < 1e-12);
-    assert!(rel(t.point.flow_m3_s, q) < 1e-12);
+    assert!(rel(t.specific_energy_kwh_m3, 25.0 / 170.0) < REL_TOL_EXACT);
+    assert!(rel(t.point.flow_m3_s, q) < REL_TOL_EXACT);
     // The computed head at 170 m³/h lies between the static head and the duty head.
     assert!(t.computed_head_m > 12.0 && t.computed_head_m < s.required_head_m);
     let near = t.head_difference_m.abs() <= 0.1 * t.computed_head_m;
@@ -538,7 +559,10 @@ fn test_pressures_give_the_head() {
     let a = audit(&path, &Rules::default());
     let t = a.systems[0].test.unwrap();
     let rho = a.lines[0].density_kg_m3;
-    assert!(rel(t.point.head_m, 300_000.0 / (rho * G)) < 1e-12, "{t:?}");
+    assert!(
+        rel(t.point.head_m, 300_000.0 / (rho * G)) < REL_TOL_EXACT,
+        "{t:?}"
+    );
 }
 
 #[test]
@@ -711,22 +735,24 @@ fn aliased_headers_with_their_units_read_through_an_audit() {
     let s = &a.systems[0];
     assert_eq!(s.control, Control::Speed);
     let m = s.measured.unwrap();
-    assert!(rel(m.energy_kwh, 100_000.0) < 1e-12 && rel(m.volume_m3, 720_000.0) < 1e-12);
+    assert!(
+        rel(m.energy_kwh, 100_000.0) < REL_TOL_EXACT && rel(m.volume_m3, 720_000.0) < REL_TOL_EXACT
+    );
     let t = s.test.unwrap();
-    assert!(rel(t.point.flow_m3_s, 0.05) < 1e-12);
-    assert!(rel(t.point.head_m, 30.48) < 1e-12);
-    assert!(rel(t.power_w, 30.0 * 745.699_871_582_270_2) < 1e-12);
+    assert!(rel(t.point.flow_m3_s, 0.05) < REL_TOL_EXACT);
+    assert!(rel(t.point.head_m, 30.48) < REL_TOL_EXACT);
+    assert!(rel(t.power_w, 30.0 * 745.699_871_582_270_2) < REL_TOL_EXACT);
     // Shaft power points give the pump efficiency ρ g Q H / P: at 180 m³/h, 33 m, 40 kW.
     let e180 = s
         .efficiency_curve
         .iter()
-        .find(|p| rel(p.flow_m3_s, 0.05) < 1e-12)
+        .find(|p| rel(p.flow_m3_s, 0.05) < REL_TOL_EXACT)
         .unwrap();
     assert!(
         rel(
             e180.head_m,
             a.lines[0].density_kg_m3 * G * 0.05 * 33.0 / 40_000.0
-        ) < 1e-12
+        ) < REL_TOL_EXACT
     );
 }
 

@@ -11,7 +11,7 @@ mod common;
 use common::book::{Cell, Table, book, n, s};
 use common::facts::G;
 use common::library::audit;
-use common::tol::rel;
+use common::tol::{REL_TOL_EXACT, REL_TOL_SAME_ARITHMETIC, rel};
 
 fn two_line_book(name: &str) -> PathBuf {
     book(
@@ -55,14 +55,14 @@ fn two_line_book(name: &str) -> PathBuf {
 fn two_line_system_matches_the_hand_worked_example() {
     let a = audit(&two_line_book("two-line"), &Rules::default());
     let line = |id: &str| a.lines.iter().find(|l| l.line == id).unwrap();
-    assert!(rel(line("S1").friction_head_m, 0.098_355_661_767_8) < 1e-9);
-    assert!(rel(line("S1").fittings_head_m, 0.041_327_541_471_3) < 1e-9);
-    assert!(rel(line("D1").friction_head_m, 7.986_030_844_55) < 1e-9);
-    assert!(rel(line("D1").fittings_head_m, 1.306_154_397_12) < 1e-9);
+    assert!(rel(line("S1").friction_head_m, 0.098_355_661_767_8) < REL_TOL_SAME_ARITHMETIC);
+    assert!(rel(line("S1").fittings_head_m, 0.041_327_541_471_3) < REL_TOL_SAME_ARITHMETIC);
+    assert!(rel(line("D1").friction_head_m, 7.986_030_844_55) < REL_TOL_SAME_ARITHMETIC);
+    assert!(rel(line("D1").fittings_head_m, 1.306_154_397_12) < REL_TOL_SAME_ARITHMETIC);
     let s = &a.systems[0];
     assert_eq!(s.lines, vec!["S1", "D1"]);
     assert!(
-        rel(s.required_head_m, 21.431_868_444_9) < 1e-9,
+        rel(s.required_head_m, 21.431_868_444_9) < REL_TOL_SAME_ARITHMETIC,
         "{}",
         s.required_head_m
     );
@@ -82,12 +82,12 @@ fn two_line_system_matches_the_hand_worked_example() {
     let duty = s
         .curve
         .iter()
-        .find(|p| rel(p.flow_m3_s, s.flow_m3_s) < 1e-12)
+        .find(|p| rel(p.flow_m3_s, s.flow_m3_s) < REL_TOL_EXACT)
         .unwrap();
-    assert!(rel(duty.head_m, s.required_head_m) < 1e-12);
+    assert!(rel(duty.head_m, s.required_head_m) < REL_TOL_EXACT);
     assert_eq!(s.curve[0].head_m, 12.0);
     assert_eq!(s.curve.len(), 14);
-    assert!(rel(s.curve[13].flow_m3_s, 1.3 * s.flow_m3_s) < 1e-12);
+    assert!(rel(s.curve[13].flow_m3_s, 1.3 * s.flow_m3_s) < REL_TOL_EXACT);
 }
 
 // A viscous liquid (Fluids sheet) turbulent at duty (Re 6000) and laminar at 10 % (Re 600).
@@ -140,7 +140,7 @@ fn system_curve_recomputes_friction_per_flow_across_a_regime_change() {
     let v10 = 0.1 * v_duty;
     let hagen_poiseuille = 32.0 * mu * l * v10 / (rho * G * d * d);
     assert!(
-        rel(p10.head_m - 5.0, hagen_poiseuille) < 1e-9,
+        rel(p10.head_m - 5.0, hagen_poiseuille) < REL_TOL_SAME_ARITHMETIC,
         "{} vs {hagen_poiseuille}",
         p10.head_m - 5.0
     );
@@ -173,8 +173,12 @@ fn operating_point_is_the_intersection() {
     ];
     let op = operating_point(&pump, |q| 10.0 + 5000.0 * q * q).unwrap();
     let q = (-2000.0 + (2000.0f64 * 2000.0 + 4.0 * 5000.0 * 30.0).sqrt()) / (2.0 * 5000.0);
-    assert!(rel(op.flow_m3_s, q) < 1e-9, "{} vs {q}", op.flow_m3_s);
-    assert!(rel(op.head_m, 10.0 + 5000.0 * q * q) < 1e-9);
+    assert!(
+        rel(op.flow_m3_s, q) < REL_TOL_SAME_ARITHMETIC,
+        "{} vs {q}",
+        op.flow_m3_s
+    );
+    assert!(rel(op.head_m, 10.0 + 5000.0 * q * q) < REL_TOL_SAME_ARITHMETIC);
     assert!(
         operating_point(&pump, |_| 50.0).is_none(),
         "no crossing above the shut-off head"
@@ -219,7 +223,7 @@ fn a_pump_curve_sheet_gives_the_pump_head_and_the_operating_point() {
         "suction lines come first when the order is taken from Lines"
     );
     // 144 m3/h lies 44 % of the way from 100 to 200 m3/h: 28 − 0.44 × 8 = 24.48 m (linear interpolation).
-    assert!(rel(s.pump_head_m.unwrap(), 24.48) < 1e-12);
+    assert!(rel(s.pump_head_m.unwrap(), 24.48) < REL_TOL_EXACT);
     let op = s.operating_point.expect("the curves cross");
     assert!(
         op.flow_m3_s > s.flow_m3_s,
@@ -257,17 +261,17 @@ fn npsh_available_at_two_temperatures_matches_the_worked_example() {
         rel(
             npsh_available(101_325.0, pv20, rho20, 2.0, 0.5),
             11.611_880_784_8
-        ) < 1e-9
+        ) < REL_TOL_SAME_ARITHMETIC
     );
     assert!(
         rel(
             npsh_available(101_325.0, pv80, rho80, 2.0, 0.5),
             7.156_824_718_51
-        ) < 1e-9
+        ) < REL_TOL_SAME_ARITHMETIC
     );
     // Margin rule: max(1.1 × 6.0, 6.0 + 0.6) = 6.6 m (docs/energy.md §5).
-    assert!(rel(npsh_needed(6.0, 1.1, 0.6), 6.6) < 1e-12);
-    assert!(rel(npsh_needed(10.0, 1.1, 0.6), 11.0) < 1e-12);
+    assert!(rel(npsh_needed(6.0, 1.1, 0.6), 6.6) < REL_TOL_EXACT);
+    assert!(rel(npsh_needed(10.0, 1.1, 0.6), 11.0) < REL_TOL_EXACT);
 }
 
 fn npsh_book(name: &str, t: f64, npshr: f64, level: f64) -> PathBuf {
@@ -548,7 +552,7 @@ fn npsh_at_the_operating_point_with_high_band_suction_losses_matches_worked_exam
         Some(3.0),
         "NPSHr from the Pump curve at 144 m3/h"
     );
-    assert!(rel(duty.needed_m.unwrap(), 3.6) < 1e-12);
+    assert!(rel(duty.needed_m.unwrap(), 3.6) < REL_TOL_EXACT);
     let at = s.npsh_at_operating_point.as_ref().unwrap();
     assert!(rel(at.flow_m3_s, 0.05) < TOL);
     assert!(rel(at.suction_losses_m, 0.213_262_553_706_234) < TOL);
@@ -622,7 +626,7 @@ fn site_elevation_column_at_0_and_1500_m_uses_the_standard_atmosphere() {
     let p = |a: &lossledger::audit::Audit| a.systems[0].npsh_terms.unwrap().source_pressure_pa;
     assert_eq!(p(&sea), atmosphere_fixture(0.0));
     assert!(
-        rel(p(&high), atmosphere_fixture(1500.0)) < 1e-9,
+        rel(p(&high), atmosphere_fixture(1500.0)) < REL_TOL_SAME_ARITHMETIC,
         "{}",
         p(&high)
     );
@@ -660,7 +664,11 @@ fn site_elevation_column_at_0_and_1500_m_uses_the_standard_atmosphere() {
                 .available_m,
         ),
     ] {
-        assert!(rel(a - b, drop) < 1e-9, "{} vs {drop}", a - b);
+        assert!(
+            rel(a - b, drop) < REL_TOL_SAME_ARITHMETIC,
+            "{} vs {drop}",
+            a - b
+        );
     }
 }
 
@@ -729,10 +737,10 @@ fn npsh_required_on_the_pump_curve_reads_aliases_and_units() {
         &Rules::default(),
     );
     let s = &a.systems[0];
-    assert!(rel(s.npsh_required_m.unwrap(), 3.0) < 1e-12);
+    assert!(rel(s.npsh_required_m.unwrap(), 3.0) < REL_TOL_EXACT);
     let at = s.npsh_at_operating_point.as_ref().unwrap();
     assert!(
-        rel(at.required_m.unwrap(), 3.5) < 1e-9,
+        rel(at.required_m.unwrap(), 3.5) < REL_TOL_SAME_ARITHMETIC,
         "{:?}",
         at.required_m
     );

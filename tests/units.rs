@@ -13,6 +13,9 @@
 //! The expected factors are written out as decimal literals (worked by hand from those
 //! definitions), never computed from the constants under test.
 
+mod common;
+use common::tol::{REL_TOL_EXACT, REL_TOL_SAME_ARITHMETIC};
+
 use approx::assert_relative_eq;
 use lossledger::units::{
     FT_M, IN_M, PSI_PA, PressureReference, Quantity, US_GAL_M3, default_unit, parse_unit,
@@ -24,7 +27,7 @@ fn check(label: &str, q: Quantity, scale: f64, canonical: &str) {
     let u = parse_unit(label, q).unwrap_or_else(|| panic!("{label:?} not parsed as {q:?}"));
     assert_eq!(u.quantity, q, "{label:?}");
     assert_eq!(u.label, canonical, "{label:?}");
-    assert_relative_eq!(u.scale, scale, max_relative = 1e-12);
+    assert_relative_eq!(u.scale, scale, max_relative = REL_TOL_EXACT);
     assert_eq!(u.offset, 0.0, "{label:?}");
 }
 
@@ -163,9 +166,24 @@ fn head_spellings() {
 fn check_temp(label: &str, x1: f64, c1: f64, x2: f64, c2: f64) {
     let u = parse_unit(label, Quantity::Temperature)
         .unwrap_or_else(|| panic!("{label:?} not a temperature unit"));
-    assert_relative_eq!(u.to_si(x1), c1, epsilon = 1e-12, max_relative = 1e-12);
-    assert_relative_eq!(u.to_si(x2), c2, epsilon = 1e-12, max_relative = 1e-12);
-    assert_relative_eq!(u.from_si(c2), x2, epsilon = 1e-12, max_relative = 1e-12);
+    assert_relative_eq!(
+        u.to_si(x1),
+        c1,
+        epsilon = REL_TOL_EXACT,
+        max_relative = REL_TOL_EXACT
+    );
+    assert_relative_eq!(
+        u.to_si(x2),
+        c2,
+        epsilon = REL_TOL_EXACT,
+        max_relative = REL_TOL_EXACT
+    );
+    assert_relative_eq!(
+        u.from_si(c2),
+        x2,
+        epsilon = REL_TOL_EXACT,
+        max_relative = REL_TOL_EXACT
+    );
 }
 
 #[test]
@@ -182,7 +200,7 @@ fn temperature_spellings() {
     }
     // 68 °F = 20 °C (NIST SP 811 B.9 formula).
     let f = parse_unit("°F", Quantity::Temperature).expect("°F");
-    assert_relative_eq!(f.to_si(68.0), 20.0, max_relative = 1e-12);
+    assert_relative_eq!(f.to_si(68.0), 20.0, max_relative = REL_TOL_EXACT);
 }
 
 #[test]
@@ -294,7 +312,7 @@ fn defaults_per_quantity() {
         let u = default_unit(q);
         assert_eq!(u.quantity, q);
         assert_eq!(u.label, label);
-        assert_relative_eq!(u.scale, scale, max_relative = 1e-12);
+        assert_relative_eq!(u.scale, scale, max_relative = REL_TOL_EXACT);
         assert_eq!(u.offset, 0.0);
     }
 }
@@ -308,9 +326,13 @@ fn conversions_round_trip() {
     assert_relative_eq!(
         m3h.from_si(gpm.to_si(100.0)),
         22.712_470_704,
-        max_relative = 1e-12
+        max_relative = REL_TOL_EXACT
     );
     // 14.5037738 psi = 1 bar (NIST SP 811 B.8: 1 bar / 6.894757e3 Pa).
     let psi = parse_unit("psi", Quantity::Pressure).expect("psi");
-    assert_relative_eq!(psi.from_si(1e5), 14.503_773_773, max_relative = 1e-9);
+    assert_relative_eq!(
+        psi.from_si(1e5),
+        14.503_773_773,
+        max_relative = REL_TOL_SAME_ARITHMETIC
+    );
 }

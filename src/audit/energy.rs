@@ -5,6 +5,7 @@
 //! it can be checked against the hand-worked example in `docs/energy.md`; [`apply`] fills the
 //! audit's lines and fittings with them.
 
+use crate::sentence::fig;
 use serde::Serialize;
 
 use super::lines::{FittingModel, fitting_at};
@@ -454,38 +455,11 @@ fn alternatives(m: FittingModel, pumped: bool) -> Vec<(FittingModel, String)> {
             ),
         )];
     }
-    match kind.id {
-        "elbow-90" | "elbow-90-threaded" | "mitre-90-1weld" | "mitre-90-2weld"
-        | "mitre-90-3weld" | "mitre-90-4weld" | "mitre-90-5weld" => {
-            many(&["elbow-90-long"], "long-radius 90° elbow")
-        }
-        "elbow-180" | "elbow-180-threaded" => many(&["elbow-180-long"], "long-radius return"),
-        "elbow-45-threaded" | "mitre-45-1weld" | "mitre-45-2weld" => {
-            many(&["elbow-45"], "butt-weld 45° elbow")
-        }
-        "tee-branch" | "tee-branch-threaded" | "tee-branch-stub-in" => {
-            many(&["tee-branch-swept"], "swept tee")
-        }
-        "valve-globe"
-        | "valve-globe-bevel-seat"
-        | "valve-globe-composition-seat"
-        | "valve-globe-y"
-        | "valve-angle" => many(
-            &["valve-gate", "valve-ball"],
-            "full-bore valve where the valve only isolates",
-        ),
-        "valve-ball-reduced" => many(&["valve-ball"], "full-bore ball valve"),
-        "valve-plug-reduced" => many(&["valve-plug"], "full-bore plug valve"),
-        "entrance-square-edged" | "entrance-projecting" => {
-            many(&["entrance-radiused"], "radiused (bell-mouth) entrance")
-        }
-        "expansion" => many(&["expansion-tapered"], "tapered expansion (diffuser)"),
-        "contraction" => many(&["contraction-tapered"], "tapered contraction"),
-        _ if kind.group == Group::CheckValve => many(
-            &["check-swing", "check-lift", "check-tilting-disc"],
-            "lower-loss check valve type; confirm its closing against surge",
-        ),
-        _ if kind.group == Group::Strainer && m.input.fouling.is_some_and(|x| x > 1.0) => {
+    if let Some(r) = kind.replacement() {
+        return many(r.kinds, r.words);
+    }
+    match kind.group {
+        Group::Strainer if m.input.fouling.is_some_and(|x| x > 1.0) => {
             vec![(
                 FittingModel {
                     input: crate::physics::fitting::FittingInput {
@@ -706,8 +680,8 @@ fn throttled_valves(
             .as_ref()
             .map(|s| {
                 format!(
-                    "; fully open it would take about {:.2} m less",
-                    s.head_saving_m
+                    "; fully open it would take about {} less",
+                    fig(s.head_saving_m, "m", 2)
                 )
             })
             .unwrap_or_default();
@@ -717,11 +691,11 @@ fn throttled_valves(
             f.tag.clone(),
             cell,
             format!(
-                "{} is {:.0} % open (rule: at least {:.0} %): it takes {:.2} m of head, burning {:.2} kW at the motor, {:.0} kWh and {currency} {:.0} a year{open}",
+                "{} is {:.0} % open (rule: at least {:.0} %): it takes {} of head, burning {:.2} kW at the motor, {:.0} kWh and {currency} {:.0} a year{open}",
                 if f.tag.is_empty() { &f.item } else { &f.tag },
                 opening * 100.0,
                 rules.valve.min_opening * 100.0,
-                f.head_m,
+                fig(f.head_m, "m", 2),
                 e.electrical_power_w / 1000.0,
                 e.annual_energy_kwh,
                 e.annual_cost

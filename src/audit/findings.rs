@@ -3,10 +3,11 @@
 use serde::Serialize;
 
 use super::lines::Placements;
-use super::{Audit, Rules};
+use super::{Audit, LineResult, Rules, RunResult};
 use crate::error::{CellRef, Severity};
 use crate::ingest::{FittingRow, Input, Service, TableKind};
 use crate::physics::friction::Regime;
+use crate::sentence::{Sentence, fig};
 
 /// One flagged item.
 #[derive(Clone, Debug, PartialEq, Serialize)]
@@ -21,8 +22,8 @@ pub struct Finding {
     pub tag: Option<String>,
     /// The input cell it is about.
     pub cell: Option<CellRef>,
-    /// What was found, with the numbers.
-    pub message: String,
+    /// What was found, with the numbers (rendered in the reader's units).
+    pub message: Sentence,
     /// What to do.
     pub action: String,
 }
@@ -113,7 +114,7 @@ pub(crate) fn push(
     line: &str,
     tag: Option<&str>,
     cell: CellRef,
-    message: String,
+    message: impl Into<Sentence>,
     action: &str,
 ) {
     found.push(Finding {
@@ -122,138 +123,152 @@ pub(crate) fn push(
         line: Some(line.to_string()),
         tag: tag.filter(|t| !t.is_empty()).map(str::to_string),
         cell: Some(cell),
-        message,
+        message: message.into(),
         action: action.to_string(),
     });
 }
 
 /// Raise the rule findings and sort all findings (worst first, then by cell).
 pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
-    let size_col = |sheet: &str| {
-        input
-            .layout_on(TableKind::Pipes, sheet)
-            .and_then(|l| l.column("size").or(l.column("inner_diameter")))
-            .map_or(0, |c| c.col)
-    };
     let mut found = Vec::new();
-    let lines = &audit.lines;
-    for line in lines {
+    for line in &audit.lines {
         if line.flow_m3_s == 0.0 {
-            let cell = match (&line.sheet, line.row) {
-                (Some(sheet), Some(r)) => {
-                    CellRef::new(sheet, r, input.column_of(TableKind::Lines, sheet, "flow"))
-                }
-                _ => audit.runs[line.runs[0]].cell.clone(),
-            };
-            push(
-                &mut found,
-                Severity::Info,
-                "zero-flow",
-                &line.line,
-                None,
-                cell,
-                format!("line {} carries no flow: no losses computed", line.line),
-                "check the line's duty flow",
-            );
+            zero_flow(input, audit, line, &mut found);
             continue;
         }
-        let band = rules.band(line.service);
         for &i in &line.runs {
-            let run = &audit.runs[i];
-            let cell = CellRef::new(&run.cell.sheet, run.row, size_col(&run.cell.sheet));
-            let v = run.velocity_m_s;
-            if let Some(max) = band.max_m_s
-                && v > max
-            {
-                push(
-                    &mut found,
-                    Severity::Warning,
-                    "velocity-high",
-                    &line.line,
-                    None,
-                    cell.clone(),
-                    format!(
-                        "velocity {v:.2} m/s is above the {} limit of {max:.2} m/s",
-                        line.service.id()
-                    ),
-                    "consider a larger bore or a lower flow; check erosion, noise and surge",
-                );
-            }
-            if let Some(min) = band.min_m_s
-                && v < min
-            {
-                push(
-                    &mut found,
-                    Severity::Warning,
-                    "velocity-low",
-                    &line.line,
-                    None,
-                    cell.clone(),
-                    format!(
-                        "velocity {v:.2} m/s is below the {} minimum of {min:.2} m/s",
-                        line.service.id()
-                    ),
-                    if line.service == Service::Gravity {
-                        "check self-cleansing: solids may settle"
-                    } else {
-                        "the line may be oversized; check air clearing and sediment"
-                    },
-                );
-            }
-            let gradient = run.head_m / run.length_m * 100.0;
-            if gradient > rules.gradient.max_m_per_100m {
-                push(
-                    &mut found,
-                    Severity::Warning,
-                    "steep-gradient",
-                    &line.line,
-                    None,
-                    cell.clone(),
-                    format!(
-                        "friction loss {gradient:.2} m per 100 m exceeds {:.2} m per 100 m",
-                        rules.gradient.max_m_per_100m
-                    ),
-                    "a larger bore or smoother pipe would cut the loss and the pumping energy",
-                );
-            }
-            if run.regime == Regime::Transition {
-                push(
-                    &mut found,
-                    Severity::Info,
-                    "transition-regime",
-                    &line.line,
-                    None,
-                    cell,
-                    format!(
-                        "Reynolds number {:.0} is in the transition band 2000–4000: friction factor interpolated",
-                        run.reynolds
-                    ),
-                    "results here are less certain; confirm by measurement if the line matters",
-                );
-            }
+            run_findings(input, rules, line, &audit.runs[i], &mut found);
         }
     }
-    // An area change whose inlet and outlet sizes are equal changes nothing: most likely a typo.
-    const AREA_CHANGES: &[&str] = &[
-        "reducer",
-        "expansion",
-        "contraction",
-        "contraction-radiused",
-        "contraction-tapered",
-        "expansion-tapered",
-    ];
-    for f in input
-        .fittings
-        .iter()
-        .filter(|f| AREA_CHANGES.contains(&f.kind.id))
+    same_size_area_changes(input, &mut found);
+    high_loss_fittings(rules, audit, &mut found);
+    audit.findings.extend(found);
+    sort(&mut audit.findings);
+}
+
+/// `zero-flow`: a line that carries no flow (at its Lines flow cell, else its first run).
+fn zero_flow(input: &Input, audit: &Audit, line: &LineResult, found: &mut Vec<Finding>) {
+    let cell = match (&line.sheet, line.row) {
+        (Some(sheet), Some(r)) => {
+            CellRef::new(sheet, r, input.column_of(TableKind::Lines, sheet, "flow"))
+        }
+        _ => audit.runs[line.runs[0]].cell.clone(),
+    };
+    push(
+        found,
+        Severity::Info,
+        "zero-flow",
+        &line.line,
+        None,
+        cell,
+        format!("line {} carries no flow: no losses computed", line.line),
+        "check the line's duty flow",
+    );
+}
+
+/// The rule findings of one run of `line`, at the run's size cell: velocity above or below the
+/// service's band, a friction gradient past the limit, a Reynolds number in the transition band.
+fn run_findings(
+    input: &Input,
+    rules: &Rules,
+    line: &LineResult,
+    run: &RunResult,
+    found: &mut Vec<Finding>,
+) {
+    let size_col = input
+        .layout_on(TableKind::Pipes, &run.cell.sheet)
+        .and_then(|l| l.column("size").or(l.column("inner_diameter")))
+        .map_or(0, |c| c.col);
+    let cell = CellRef::new(&run.cell.sheet, run.row, size_col);
+    let band = rules.band(line.service);
+    let v = run.velocity_m_s;
+    if let Some(max) = band.max_m_s
+        && v > max
     {
+        push(
+            found,
+            Severity::Warning,
+            "velocity-high",
+            &line.line,
+            None,
+            cell.clone(),
+            format!(
+                "velocity {} is above the {} limit of {}",
+                fig(v, "m/s", 2),
+                line.service.id(),
+                fig(max, "m/s", 2)
+            ),
+            "consider a larger bore or a lower flow; check erosion, noise and surge",
+        );
+    }
+    if let Some(min) = band.min_m_s
+        && v < min
+    {
+        push(
+            found,
+            Severity::Warning,
+            "velocity-low",
+            &line.line,
+            None,
+            cell.clone(),
+            format!(
+                "velocity {} is below the {} minimum of {}",
+                fig(v, "m/s", 2),
+                line.service.id(),
+                fig(min, "m/s", 2)
+            ),
+            if line.service == Service::Gravity {
+                "check self-cleansing: solids may settle"
+            } else {
+                "the line may be oversized; check air clearing and sediment"
+            },
+        );
+    }
+    let gradient = run.head_m / run.length_m * 100.0;
+    if gradient > rules.gradient.max_m_per_100m {
+        push(
+            found,
+            Severity::Warning,
+            "steep-gradient",
+            &line.line,
+            None,
+            cell.clone(),
+            format!(
+                "friction loss {} exceeds {}",
+                fig(gradient, "m per 100 m", 2),
+                fig(rules.gradient.max_m_per_100m, "m per 100 m", 2)
+            ),
+            "a larger bore or smoother pipe would cut the loss and the pumping energy",
+        );
+    }
+    if run.regime == Regime::Transition {
+        push(
+            found,
+            Severity::Info,
+            "transition-regime",
+            &line.line,
+            None,
+            cell,
+            format!(
+                "Reynolds number {:.0} is in the transition band 2000–4000: friction factor interpolated",
+                run.reynolds
+            ),
+            "results here are less certain; confirm by measurement if the line matters",
+        );
+    }
+}
+
+/// `same-size-reducer`: an area change whose inlet and outlet sizes are equal changes nothing,
+/// most likely a typo.
+fn same_size_area_changes(input: &Input, found: &mut Vec<Finding>) {
+    for f in input.fittings.iter().filter(|f| f.kind.changes_area()) {
         let key = |s: &Option<crate::ingest::parse::SizeSpec>| {
             s.as_ref().and_then(super::lines::size_key)
         };
         if key(&f.size).is_some() && key(&f.size) == key(&f.size_out) {
             let c = input.column_of(TableKind::Fittings, &f.origin.sheet, "size_out");
             push(
-                &mut found,
+                found,
                 Severity::Warning,
                 "same-size-reducer",
                 &f.line,
@@ -268,6 +283,12 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
             );
         }
     }
+}
+
+/// `high-loss-fitting`: an item taking more than the rules' share of its line's loss, or with a
+/// K above the rules' limit.
+fn high_loss_fittings(rules: &Rules, audit: &Audit, found: &mut Vec<Finding>) {
+    let lines = &audit.lines;
     for f in &audit.fittings {
         let Some(line) = audit.line_of(&f.line).map(|i| &lines[i]) else {
             continue;
@@ -293,25 +314,23 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit) {
                 why.push(format!("K {:.2} is above {:.2}", f.k, rules.fitting.max_k));
             }
             push(
-                &mut found,
+                found,
                 Severity::Warning,
                 "high-loss-fitting",
                 &f.line,
                 Some(&f.tag),
                 f.cell.clone(),
                 format!(
-                    "{} ({}): head {:.3} m; {}",
+                    "{} ({}): head {}; {}",
                     f.item,
                     f.kind,
-                    f.head_m,
+                    fig(f.head_m, "m", 3),
                     why.join("; ")
                 ),
                 "check the item's type and position; a lower-loss alternative may pay back",
             );
         }
     }
-    audit.findings.extend(found);
-    sort(&mut audit.findings);
 }
 
 /// Order findings worst first, then by cell, then by code.

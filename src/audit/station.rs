@@ -6,6 +6,7 @@
 //! [`pump_curves`] runs before the energy review (its efficiency at the operating point replaces
 //! the flat default there); [`apply`] runs after it (it reads the suggestions' head savings).
 
+use crate::sentence::{fig, fig_signed};
 use serde::Serialize;
 
 use super::lines::FittingModel;
@@ -236,7 +237,7 @@ fn finding(
         line: None,
         tag: None,
         cell,
-        message,
+        message: message.into(),
         action: action.into(),
     }
 }
@@ -247,8 +248,8 @@ fn outside_region(input: &Input, rules: &Rules, s: &SystemResult, pe: &PumpEffic
         .operating_ratio
         .map(|r| {
             format!(
-                ", the operating point {:.1} m3/h is {:.0} %",
-                pe.flow_m3_s * 3600.0,
+                ", the operating point {} is {:.0} %",
+                fig(pe.flow_m3_s * 3600.0, "m3/h", 1),
                 r * 100.0
             )
         })
@@ -258,11 +259,11 @@ fn outside_region(input: &Input, rules: &Rules, s: &SystemResult, pe: &PumpEffic
         "outside-preferred-region",
         system_cell(input, &s.system, "system"),
         format!(
-            "system {}: duty {:.1} m3/h is {:.0} % of the best-efficiency flow {:.1} m3/h{op}; the preferred operating region is {:.0}–{:.0} % (ANSI/HI 9.6.3)",
+            "system {}: duty {} is {:.0} % of the best-efficiency flow {}{op}; the preferred operating region is {:.0}–{:.0} % (ANSI/HI 9.6.3)",
             s.system,
-            s.flow_m3_s * 3600.0,
+            fig(s.flow_m3_s * 3600.0, "m3/h", 1),
             pe.duty_ratio * 100.0,
-            pe.best.flow_m3_s * 3600.0,
+            fig(pe.best.flow_m3_s * 3600.0, "m3/h", 1),
             st.preferred_min * 100.0,
             st.preferred_max * 100.0
         ),
@@ -369,10 +370,10 @@ impl Measure<'_> {
                 "loss-share-high",
                 self.cell("system"),
                 format!(
-                    "system {}: the piping takes {:.2} m of the {:.2} m required at duty, {:.0} % of the head (rule: at most {:.0} %, common practice)",
+                    "system {}: the piping takes {} of the {} required at duty, {:.0} % of the head (rule: at most {:.0} %, common practice)",
                     s.system,
-                    s.losses_head_m,
-                    s.required_head_m,
+                    fig(s.losses_head_m, "m", 2),
+                    fig(s.required_head_m, "m", 2),
                     share * 100.0,
                     max * 100.0
                 ),
@@ -491,12 +492,12 @@ impl Measure<'_> {
             "measured-vs-computed",
             self.cell(key),
             format!(
-                "system {}: the test head {:.2} m at {:.1} m3/h differs from the computed system head {:.2} m there by {:+.2} m (rule: {:.0} %, common practice)",
+                "system {}: the test head {} at {} differs from the computed system head {} there by {} (rule: {:.0} %, common practice)",
                 self.s.system,
-                t.point.head_m,
-                t.point.flow_m3_s * 3600.0,
-                t.computed_head_m,
-                t.head_difference_m,
+                fig(t.point.head_m, "m", 2),
+                fig(t.point.flow_m3_s * 3600.0, "m3/h", 1),
+                fig(t.computed_head_m, "m", 2),
+                fig_signed(t.head_difference_m, "m", 2),
                 tol * 100.0
             ),
             "the register or the gauges are wrong: check the static head, the line lengths, sizes and fittings, valve positions, and the gauges' calibration and elevations",

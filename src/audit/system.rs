@@ -5,10 +5,11 @@
 //! from the `Systems` sheet (its `Lines` cell) or, failing that, from the `System` column of
 //! `Lines` (input order, pump-suction lines first). See `docs/energy.md`.
 
+use crate::sentence::fig;
 use serde::Serialize;
 
 use super::lines::{FittingModel, line_heads_at};
-use super::{Audit, Finding, Rules};
+use super::{Audit, Finding, LineResult, Rules};
 use crate::error::{CellRef, Severity};
 use std::collections::HashSet;
 
@@ -576,9 +577,10 @@ fn static_head_missing(place: &Place<'_>) -> Finding {
         tag: None,
         cell: place.at("static_head"),
         message: format!(
-            "system {}: no static head given (Static head in Systems, or Elevation change in Lines): taken as 0 m, so its required head and duty check leave out the lift",
+            "system {}: no static head given (Static head in Systems, or Elevation change in Lines): taken as 0, so its required head and duty check leave out the lift",
             place.id
-        ),
+        )
+        .into(),
         action: "give the static head (delivery liquid level minus source liquid level, plus any pressure difference as head) in the Systems sheet".into(),
     }
 }
@@ -618,15 +620,7 @@ fn one_system(
         id: &id,
     };
     let mut notes = Vec::new();
-    let mut idx = Vec::new();
-    for n in names {
-        match audit.line_of(n) {
-            Some(i) => idx.push(i),
-            None => notes.push(format!(
-                "line {n} is not among the audited lines: left out of the system's head"
-            )),
-        }
-    }
+    let idx = audited_lines(audit, names, &mut notes);
     let duty_line = duty_line(audit, &idx, shared);
     let duty = duty_line.map_or(0.0, |i| audit.lines[i].flow_m3_s);
     let duty_hours_per_year = duty_line.and_then(|i| {
@@ -640,28 +634,17 @@ fn one_system(
     }
     let losses_head_m: f64 = idx.iter().map(|&i| audit.lines[i].total_head_m).sum();
     let required_head_m = static_head_m + losses_head_m;
+    let head_at = |x: f64| required_head_at(audit, ctx.models, &idx, static_head_m, x);
     let curve: Vec<CurvePoint> = CURVE_FRACTIONS
         .iter()
         .map(|&x| CurvePoint {
             flow_m3_s: duty * x,
-            head_m: required_head_at(audit, ctx.models, &idx, static_head_m, x),
+            head_m: head_at(x),
         })
         .collect();
     let pump_curve = pump_points(input, &id, |p| Some(p.head_m));
     let (pump_head_m, pump_head_basis) = pump_head(row, &pump_curve, duty, &mut notes);
-    let operating_point = (duty > 0.0 && pump_curve.len() >= 2)
-        .then(|| {
-            let op = operating_point(&pump_curve, |q| {
-                required_head_at(audit, ctx.models, &idx, static_head_m, q / duty)
-            });
-            if op.is_none() {
-                notes.push(
-                    "the pump curve does not cross the system curve within its flow range".into(),
-                );
-            }
-            op
-        })
-        .flatten();
+    let operating_point = crossing(&pump_curve, duty, head_at, &mut notes);
     let margin_m = pump_head_m.map(|p| p - required_head_m);
     let fails_duty = margin_m.is_some_and(|m| m < 0.0);
     if let Some(p) = pump_head_m.filter(|_| fails_duty) {
@@ -744,6 +727,41 @@ fn one_system(
     }
 }
 
+/// Indices of the audited lines among a system's `names`; a note for each name that is not
+/// audited (left out of the system's head).
+fn audited_lines(audit: &Audit, names: &[String], notes: &mut Vec<String>) -> Vec<usize> {
+    let mut idx = Vec::new();
+    for n in names {
+        match audit.line_of(n) {
+            Some(i) => idx.push(i),
+            None => notes.push(format!(
+                "line {n} is not among the audited lines: left out of the system's head"
+            )),
+        }
+    }
+    idx
+}
+
+/// Where the pump curve crosses the system curve (`head_at`: required head at a fraction of
+/// the `duty` flow), when there is a duty flow and a curve of two points or more; a note when
+/// they do not cross within the curve's flow range.
+fn crossing(
+    pump_curve: &[CurvePoint],
+    duty: f64,
+    head_at: impl Fn(f64) -> f64,
+    notes: &mut Vec<String>,
+) -> Option<CurvePoint> {
+    let usable = duty > 0.0 && pump_curve.len() >= 2;
+    if !usable {
+        return None;
+    }
+    let op = operating_point(pump_curve, |q| head_at(q / duty));
+    if op.is_none() {
+        notes.push("the pump curve does not cross the system curve within its flow range".into());
+    }
+    op
+}
+
 /// Pump head at duty and where it came from: the Systems sheet, else the pump curve at the duty
 /// flow, else none (with a note).
 fn pump_head(
@@ -775,11 +793,16 @@ fn pump_head_short(place: &Place<'_>, duty: f64, p: f64, heads: (f64, f64)) -> F
         tag: None,
         cell: place.at("pump_head"),
         message: format!(
-            "system {}: the pump gives {p:.2} m at {:.1} m3/h but the system needs {required_head_m:.2} m (static {static_head_m:.2} m + losses {losses_head_m:.2} m): short by {:.2} m",
+            "system {}: the pump gives {} at {} but the system needs {} (static {} + losses {}): short by {}",
             place.id,
-            duty * 3600.0,
-            required_head_m - p
-        ),
+            fig(p, "m", 2),
+            fig(duty * 3600.0, "m3/h", 1),
+            fig(required_head_m, "m", 2),
+            fig(static_head_m, "m", 2),
+            fig(losses_head_m, "m", 2),
+            fig(required_head_m - p, "m", 2)
+        )
+        .into(),
         action: "the pump cannot deliver the duty flow: cut the losses (see Fitting ranking), check the static head, or re-rate the pump with its maker's curve".into(),
     }
 }
@@ -910,13 +933,7 @@ fn npsh(
         assumed: Vec::new(),
     };
     let npshr_curve = pump_points(input, id, |p| p.npsh_required_m);
-    let (required_at_duty, duty_basis) = match row.and_then(|r| r.npsh_required_m) {
-        Some(r) => (Some(r), "Systems sheet".to_string()),
-        None => match interpolate(&npshr_curve, duty) {
-            Some(r) => (Some(r), "Pump curve at duty flow".to_string()),
-            None => (None, String::new()),
-        },
-    };
+    let (required_at_duty, duty_basis) = npshr_at_duty(row, &npshr_curve, duty);
     out.required_at_duty = required_at_duty;
     let needed = |r: f64| npsh_needed(r, rules.npsh.margin_ratio, rules.npsh.margin_min_m);
     out.needed_at_duty = required_at_duty.map(needed);
@@ -938,32 +955,17 @@ fn npsh(
         return out;
     }
     let first = &audit.lines[suction[0]];
-    let Some(level) = row.and_then(|r| r.suction_level_m) else {
-        let why = "no Suction level given: NPSH available not computed";
-        notes.push(why.into());
-        out.checks.push(not_checked("NPSH at duty", duty, why));
-        return out;
-    };
-    let Some(pv) = first.vapour_pressure_pa else {
-        let why = format!(
-            "fluid of line {} has no vapour pressure: NPSH available not computed",
-            first.line
-        );
-        out.checks.push(not_checked("NPSH at duty", duty, &why));
-        notes.push(why);
-        return out;
+    let (level, pv) = match suction_inputs(row, first) {
+        Ok(inputs) => inputs,
+        Err(why) => {
+            out.checks.push(not_checked("NPSH at duty", duty, &why));
+            notes.push(why);
+            return out;
+        }
     };
     let (ps, basis) = source_pressure(place, &mut out, elevation_assumed);
-    let temperature_assumed = input
-        .lines
-        .iter()
-        .find(|l| l.line == first.line)
-        .is_some_and(|l| l.assumed.iter().any(|a| a.key == "temperature"));
-    if temperature_assumed {
-        out.defaults.push(format!(
-            "temperature {} °C on suction line {} (Temperature blank: assumed)",
-            first.temperature_c, first.line
-        ));
+    if let Some(d) = assumed_temperature(input, first) {
+        out.defaults.push(d);
     }
     let terms = NpshTerms {
         source_pressure_pa: ps,
@@ -1016,6 +1018,52 @@ fn npsh(
         out.at_operating_point = Some(c);
     }
     out
+}
+
+/// NPSH required at the duty flow and where it came from: the Systems sheet, else the pump
+/// curve's NPSH required interpolated at the duty flow, else none.
+fn npshr_at_duty(
+    row: Option<&SystemRow>,
+    npshr_curve: &[CurvePoint],
+    duty: f64,
+) -> (Option<f64>, String) {
+    match row.and_then(|r| r.npsh_required_m) {
+        Some(r) => (Some(r), "Systems sheet".to_string()),
+        None => match interpolate(npshr_curve, duty) {
+            Some(r) => (Some(r), "Pump curve at duty flow".to_string()),
+            None => (None, String::new()),
+        },
+    }
+}
+
+/// The suction level (Systems sheet) and the vapour pressure of the first suction line's fluid;
+/// the reason NPSH available cannot be computed when one is missing.
+fn suction_inputs(row: Option<&SystemRow>, first: &LineResult) -> Result<(f64, f64), String> {
+    let Some(level) = row.and_then(|r| r.suction_level_m) else {
+        return Err("no Suction level given: NPSH available not computed".into());
+    };
+    let Some(pv) = first.vapour_pressure_pa else {
+        return Err(format!(
+            "fluid of line {} has no vapour pressure: NPSH available not computed",
+            first.line
+        ));
+    };
+    Ok((level, pv))
+}
+
+/// A default to list when the first suction line's temperature was assumed (it sets the
+/// vapour pressure).
+fn assumed_temperature(input: &Input, first: &LineResult) -> Option<String> {
+    let line = input.lines.iter().find(|l| l.line == first.line)?;
+    line.assumed
+        .iter()
+        .any(|a| a.key == "temperature")
+        .then(|| {
+            format!(
+                "temperature {} °C on suction line {} (Temperature blank: assumed)",
+                first.temperature_c, first.line
+            )
+        })
 }
 
 /// Absolute pressure on the source surface and where it came from: `Source pressure`, else the
@@ -1127,14 +1175,18 @@ fn npsh_finding(
         tag: None,
         cell: place.at("npsh_required"),
         message: format!(
-            "system {}: {when} ({:.1} m3/h) NPSH available is {a:.2} m with the suction losses at the high end of their K band ({:.2} m nominal) against NPSH required {r:.2} m ({}); the margin rule asks for {n:.2} m (max of {:.2} × NPSHr and NPSHr + {:.2} m)",
+            "system {}: {when} ({}) NPSH available is {} with the suction losses at the high end of their K band ({} nominal) against NPSH required {} ({}); the margin rule asks for {} (max of {:.2} × NPSHr and NPSHr + {})",
             place.id,
-            c.flow_m3_s * 3600.0,
-            c.available_nominal_m,
+            fig(c.flow_m3_s * 3600.0, "m3/h", 1),
+            fig(a, "m", 2),
+            fig(c.available_nominal_m, "m", 2),
+            fig(r, "m", 2),
             c.required_basis,
+            fig(n, "m", 2),
             npsh.margin_ratio,
-            npsh.margin_min_m
-        ),
+            fig(npsh.margin_min_m, "m", 2)
+        )
+        .into(),
         action: if a < r {
             "the pump will cavitate here: raise the suction level, cut the suction losses or choose a pump with lower NPSH required; confirm with the pump maker's NPSH curve and site measurement"
         } else {
@@ -1177,7 +1229,7 @@ fn suction_layout(
                 line: Some(line.line.clone()),
                 tag: (!f.tag.is_empty()).then(|| f.tag.clone()),
                 cell: Some(f.cell.clone()),
-                message: format!("{} ({}) is the last item listed on suction line {}, i.e. at the pump inlet: {why}", if f.tag.is_empty() { &f.item } else { &f.tag }, f.kind, line.line),
+                message: format!("{} ({}) is the last item listed on suction line {}, i.e. at the pump inlet: {why}", if f.tag.is_empty() { &f.item } else { &f.tag }, f.kind, line.line).into(),
                 action,
             });
         }
@@ -1206,12 +1258,13 @@ fn suction_layout(
                 tag: None,
                 cell: Some(CellRef::new(&a.cell.sheet, a.row, input.column_of(TableKind::Pipes, &a.cell.sheet, "size"))),
                 message: format!(
-                    "suction run of line {} has a bore of {:.1} mm, smaller than the {:.1} mm of the run after it (line {})",
+                    "suction run of line {} has a bore of {}, smaller than the {} of the run after it (line {})",
                     a.line,
-                    a.inner_diameter_m * 1e3,
-                    b.inner_diameter_m * 1e3,
+                    fig(a.inner_diameter_m * 1e3, "mm", 1),
+                    fig(b.inner_diameter_m * 1e3, "mm", 1),
                     b.line
-                ),
+                )
+                .into(),
                 action: "a suction line is normally at least the size of what follows it: check the size, the suction velocity and NPSH".into(),
             });
         }

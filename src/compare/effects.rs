@@ -248,6 +248,7 @@ pub fn finding_changes(old: &Audited, new: &Audited, m: &Matching) -> Vec<Change
 }
 
 fn finding_change(f: &Finding, appeared: bool) -> Change {
+    // In SI whatever `--units` says: the text is compared between revisions (docs/compare.md).
     let message = Some(Value::Text(format!("{}: {}", f.severity, f.message)));
     let item = match &f.tag {
         Some(t) => format!("{} ({t})", f.code),

@@ -321,19 +321,6 @@ fn names_a_vessel(kind: &Kind) -> bool {
     kind.id.starts_with("entrance") || kind.id == "exit" || kind.id.starts_with("foot-valve")
 }
 
-/// Kinds that change the bore from their first size to their second.
-pub fn is_area_change(kind: &Kind) -> bool {
-    matches!(
-        kind.id,
-        "reducer"
-            | "expansion"
-            | "contraction"
-            | "contraction-radiused"
-            | "contraction-tapered"
-            | "expansion-tapered"
-    )
-}
-
 /// The working copy of a description: lower case, quotes and `×` made plain, with spans blanked
 /// as they are read.
 struct Work {

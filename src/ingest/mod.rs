@@ -834,6 +834,29 @@ pub fn describe(input: &Input) -> String {
             s.sha256
         );
     }
+    describe_tables(input, &mut out);
+    let layouts: Vec<&Layout> = input
+        .layouts
+        .iter()
+        .filter(|l| !list::is_view(input, l))
+        .collect();
+    out.push('\n');
+    out.push_str(&map::mapping_toml(&layouts));
+    let by_sheet = input.assumed_by_sheet();
+    if !by_sheet.is_empty() {
+        out.push_str("\nDefaults that apply:\n");
+        for ((sheet, what), n) in &by_sheet {
+            let _ = writeln!(out, "  {sheet}: {what} — {n} row(s)");
+        }
+    }
+    describe_conversions(input, &mut out);
+    describe_rows(input, &mut out);
+    out
+}
+
+/// [`describe`]: per table its sheet, file, header and units rows, and unit defaults.
+fn describe_tables(input: &Input, out: &mut String) {
+    use std::fmt::Write;
     for l in input.layouts.iter().filter(|l| !list::is_view(input, l)) {
         let rows = if l.header_rows > 1 {
             format!("rows {}-{}", l.header_row + 1, l.header_row + l.header_rows)
@@ -863,20 +886,11 @@ pub fn describe(input: &Input) -> String {
             }
         }
     }
-    let layouts: Vec<&Layout> = input
-        .layouts
-        .iter()
-        .filter(|l| !list::is_view(input, l))
-        .collect();
-    out.push('\n');
-    out.push_str(&map::mapping_toml(&layouts));
-    let by_sheet = input.assumed_by_sheet();
-    if !by_sheet.is_empty() {
-        out.push_str("\nDefaults that apply:\n");
-        for ((sheet, what), n) in &by_sheet {
-            let _ = writeln!(out, "  {sheet}: {what} — {n} row(s)");
-        }
-    }
+}
+
+/// [`describe`]: the text-to-number conversions (the first 20).
+fn describe_conversions(input: &Input, out: &mut String) {
+    use std::fmt::Write;
     if !input.report.conversions.is_empty() {
         let _ = writeln!(
             out,
@@ -904,6 +918,11 @@ pub fn describe(input: &Input) -> String {
             );
         }
     }
+}
+
+/// [`describe`]: what each list row became, rows left out by status, rows skipped.
+fn describe_rows(input: &Input, out: &mut String) {
+    use std::fmt::Write;
     if !input.report.classified.is_empty() {
         out.push_str("\nList rows (what each became and the words that decided):\n");
         for c in &input.report.classified {
@@ -940,5 +959,4 @@ pub fn describe(input: &Input) -> String {
             let _ = writeln!(out, "  {sheet}: {n} blank row(s) inside the table");
         }
     }
-    out
 }

@@ -306,155 +306,169 @@ pub fn parse_number_text(text: &str, decimal_comma: bool) -> Result<CellNumber, 
     let not_a_number = || NumberError::NotANumber {
         text: text.to_string(),
     };
+    let not_finite = || NumberError::NotFinite {
+        text: text.to_string(),
+    };
     let chars = trim_chars(text);
     let trimmed: String = chars.iter().collect();
     // Trimming anything other than ASCII blanks (e.g. a trailing no-break space) is a clean-up.
     let mut converted = text.trim_matches([' ', '\t', '\r', '\n']) != trimmed;
-    let lower = trimmed.to_lowercase();
-    if BLANKS.contains(&lower.as_str()) {
+    if BLANKS.contains(&trimmed.to_lowercase().as_str()) {
         return Ok(CellNumber::Blank);
     }
-
-    // Sign.
-    let mut i = 0;
-    let mut negative = false;
-    match chars.first() {
-        Some('+') => i = 1,
-        Some('-') => {
-            negative = true;
-            i = 1;
-        }
-        Some('−' | '﹣' | '－') => {
-            negative = true;
-            converted = true;
-            i = 1;
-        }
-        _ => {}
-    }
-    let rest: String = chars.get(i..).unwrap_or_default().iter().collect();
+    let (negative, start, odd_minus) = sign(&chars);
+    converted |= odd_minus;
+    let rest: String = chars.get(start..).unwrap_or_default().iter().collect();
     if matches!(
         rest.to_lowercase().as_str(),
         "nan" | "inf" | "infinity" | "∞"
     ) {
-        return Err(NumberError::NotFinite {
-            text: text.to_string(),
-        });
+        return Err(not_finite());
     }
-
-    let value;
-    if let Some((v, end)) = scan_fraction(&chars, i, false) {
-        value = v;
-        i = end;
-        converted = true;
-    } else {
-        // Digit groups separated by single '.', ',' or space-like characters.
-        let mut groups: Vec<String> = Vec::new();
-        let mut seps: Vec<char> = Vec::new();
-        loop {
-            let (g, j) = digits(&chars, i);
-            groups.push(g);
-            i = j;
-            let Some(&c) = chars.get(i) else { break };
-            let is_sep = c == '.' || c == ',' || is_space(c);
-            if !is_sep {
-                break;
-            }
-            if is_digit(chars.get(i + 1)) {
-                seps.push(if is_space(c) { ' ' } else { c });
-                if c != ' ' && is_space(c) {
-                    converted = true;
-                }
-                i += 1;
-            } else if (c == '.' || c == ',') && i + 1 == chars.len() {
-                // Trailing decimal mark: "5." reads as 5.
-                seps.push(c);
-                groups.push(String::new());
-                i += 1;
-                break;
-            } else {
-                break;
-            }
-        }
-        if groups.iter().all(String::is_empty) {
-            return Err(not_a_number());
-        }
-        let dec = if decimal_comma { ',' } else { '.' };
-        let dec_count = seps.iter().filter(|s| **s == dec).count();
-        let (int_groups, frac, thousands): (&[String], &str, &[char]) = match dec_count {
-            0 => (&groups[..], "", &seps[..]),
-            1 if seps.last() == Some(&dec) => {
-                let n = groups.len() - 1;
-                (
-                    groups.get(..n).unwrap_or_default(),
-                    groups.last().map_or("", String::as_str),
-                    seps.get(..seps.len() - 1).unwrap_or_default(),
-                )
-            }
-            _ => return Err(not_a_number()),
-        };
-        let grouping_ok = |gs: &[String], ts: &[char]| -> bool {
-            let same = ts.windows(2).all(|w| w.first() == w.get(1));
-            let first_ok = gs.first().is_some_and(|g| (1..=3).contains(&g.len()));
-            let rest_ok = gs.iter().skip(1).all(|g| g.len() == 3);
-            same && first_ok && rest_ok && !ts.contains(&dec)
-        };
-        let (int_digits, frac_digits): (String, String);
-        if thousands.is_empty() {
-            int_digits = int_groups.concat();
-            frac_digits = frac.to_string();
-        } else if grouping_ok(int_groups, thousands) {
-            int_digits = int_groups.concat();
-            frac_digits = frac.to_string();
-            converted = true;
-        } else if decimal_comma
-            && dec_count == 0
-            && thousands.len() == 1
-            && thousands.first() == Some(&'.')
-        {
-            // Decimal-comma column, but a lone dot that cannot be grouping: a decimal point.
-            int_digits = groups.first().cloned().unwrap_or_default();
-            frac_digits = groups.get(1).cloned().unwrap_or_default();
-        } else {
-            return Err(not_a_number());
-        }
-        if dec_count == 1 && dec == ',' {
-            converted = true;
-        }
-        // Exponent.
-        let mut exponent = String::new();
-        if matches!(chars.get(i), Some('e' | 'E')) {
-            let mut k = i + 1;
-            let mut sign = String::new();
-            if let Some(&s @ ('+' | '-')) = chars.get(k) {
-                sign.push(s);
-                k += 1;
-            }
-            let (ed, end) = digits(&chars, k);
-            if !ed.is_empty() {
-                exponent = format!("e{sign}{ed}");
-                i = end;
-            }
-        }
-        let int_part = if int_digits.is_empty() {
-            "0"
-        } else {
-            int_digits.as_str()
-        };
-        let literal = if frac_digits.is_empty() {
-            format!("{int_part}{exponent}")
-        } else {
-            format!("{int_part}.{frac_digits}{exponent}")
-        };
-        value = literal.parse::<f64>().map_err(|_| not_a_number())?;
-    }
+    let (value, end, cleaned) = match scan_fraction(&chars, start, false) {
+        Some((v, end)) => (v, end, true),
+        None => scan_decimal(&chars, start, decimal_comma).ok_or_else(not_a_number)?,
+    };
+    converted |= cleaned;
     let value = if negative { -value } else { value };
     if !value.is_finite() {
-        return Err(NumberError::NotFinite {
-            text: text.to_string(),
-        });
+        return Err(not_finite());
     }
+    with_suffix(&chars, end, value, converted).ok_or_else(not_a_number)
+}
 
-    // Suffix: unit or percent.
+/// The sign at the start of `chars`: (negative, index after it, whether the sign was a
+/// typographic minus that had to be read as `-`).
+fn sign(chars: &[char]) -> (bool, usize, bool) {
+    match chars.first() {
+        Some('+') => (false, 1, false),
+        Some('-') => (true, 1, false),
+        Some('−' | '﹣' | '－') => (true, 1, true),
+        _ => (false, 0, false),
+    }
+}
+
+/// A decimal number from `chars[i..]`: digit groups separated by single `.`, `,` or space-like
+/// characters, then an optional exponent. Returns (value, index after it, whether grouping or
+/// a decimal comma had to be cleaned up); None when the digits do not read as one number.
+fn scan_decimal(chars: &[char], i: usize, decimal_comma: bool) -> Option<(f64, usize, bool)> {
+    let (groups, seps, i, spaced) = digit_groups(chars, i);
+    if groups.iter().all(String::is_empty) {
+        return None;
+    }
+    let (int_digits, frac_digits, regrouped) = join_groups(&groups, &seps, decimal_comma)?;
+    let (exponent, end) = scan_exponent(chars, i);
+    let int_part = if int_digits.is_empty() {
+        "0"
+    } else {
+        int_digits.as_str()
+    };
+    let literal = if frac_digits.is_empty() {
+        format!("{int_part}{exponent}")
+    } else {
+        format!("{int_part}.{frac_digits}{exponent}")
+    };
+    let value = literal.parse::<f64>().ok()?;
+    Some((value, end, spaced || regrouped))
+}
+
+/// Digit groups from `chars[i..]` and the separators between them (space-like separators as
+/// `' '`); a trailing decimal mark (`"5."`) ends with an empty group. Returns (groups,
+/// separators, index after them, whether a space-like separator other than a space was seen).
+fn digit_groups(chars: &[char], mut i: usize) -> (Vec<String>, Vec<char>, usize, bool) {
+    let mut groups: Vec<String> = Vec::new();
+    let mut seps: Vec<char> = Vec::new();
+    let mut odd_space = false;
+    loop {
+        let (g, j) = digits(chars, i);
+        groups.push(g);
+        i = j;
+        let Some(&c) = chars.get(i) else { break };
+        if !(c == '.' || c == ',' || is_space(c)) {
+            break;
+        }
+        if is_digit(chars.get(i + 1)) {
+            seps.push(if is_space(c) { ' ' } else { c });
+            odd_space |= c != ' ' && is_space(c);
+            i += 1;
+        } else if (c == '.' || c == ',') && i + 1 == chars.len() {
+            // Trailing decimal mark: "5." reads as 5.
+            seps.push(c);
+            groups.push(String::new());
+            i += 1;
+            break;
+        } else {
+            break;
+        }
+    }
+    (groups, seps, i, odd_space)
+}
+
+/// The integer and fraction digits of digit groups: thousands groups (all the same separator,
+/// a first group of 1–3 digits, then groups of 3) joined, the decimal mark (`,` with
+/// `decimal_comma`, else `.`) at most once and last. With `decimal_comma`, a lone dot that
+/// cannot be grouping is a decimal point. Returns (integer digits, fraction digits, whether
+/// grouping or a decimal comma was cleaned up); None when the groups are not one number.
+fn join_groups(
+    groups: &[String],
+    seps: &[char],
+    decimal_comma: bool,
+) -> Option<(String, String, bool)> {
+    let dec = if decimal_comma { ',' } else { '.' };
+    let dec_count = seps.iter().filter(|s| **s == dec).count();
+    let (int_groups, frac, thousands): (&[String], &str, &[char]) = match dec_count {
+        0 => (groups, "", seps),
+        1 if seps.last() == Some(&dec) => (
+            groups.get(..groups.len() - 1).unwrap_or_default(),
+            groups.last().map_or("", String::as_str),
+            seps.get(..seps.len() - 1).unwrap_or_default(),
+        ),
+        _ => return None,
+    };
+    let comma_decimal = dec_count == 1 && dec == ',';
+    if thousands.is_empty() {
+        return Some((int_groups.concat(), frac.to_string(), comma_decimal));
+    }
+    let same = thousands.windows(2).all(|w| w.first() == w.get(1));
+    let first_ok = int_groups
+        .first()
+        .is_some_and(|g| (1..=3).contains(&g.len()));
+    let rest_ok = int_groups.iter().skip(1).all(|g| g.len() == 3);
+    if same && first_ok && rest_ok && !thousands.contains(&dec) {
+        return Some((int_groups.concat(), frac.to_string(), true));
+    }
+    if decimal_comma && dec_count == 0 && thousands == ['.'] {
+        // Decimal-comma column, but a lone dot that cannot be grouping: a decimal point.
+        let int = groups.first().cloned().unwrap_or_default();
+        let frac = groups.get(1).cloned().unwrap_or_default();
+        return Some((int, frac, false));
+    }
+    None
+}
+
+/// An exponent (`e3`, `E-2`) at `chars[i]`, as text for the literal, and the index after it;
+/// an empty text and `i` when there is none.
+fn scan_exponent(chars: &[char], i: usize) -> (String, usize) {
+    if !matches!(chars.get(i), Some('e' | 'E')) {
+        return (String::new(), i);
+    }
+    let mut k = i + 1;
+    let mut sign = String::new();
+    if let Some(&s @ ('+' | '-')) = chars.get(k) {
+        sign.push(s);
+        k += 1;
+    }
+    let (digits, end) = digits(chars, k);
+    if digits.is_empty() {
+        (String::new(), i)
+    } else {
+        (format!("e{sign}{digits}"), end)
+    }
+}
+
+/// The number `value` with what follows it in `chars[i..]`: nothing, a unit, or a percent word.
+/// None when the suffix cannot be a unit (it starts with a digit, sign or separator).
+fn with_suffix(chars: &[char], i: usize, value: f64, converted: bool) -> Option<CellNumber> {
     let suffix: String = trim_chars(
         &chars
             .get(i..)
@@ -465,7 +479,7 @@ pub fn parse_number_text(text: &str, decimal_comma: bool) -> Result<CellNumber, 
     .into_iter()
     .collect();
     if suffix.is_empty() {
-        return Ok(CellNumber::Value {
+        return Some(CellNumber::Value {
             value,
             unit: None,
             percent: false,
@@ -473,10 +487,10 @@ pub fn parse_number_text(text: &str, decimal_comma: bool) -> Result<CellNumber, 
         });
     }
     if !suffix.chars().next().is_some_and(unit_may_start_with) {
-        return Err(not_a_number());
+        return None;
     }
     let percent = is_percent_word(&suffix);
-    Ok(CellNumber::Value {
+    Some(CellNumber::Value {
         value,
         unit: if percent { None } else { Some(suffix) },
         percent,

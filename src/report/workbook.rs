@@ -102,7 +102,7 @@ pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Wo
     for f in st.all() {
         wb.register_format(f);
     }
-    let marks = collect_marks(input, audit);
+    let marks = collect_marks(input, audit, options.units);
     let biggest = input
         .sheets
         .iter()
@@ -275,7 +275,11 @@ fn computed_blocks<'a>(
     Ok(blocks)
 }
 
-fn collect_marks(input: &Input, audit: &Audit) -> BTreeMap<String, BTreeMap<(u32, u32), Mark>> {
+fn collect_marks(
+    input: &Input,
+    audit: &Audit,
+    units: UnitSystem,
+) -> BTreeMap<String, BTreeMap<(u32, u32), Mark>> {
     let mut marks: BTreeMap<String, BTreeMap<(u32, u32), Mark>> = BTreeMap::new();
     for f in &audit.findings {
         let Some(cell) = &f.cell else { continue };
@@ -285,8 +289,12 @@ fn collect_marks(input: &Input, audit: &Audit) -> BTreeMap<String, BTreeMap<(u32
             .entry((cell.row, cell.col))
             .or_default();
         m.severity = m.severity.max(Some(f.severity));
-        m.note
-            .push(format!("{} [{}]: {}", f.severity, f.code, f.message));
+        m.note.push(format!(
+            "{} [{}]: {}",
+            f.severity,
+            f.code,
+            f.message.render(units)
+        ));
     }
     let assumed = input
         .lines
@@ -975,7 +983,7 @@ fn write_findings(
                 ws.write_string(r, 4, "")?;
             }
         }
-        ws.write_string(r, 5, truncate(&f.message, MAX_CELL_CHARS))?;
+        ws.write_string(r, 5, truncate(&f.message.render(st.units), MAX_CELL_CHARS))?;
         ws.write_string(r, 6, truncate(&f.action, MAX_CELL_CHARS))?;
     }
     Ok(())

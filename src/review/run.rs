@@ -208,7 +208,7 @@ fn one_station(station: &Station, options: &RunOptions) -> Outcome {
     match copy {
         Ok(staged) => {
             let link = copy_link(&options.copies_link, station);
-            let reduced = reduce(station, &audited, link, options.book.ranking_rows);
+            let reduced = reduce(station, &audited, link, &options.book);
             Outcome::Audited(Box::new(reduced), staged)
         }
         Err(e) => Outcome::Output(e),

@@ -151,8 +151,9 @@ pub fn reduce(
     station: &Station,
     audited: &Audited,
     copy: String,
-    ranking_rows: Option<usize>,
+    book: &crate::report::workbook::BookOptions,
 ) -> Reduced {
+    let ranking_rows = book.ranking_rows;
     let (input, audit) = (&audited.input, &audited.audit);
     let ranking = station_part(audit, (station.index, &station.name), &copy, ranking_rows);
     let findings = audit
@@ -165,7 +166,7 @@ pub fn reduce(
             line: f.line.clone(),
             tag: f.tag.clone(),
             cell: f.cell.clone(),
-            message: f.message.clone(),
+            message: f.message.render(book.units).into_owned(),
             action: f.action.clone(),
             copy: copy.clone(),
         })

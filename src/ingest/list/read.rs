@@ -7,13 +7,14 @@ use super::columns::{FITTING_ONLY, RUN_ONLY};
 use super::lines::{Heading, KnownLines, LocationMap, heading_text, read_heading};
 use super::{Became, Classified};
 use crate::error::{CellRef, Diagnostic, Severity};
-use crate::ingest::describe::{self, Description, Role, is_area_change};
+use crate::ingest::describe::{self, Description, Role};
 use crate::ingest::grid::SheetGrid;
 use crate::ingest::header::Layout;
 use crate::ingest::parse::{self, SizeSpec, SizeUnit};
 use crate::ingest::quantity::{self, UnitWord};
 use crate::ingest::rows::{
-    Cells, FittingRow, Origin, PipeRow, data_text, erred_row, format_number, run_assumptions,
+    Assumed, Cells, FittingRow, Origin, PipeRow, data_text, erred_row, format_number,
+    run_assumptions,
 };
 use crate::ingest::schema;
 use crate::ingest::{Conversion, ErredRow, Skipped};
@@ -104,29 +105,8 @@ pub fn read_list(
         .iter()
         .map(|c| schema::fold(&c.header))
         .collect();
-    // Every cell of the row counts: a heading may sit in a column with no header.
-    let is_blank = |row: u32| {
-        grid.shown_cols(row)
-            .into_iter()
-            .all(|col| match grid.merged_value(row, col) {
-                Data::Empty => true,
-                Data::String(s) => s.trim().is_empty(),
-                _ => false,
-            })
-            && grid.row_formulas(row).next().is_none()
-    };
-    let end = layout.end_row(grid);
-    // Only rows holding something are visited; blank rows before the last filled one are counted.
-    let filled: Vec<u32> = grid
-        .used_rows(layout.data_start..end)
-        .filter(|&r| !is_blank(r))
-        .collect();
-    if let Some(&last) = filled.last() {
-        out.blank_rows += (last - layout.data_start) as usize + 1 - filled.len();
-    }
-    let mut heading: Option<(String, CellRef)> = None;
-    let mut poisoned = false;
-    for row in filled {
+    let mut heading = HeadingState::default();
+    for row in filled_rows(grid, layout, out) {
         let first = CellRef::new(
             &layout.sheet,
             row,
@@ -138,48 +118,7 @@ pub fn read_list(
         }
         if let Some(text) = heading_text(grid, layout, row) {
             let cell = CellRef::new(&layout.sheet, row, text_col(grid, row));
-            if is_totals(&text) {
-                skip(
-                    out,
-                    file,
-                    cell,
-                    format!("a totals or carried row ('{}')", cut(&text)),
-                );
-                continue;
-            }
-            match read_heading(&text, known) {
-                Heading::Line(id) => {
-                    out.classified.push(Classified {
-                        cell: cell.clone(),
-                        became: Became::Heading,
-                        what: format!("line {id}"),
-                        deciding: format!("heading '{}'", cut(&text)),
-                    });
-                    heading = Some((id, cell));
-                    poisoned = false;
-                }
-                Heading::Unknown(id) => {
-                    out.diagnostics.push(Diagnostic {
-                        severity: Severity::Error,
-                        file: file.to_string(),
-                        cell: Some(cell),
-                        message: format!(
-                            "heading '{}' names line '{id}', which Lines does not list",
-                            cut(&text)
-                        ),
-                        hint: Some(format!(
-                            "known lines: {}; add the line to Lines or correct the heading",
-                            known.listing()
-                        )),
-                    });
-                    heading = None;
-                    poisoned = true;
-                }
-                Heading::Other(t) => {
-                    let reason = format!("a heading or note with no quantity ('{}')", cut(&t));
-                    skip(out, file, cell, reason);
-                }
-            }
+            heading.read(file, cell, &text, known, out);
             continue;
         }
         let first_diag = out.diagnostics.len();
@@ -196,51 +135,146 @@ pub fn read_list(
         let ctx = RowContext {
             known,
             locations,
-            heading: heading.as_ref(),
-            poisoned,
+            heading: heading.line.as_ref(),
+            poisoned: heading.poisoned,
         };
         let result = read_row(&mut c, &ctx);
-        let errors = c.errors;
-        match result {
-            RowResult::Run(p, why) => {
-                out.classified.push(Classified {
-                    cell: CellRef::new(&layout.sheet, row, text_col_of(layout)),
-                    became: Became::Run,
-                    what: format!("on {}", p.line),
-                    deciding: why,
-                });
-                out.pipes.push(p);
+        if matches!(result, RowResult::Refused) && c.errors > 0 {
+            let diags = &out.diagnostics[first_diag..];
+            if let Some(e) = erred_run(grid, layout, row, heading.line.as_ref(), diags) {
+                out.erred.push(e);
             }
-            RowResult::Fitting(f, why) => {
-                out.classified.push(Classified {
-                    cell: CellRef::new(&layout.sheet, row, text_col_of(layout)),
-                    became: Became::Fitting,
-                    what: format!("{} on {}", f.kind.id, f.line),
-                    deciding: why,
-                });
-                out.fittings.push(f);
-            }
-            RowResult::Skip(reason) => skip(out, file, first, reason),
-            RowResult::LeftOut(reason) => {
-                out.classified.push(Classified {
-                    cell: first.clone(),
-                    became: Became::LeftOut,
-                    what: String::new(),
-                    deciding: reason.clone(),
-                });
-                out.left_out.push(Skipped {
-                    cell: first,
-                    reason,
-                });
-            }
-            RowResult::Refused if errors > 0 => {
-                let diags = &out.diagnostics[first_diag..];
-                if let Some(e) = erred_run(grid, layout, row, heading.as_ref(), diags) {
-                    out.erred.push(e);
-                }
-            }
-            RowResult::Refused => {}
         }
+        let text_cell = CellRef::new(&layout.sheet, row, text_col_of(layout));
+        record(out, file, first, text_cell, result);
+    }
+}
+
+/// The rows of the list's data range that hold something; blank rows before the last filled
+/// one are counted into `out.blank_rows`. Every cell of the row counts: a heading may sit in a
+/// column with no header.
+fn filled_rows(grid: &SheetGrid, layout: &Layout, out: &mut ListOut) -> Vec<u32> {
+    let is_blank = |row: u32| {
+        grid.shown_cols(row)
+            .into_iter()
+            .all(|col| match grid.merged_value(row, col) {
+                Data::Empty => true,
+                Data::String(s) => s.trim().is_empty(),
+                _ => false,
+            })
+            && grid.row_formulas(row).next().is_none()
+    };
+    let end = layout.end_row(grid);
+    let filled: Vec<u32> = grid
+        .used_rows(layout.data_start..end)
+        .filter(|&r| !is_blank(r))
+        .collect();
+    if let Some(&last) = filled.last() {
+        out.blank_rows += (last - layout.data_start) as usize + 1 - filled.len();
+    }
+    filled
+}
+
+/// The heading in force while reading a list: the line it names (with its cell), or
+/// `poisoned` after a heading naming an unknown line (its rows are refused, not guessed).
+#[derive(Default)]
+struct HeadingState {
+    line: Option<(String, CellRef)>,
+    poisoned: bool,
+}
+
+impl HeadingState {
+    /// Read a heading row's `text` at `cell`: a totals row is skipped, a known line becomes the
+    /// heading, an unknown one is an error that poisons the rows under it, anything else is
+    /// skipped as a note.
+    fn read(
+        &mut self,
+        file: &str,
+        cell: CellRef,
+        text: &str,
+        known: &KnownLines,
+        out: &mut ListOut,
+    ) {
+        if is_totals(text) {
+            let reason = format!("a totals or carried row ('{}')", cut(text));
+            return skip(out, file, cell, reason);
+        }
+        match read_heading(text, known) {
+            Heading::Line(id) => {
+                out.classified.push(Classified {
+                    cell: cell.clone(),
+                    became: Became::Heading,
+                    what: format!("line {id}"),
+                    deciding: format!("heading '{}'", cut(text)),
+                });
+                *self = HeadingState {
+                    line: Some((id, cell)),
+                    poisoned: false,
+                };
+            }
+            Heading::Unknown(id) => {
+                out.diagnostics.push(Diagnostic {
+                    severity: Severity::Error,
+                    file: file.to_string(),
+                    cell: Some(cell),
+                    message: format!(
+                        "heading '{}' names line '{id}', which Lines does not list",
+                        cut(text)
+                    ),
+                    hint: Some(format!(
+                        "known lines: {}; add the line to Lines or correct the heading",
+                        known.listing()
+                    )),
+                });
+                *self = HeadingState {
+                    line: None,
+                    poisoned: true,
+                };
+            }
+            Heading::Other(t) => {
+                let reason = format!("a heading or note with no quantity ('{}')", cut(&t));
+                skip(out, file, cell, reason);
+            }
+        }
+    }
+}
+
+/// File a read row's result: a run or fitting (classified at the row's text cell), a skipped
+/// or left-out row (at its first cell); a refused row leaves only its diagnostics.
+fn record(out: &mut ListOut, file: &str, first: CellRef, text_cell: CellRef, result: RowResult) {
+    match result {
+        RowResult::Run(p, why) => {
+            out.classified.push(Classified {
+                cell: text_cell,
+                became: Became::Run,
+                what: format!("on {}", p.line),
+                deciding: why,
+            });
+            out.pipes.push(p);
+        }
+        RowResult::Fitting(f, why) => {
+            out.classified.push(Classified {
+                cell: text_cell,
+                became: Became::Fitting,
+                what: format!("{} on {}", f.kind.id, f.line),
+                deciding: why,
+            });
+            out.fittings.push(f);
+        }
+        RowResult::Skip(reason) => skip(out, file, first, reason),
+        RowResult::LeftOut(reason) => {
+            out.classified.push(Classified {
+                cell: first.clone(),
+                became: Became::LeftOut,
+                what: String::new(),
+                deciding: reason.clone(),
+            });
+            out.left_out.push(Skipped {
+                cell: first,
+                reason,
+            });
+        }
+        RowResult::Refused => {}
     }
 }
 
@@ -681,66 +715,10 @@ fn run_row(
     };
     other_kind_columns(c, FITTING_ONLY, "a pipe run");
     let (size, _, schedule_text) = sizes(c, d);
-    let schedule = match c.text("schedule") {
-        Some(t) => match pipe::parse_schedule(&t) {
-            Some(s) => {
-                if let Some(d) = schedule_text.filter(|d| *d != s) {
-                    warn_both(
-                        c,
-                        "schedule",
-                        format!(
-                            "the Schedule column says {} but the description says {}: the column is used",
-                            s.label(),
-                            d.label()
-                        ),
-                    );
-                }
-                Some(s)
-            }
-            None => {
-                c.error(
-                    "schedule",
-                    format!("schedule '{t}' is not known"),
-                    Some("write e.g. 40, STD, XS, 80, 10S, 40S or SDR11".into()),
-                );
-                None
-            }
-        },
-        None => schedule_text,
-    };
+    let schedule = run_schedule(c, schedule_text);
     let mut assumed = Vec::new();
-    let material = match c.text("material") {
-        Some(t) => match pipe::material_from_text(&t) {
-            Some(m) => {
-                if let Some(dm) = d.material.filter(|dm| *dm != m) {
-                    warn_both(
-                        c,
-                        "material",
-                        format!(
-                            "the Material column says {} but the description says {}: the column is used",
-                            m.name(),
-                            dm.name()
-                        ),
-                    );
-                }
-                m
-            }
-            None => {
-                c.error(
-                    "material",
-                    format!("material '{t}' is not known"),
-                    Some("use e.g. CS, SS316, galvanised, DI, uPVC, HDPE, copper".into()),
-                );
-                return RowResult::Refused;
-            }
-        },
-        None => match d.material {
-            Some(m) => m,
-            None => {
-                assumed.push(c.assumed("material", "material carbon steel".into()));
-                Material::CarbonSteel
-            }
-        },
+    let Some(material) = run_material(c, d, &mut assumed) else {
+        return RowResult::Refused;
     };
     let length = c.positive("length", false).or(m.value).or(d.length_m);
     let Some(length_m) = length.filter(|l| *l > 0.0) else {
@@ -793,6 +771,84 @@ fn run_row(
     RowResult::Run(row, format!("{why}; line from {line_why}"))
 }
 
+/// A run's schedule: the Schedule column (warning when the description says another), else the
+/// description's; an unknown schedule is an error at its cell.
+fn run_schedule(
+    c: &mut Cells<'_>,
+    schedule_text: Option<pipe::Schedule>,
+) -> Option<pipe::Schedule> {
+    match c.text("schedule") {
+        Some(t) => match pipe::parse_schedule(&t) {
+            Some(s) => {
+                if let Some(d) = schedule_text.filter(|d| *d != s) {
+                    warn_both(
+                        c,
+                        "schedule",
+                        format!(
+                            "the Schedule column says {} but the description says {}: the column is used",
+                            s.label(),
+                            d.label()
+                        ),
+                    );
+                }
+                Some(s)
+            }
+            None => {
+                c.error(
+                    "schedule",
+                    format!("schedule '{t}' is not known"),
+                    Some("write e.g. 40, STD, XS, 80, 10S, 40S or SDR11".into()),
+                );
+                None
+            }
+        },
+        None => schedule_text,
+    }
+}
+
+/// A run's material: the Material column (warning when the description says another), else the
+/// description's, else carbon steel (assumed, pushed onto `assumed`). None after an error at
+/// the Material cell (a material that is not known).
+fn run_material(
+    c: &mut Cells<'_>,
+    d: &Description,
+    assumed: &mut Vec<Assumed>,
+) -> Option<Material> {
+    Some(match c.text("material") {
+        Some(t) => match pipe::material_from_text(&t) {
+            Some(m) => {
+                if let Some(dm) = d.material.filter(|dm| *dm != m) {
+                    warn_both(
+                        c,
+                        "material",
+                        format!(
+                            "the Material column says {} but the description says {}: the column is used",
+                            m.name(),
+                            dm.name()
+                        ),
+                    );
+                }
+                m
+            }
+            None => {
+                c.error(
+                    "material",
+                    format!("material '{t}' is not known"),
+                    Some("use e.g. CS, SS316, galvanised, DI, uPVC, HDPE, copper".into()),
+                );
+                return None;
+            }
+        },
+        None => match d.material {
+            Some(m) => m,
+            None => {
+                assumed.push(c.assumed("material", "material carbon steel".into()));
+                Material::CarbonSteel
+            }
+        },
+    })
+}
+
 /// A size in millimetres for comparing the two ends of a reducer.
 fn size_mm(s: SizeSpec) -> Option<f64> {
     match s {
@@ -817,7 +873,7 @@ fn fitting_row(
     other_kind_columns(c, RUN_ONLY, "a fitting");
     let (size, second, _) = sizes(c, d);
     let mut assumed = Vec::new();
-    let size_out = if is_area_change(kind) { second } else { None };
+    let size_out = if kind.changes_area() { second } else { None };
     if let (Some(a), Some(b)) = (size.and_then(size_mm), size_out.and_then(size_mm)) {
         let wrong = if (a - b).abs() < 1e-9 {
             Some("its two sizes are equal")

@@ -106,8 +106,7 @@ impl Cells<'_> {
             ColumnType::Number(q) => Some(q),
             _ => None,
         };
-        let column_unit = mapped.unit;
-        if quantity.is_some() && column_unit.is_none() {
+        if quantity.is_some() && mapped.unit.is_none() {
             self.error(
                 key,
                 format!(
@@ -122,7 +121,41 @@ impl Cells<'_> {
             );
             return None;
         }
-        let (value, cell_unit, percent) = match raw {
+        let (value, cell_unit, percent) = self.cell_number(key, &mapped, raw)?;
+        if !value.is_finite() {
+            self.error(
+                key,
+                format!("{header}: value {value} is not a finite number"),
+                None,
+            );
+            return None;
+        }
+        let Some(q) = quantity else {
+            if let Some(u) = cell_unit {
+                self.error(
+                    key,
+                    format!("{header}: unexpected unit '{u}' in a plain-number column"),
+                    None,
+                );
+                return None;
+            }
+            return Some(if percent { value / 100.0 } else { value });
+        };
+        self.in_si(key, &mapped, q, value, cell_unit, percent)
+    }
+
+    /// The number a cell holds as written: (value, unit written in the cell, whether it was a
+    /// percentage). Text is read by [`parse::parse_number_text`] and the conversion recorded.
+    /// None for a blank or an error cell, and after an error (text that is no number, a date,
+    /// TRUE/FALSE) at the cell.
+    fn cell_number(
+        &mut self,
+        key: &str,
+        mapped: &MappedColumn,
+        raw: Data,
+    ) -> Option<(f64, Option<String>, bool)> {
+        let header = &mapped.header;
+        Some(match raw {
             Data::Float(f) => (f, None, false),
             Data::Int(i) => (i as f64, None, false),
             Data::String(s) => {
@@ -178,26 +211,21 @@ impl Cells<'_> {
                 return None;
             }
             Data::Empty | Data::Error(_) => return None,
-        };
-        if !value.is_finite() {
-            self.error(
-                key,
-                format!("{header}: value {value} is not a finite number"),
-                None,
-            );
-            return None;
-        }
-        let Some(q) = quantity else {
-            if let Some(u) = cell_unit {
-                self.error(
-                    key,
-                    format!("{header}: unexpected unit '{u}' in a plain-number column"),
-                    None,
-                );
-                return None;
-            }
-            return Some(if percent { value / 100.0 } else { value });
-        };
+        })
+    }
+
+    /// A cell's `value` of quantity `q` in SI: a fraction by the percent rules, else converted
+    /// from the cell's own unit (an error when it is no unit of `q`) or the column's.
+    fn in_si(
+        &mut self,
+        key: &str,
+        mapped: &MappedColumn,
+        q: Quantity,
+        value: f64,
+        cell_unit: Option<String>,
+        percent: bool,
+    ) -> Option<f64> {
+        let header = &mapped.header;
         if q == Quantity::Fraction {
             let label = mapped
                 .unit_label
@@ -223,7 +251,7 @@ impl Cells<'_> {
                     return None;
                 }
             },
-            None => column_unit?,
+            None => mapped.unit?,
         };
         let si = unit.to_si(value);
         si.is_finite().then_some(si).or_else(|| {

@@ -94,17 +94,33 @@ pub fn read_all(input: &mut Input) {
 /// and every line has a flow.
 pub fn cross_check(input: &mut Input) {
     let pipe_lines: HashSet<&str> = input.pipes.iter().map(|p| p.line.as_str()).collect();
-    let mut diags = Vec::new();
-    let col_of = |input: &Input, table: TableKind, sheet: &str, key: &str| {
-        input
-            .layout_on(table, sheet)
-            .and_then(|l| l.column(key))
-            .map(|c| c.col)
-            .unwrap_or(0)
-    };
-    // A line whose runs were all left out by their errors: its fittings are not checked, and the
-    // first run's error says so once instead of one more error per fitting.
-    let mut erred_runs: Vec<(&str, &CellRef, usize)> = Vec::new();
+    let (mut diags, erred_runs) = orphan_fittings(input, &pipe_lines);
+    diags.extend(flowless_lines(input, &pipe_lines));
+    diags.extend(flowless_runs(input));
+    if diags.is_empty() {
+        diags.extend(empty_pipes(input));
+    }
+    diags.extend(shares::check(input));
+    fold_unchecked(&mut input.diagnostics, &erred_runs);
+    input.diagnostics.extend(diags);
+}
+
+/// The column of `key` in the `table` laid out on `sheet` (0 when it has none).
+fn col_of(input: &Input, table: TableKind, sheet: &str, key: &str) -> u32 {
+    input
+        .layout_on(table, sheet)
+        .and_then(|l| l.column(key))
+        .map_or(0, |c| c.col)
+}
+
+/// An error for each fitting on a line with no pipe run, except on a line whose runs were all
+/// left out by their errors: those fittings are only counted (line, cell of the run's error,
+/// fittings not checked), so that the run's error says so once ([`fold_unchecked`]).
+fn orphan_fittings(
+    input: &Input,
+    pipe_lines: &HashSet<&str>,
+) -> (Vec<Diagnostic>, Vec<(String, CellRef, usize)>) {
+    let mut erred_runs: Vec<(String, CellRef, usize)> = Vec::new();
     for e in input
         .report
         .erred
@@ -113,53 +129,62 @@ pub fn cross_check(input: &mut Input) {
     {
         if let Some(line) = e.line.as_deref()
             && !pipe_lines.contains(line)
-            && !erred_runs.iter().any(|(l, _, _)| *l == line)
+            && !erred_runs.iter().any(|(l, _, _)| l == line)
         {
-            erred_runs.push((line, &e.cell, 0));
+            erred_runs.push((line.to_string(), e.cell.clone(), 0));
         }
     }
-    for f in &input.fittings {
-        if !pipe_lines.contains(f.line.as_str()) {
-            if let Some(e) = erred_runs.iter_mut().find(|(l, _, _)| *l == f.line) {
-                e.2 += 1;
-                continue;
-            }
-            diags.push(Diagnostic {
-                severity: Severity::Error,
-                file: input.file_of(&f.origin.sheet).to_string(),
-                cell: Some(CellRef::new(
-                    &f.origin.sheet,
-                    f.origin.row,
-                    col_of(input, TableKind::Fittings, &f.origin.sheet, "line"),
-                )),
-                message: format!(
-                    "fitting on line '{}', which has no pipe run in Pipes",
-                    f.line
-                ),
-                hint: Some("add the line's runs to Pipes or correct the line id".into()),
-            });
+    let mut diags = Vec::new();
+    for f in input
+        .fittings
+        .iter()
+        .filter(|f| !pipe_lines.contains(f.line.as_str()))
+    {
+        if let Some(e) = erred_runs.iter_mut().find(|(l, _, _)| *l == f.line) {
+            e.2 += 1;
+            continue;
         }
+        diags.push(Diagnostic {
+            severity: Severity::Error,
+            file: input.file_of(&f.origin.sheet).to_string(),
+            cell: Some(CellRef::new(
+                &f.origin.sheet,
+                f.origin.row,
+                col_of(input, TableKind::Fittings, &f.origin.sheet, "line"),
+            )),
+            message: format!(
+                "fitting on line '{}', which has no pipe run in Pipes",
+                f.line
+            ),
+            hint: Some("add the line's runs to Pipes or correct the line id".into()),
+        });
     }
+    (diags, erred_runs)
+}
+
+/// An error for each listed line with pipe runs but no flow: neither its Lines row nor its
+/// runs give one. A flow cell with an error of its own (#REF!, a negative flow) is not blank
+/// as well.
+fn flowless_lines(input: &Input, pipe_lines: &HashSet<&str>) -> Vec<Diagnostic> {
     let pipe_flow: HashSet<&str> = input
         .pipes
         .iter()
         .filter(|p| p.flow_m3_s.is_some())
         .map(|p| p.line.as_str())
         .collect();
-    let listed: HashSet<&str> = input.lines.iter().map(|l| l.line.as_str()).collect();
     let error_cells: HashSet<&CellRef> = input
         .diagnostics
         .iter()
         .filter(|d| d.severity == Severity::Error)
         .filter_map(|d| d.cell.as_ref())
         .collect();
+    let mut diags = Vec::new();
     for l in &input.lines {
         let cell = CellRef::new(
             &l.origin.sheet,
             l.origin.row,
             col_of(input, TableKind::Lines, &l.origin.sheet, "flow"),
         );
-        // A flow cell with an error of its own (#REF!, a negative flow) is not blank as well.
         if l.flow_m3_s.is_none()
             && !error_cells.contains(&cell)
             && !pipe_flow.contains(l.line.as_str())
@@ -174,11 +199,19 @@ pub fn cross_check(input: &mut Input) {
             });
         }
     }
+    diags
+}
+
+/// An error (once per line) for runs of a line that Lines does not list and whose runs give
+/// no flow.
+fn flowless_runs(input: &Input) -> Vec<Diagnostic> {
+    let listed: HashSet<&str> = input.lines.iter().map(|l| l.line.as_str()).collect();
     let mut reported = HashSet::new();
+    let mut diags = Vec::new();
     for p in &input.pipes {
         if !listed.contains(p.line.as_str())
             && p.flow_m3_s.is_none()
-            && reported.insert(p.line.clone())
+            && reported.insert(p.line.as_str())
         {
             diags.push(Diagnostic {
                 severity: Severity::Error,
@@ -198,37 +231,37 @@ pub fn cross_check(input: &mut Input) {
             });
         }
     }
-    // A Pipes table with a header and nothing under it would give an empty audit: say so instead.
-    if input.pipes.is_empty()
-        && input.error_count() == 0
-        && diags.is_empty()
-        && let Some(l) = input.layout(TableKind::Pipes)
-    {
-        diags.push(Diagnostic {
-            severity: Severity::Error,
-            file: input.file_of(&l.sheet).to_string(),
-            cell: Some(CellRef::new(&l.sheet, l.header_row, 0)),
-            message: format!(
-                "sheet '{}' has a header row but no pipe runs under it",
-                l.sheet
-            ),
-            hint: Some("enter at least one run (line, size, length) below the header".into()),
-        });
+    diags
+}
+
+/// A Pipes table with a header and nothing under it would give an empty audit: an error at its
+/// header when the input has no other error.
+fn empty_pipes(input: &Input) -> Option<Diagnostic> {
+    let l = input.layout(TableKind::Pipes)?;
+    if !input.pipes.is_empty() || input.error_count() > 0 {
+        return None;
     }
-    diags.extend(shares::check(input));
-    fold_unchecked(&mut input.diagnostics, &erred_runs);
-    input.diagnostics.extend(diags);
+    Some(Diagnostic {
+        severity: Severity::Error,
+        file: input.file_of(&l.sheet).to_string(),
+        cell: Some(CellRef::new(&l.sheet, l.header_row, 0)),
+        message: format!(
+            "sheet '{}' has a header row but no pipe runs under it",
+            l.sheet
+        ),
+        hint: Some("enter at least one run (line, size, length) below the header".into()),
+    })
 }
 
 /// Append "…and N fittings on line 'L' are not checked" to the first error of each line whose
 /// runs were all left out (`erred_runs`: line, cell of that error, fittings not checked).
-fn fold_unchecked(diagnostics: &mut [Diagnostic], erred_runs: &[(&str, &CellRef, usize)]) {
-    for &(line, cell, n) in erred_runs.iter().filter(|e| e.2 > 0) {
+fn fold_unchecked(diagnostics: &mut [Diagnostic], erred_runs: &[(String, CellRef, usize)]) {
+    for (line, cell, n) in erred_runs.iter().filter(|e| e.2 > 0) {
         let first = diagnostics
             .iter_mut()
             .find(|d| d.severity == Severity::Error && d.cell.as_ref() == Some(cell));
         if let Some(d) = first {
-            let (s, are) = if n == 1 { ("", "is") } else { ("s", "are") };
+            let (s, are) = if *n == 1 { ("", "is") } else { ("s", "are") };
             d.message.push_str(&format!(
                 " …and {n} fitting{s} on line '{line}' {are} not checked (the line has no other pipe run)"
             ));

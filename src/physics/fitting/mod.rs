@@ -10,10 +10,12 @@ mod catalogue;
 mod matching;
 pub mod models;
 pub mod opening;
+mod replacements;
 
 pub use catalogue::{catalogue, find_kind};
 pub use matching::{match_item, normalise_item};
 pub use opening::{Characteristic, OpeningCurve, OpeningVariable};
+pub use replacements::Replacement;
 
 use crate::physics::friction::fully_turbulent;
 
