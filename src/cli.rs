@@ -560,7 +560,7 @@ fn run_job(job: &AuditJob) -> Result<audit::Audit, u8> {
     let progress = progress("reading inputs");
     // Messages go around the progress line so they never garble it.
     let say = |text: &dyn std::fmt::Display| progress.suspend(|| eprintln!("{text}"));
-    let input = job.read().map_err(|e| {
+    let mut input = job.read().map_err(|e| {
         say(&format_args!("error: {e}"));
         2
     })?;
@@ -589,6 +589,8 @@ fn run_job(job: &AuditJob) -> Result<audit::Audit, u8> {
         if e.is_internal() { 3 } else { 2 }
     };
     progress.set_message("writing the annotated workbook");
+    // The parsed fitting rows are not needed to write: free them before the sheets' peak.
+    input.release_fitting_rows();
     let prepared = job.prepare(&input, &done).map_err(written_or)?;
     // The input (every cell and row read) is not needed to save: free it before the save's
     // own peak (docs/reliability.md, memory).

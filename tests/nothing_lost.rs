@@ -284,3 +284,29 @@ fn every_fixture_workbook_keeps_every_cell() {
         check_kept_with(&p.display().to_string(), &bytes, &extra);
     }
 }
+
+/// Releasing the parsed fitting rows before writing (as `lossledger audit` does, to save memory)
+/// loses none of their assumed values: every one is still listed, with its line, in order.
+#[test]
+fn releasing_fitting_rows_keeps_every_assumed_value() {
+    let dir = temp_dir("release-rows");
+    let path = dir.join("demo.xlsx");
+    std::fs::write(&path, lossledger::demo::input_workbook().unwrap()).unwrap();
+    let sources = [lossledger::ingest::InputSource::Path(path)];
+    let mut input =
+        lossledger::ingest::read_inputs(&sources, &Default::default()).expect("demo reads");
+    let listed = |input: &lossledger::ingest::Input| -> Vec<(String, String, String)> {
+        input
+            .assumed()
+            .map(|(l, a)| (l.to_string(), a.cell.to_string(), a.what.clone()))
+            .collect()
+    };
+    let before = listed(&input);
+    assert!(
+        input.fittings.iter().any(|f| !f.assumed.is_empty()),
+        "the demo assumes nothing on its fittings: the test would prove nothing"
+    );
+    input.release_fitting_rows();
+    assert!(input.fittings.is_empty());
+    assert_eq!(listed(&input), before);
+}

@@ -139,8 +139,11 @@ pub struct Input {
     pub lines: Vec<LineRow>,
     /// Parsed rows.
     pub pipes: Vec<PipeRow>,
-    /// Parsed rows.
+    /// Parsed rows (empty after [`Input::release_fitting_rows`]).
     pub fittings: Vec<FittingRow>,
+    /// The values assumed on fitting rows released by [`Input::release_fitting_rows`], each with
+    /// its line.
+    pub released_assumed: Vec<(String, rows::Assumed)>,
     /// Parsed rows.
     pub systems: Vec<SystemRow>,
     /// Parsed rows.
@@ -425,6 +428,7 @@ impl Input {
             lines: Vec::new(),
             pipes: Vec::new(),
             fittings: Vec::new(),
+            released_assumed: Vec::new(),
             systems: Vec::new(),
             fluids: Vec::new(),
             pump_curves: Vec::new(),
@@ -789,7 +793,21 @@ impl Input {
             .fittings
             .iter()
             .flat_map(|f| f.assumed.iter().map(move |a| (f.line.as_str(), a)));
-        lines.chain(pipes).chain(fittings)
+        let released = self.released_assumed.iter().map(|(l, a)| (l.as_str(), a));
+        lines.chain(pipes).chain(fittings).chain(released)
+    }
+
+    /// Free the parsed fitting rows once the audit has used them, keeping what the annotated
+    /// workbook still needs of them: the values assumed ([`Input::assumed`] is unchanged). The
+    /// rows are the largest part of a big register's input after its cells (about 350 bytes a
+    /// fitting); `lossledger audit` releases them before writing (docs/reliability.md).
+    pub fn release_fitting_rows(&mut self) {
+        let rows = std::mem::take(&mut self.fittings);
+        for f in rows {
+            let line = f.line;
+            self.released_assumed
+                .extend(f.assumed.into_iter().map(|a| (line.clone(), a)));
+        }
     }
 
     /// Assumed values counted per sheet and what was assumed.

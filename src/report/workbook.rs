@@ -297,11 +297,8 @@ fn collect_marks(
         ));
     }
     let assumed = input
-        .lines
-        .iter()
-        .flat_map(|l| &l.assumed)
-        .chain(input.pipes.iter().flat_map(|p| &p.assumed))
-        .chain(input.fittings.iter().flat_map(|f| &f.assumed))
+        .assumed()
+        .map(|(_, a)| a)
         .chain(audit.systems.iter().flat_map(|s| &s.assumed));
     for a in assumed {
         let has_col = input.layouts.iter().any(|l| {
