@@ -310,3 +310,54 @@ fn releasing_fitting_rows_keeps_every_assumed_value() {
     assert!(input.fittings.is_empty());
     assert_eq!(listed(&input), before);
 }
+
+/// On a huge register the notes on one sheet stop at `MAX_NOTES_PER_SHEET` (2,000: each note
+/// costs the writer memory until the save), while every finding is still listed in Findings.
+#[test]
+fn notes_stop_at_the_cap_and_findings_keep_every_item() {
+    const ITEMS: usize = 2_100;
+    const { assert!(ITEMS > lossledger::report::workbook::MAX_NOTES_PER_SHEET) };
+    let mut station = base_station();
+    let fittings = sheet(&mut station, "Fittings");
+    for i in 0..ITEMS {
+        // A globe valve's K on DN100 (about 15 by Darby 3-K) is above the default limit of 5.
+        let row = vec![s(&format!("G{i}")), s("L1"), s("valve-globe"), s("DN100")];
+        fittings.rows.push(row);
+    }
+    let dir = temp_dir("notes-cap");
+    let input = dir.join("many.xlsx");
+    std::fs::write(&input, xlsx(&station)).unwrap();
+    let out = dir.join("many.audit.xlsx");
+    let ran = run(&[
+        OsStr::new("audit"),
+        input.as_os_str(),
+        OsStr::new("-o"),
+        out.as_os_str(),
+    ]);
+    assert_eq!(ran.code, Some(0), "{}", ran.stderr);
+    let mut zip = zip::ZipArchive::new(std::fs::File::open(&out).unwrap()).unwrap();
+    let mut notes_per_part = Vec::new();
+    let mut findings_listed = 0;
+    for i in 0..zip.len() {
+        let mut part = zip.by_index(i).unwrap();
+        let name = part.name().unwrap().to_string();
+        let mut text = String::new();
+        std::io::Read::read_to_string(&mut part, &mut text).unwrap();
+        if name.starts_with("xl/comments") {
+            notes_per_part.push(text.matches("<comment ").count());
+        }
+        if name.starts_with("xl/worksheets/sheet") {
+            findings_listed = findings_listed.max(text.matches(">high-loss-fitting<").count());
+        }
+    }
+    let capped = lossledger::report::workbook::MAX_NOTES_PER_SHEET;
+    assert_eq!(
+        notes_per_part.iter().max(),
+        Some(&capped),
+        "{notes_per_part:?}"
+    );
+    assert!(
+        findings_listed >= ITEMS,
+        "Findings lists {findings_listed} of {ITEMS}"
+    );
+}
