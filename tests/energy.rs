@@ -26,26 +26,15 @@ fn energy_arithmetic_matches_the_hand_worked_example() {
     let dp = 998.2 * G * 4.0;
     assert!(rel(dp, 39_155.992_12) < REL_TOL_SAME_ARITHMETIC, "Δp {dp}");
     let e = loss_energy(39_155.992_12, 0.05, &basis).unwrap();
-    assert!(
-        rel(e.power_loss_w, 1_957.799_606) < REL_TOL_SAME_ARITHMETIC,
-        "{e:?}"
-    );
-    assert!(
-        rel(e.electrical_power_w, 2_796.856_580) < REL_TOL_SAME_ARITHMETIC,
-        "{e:?}"
-    );
-    assert!(
-        rel(e.annual_energy_kwh, 13_984.282_90) < REL_TOL_SAME_ARITHMETIC,
-        "{e:?}"
-    );
-    assert!(
-        rel(e.annual_cost, 1_678.113_948) < REL_TOL_SAME_ARITHMETIC,
-        "{e:?}"
-    );
-    assert!(
-        rel(e.annual_co2_kg, 5_593.713_160) < REL_TOL_SAME_ARITHMETIC,
-        "{e:?}"
-    );
+    for (got, want) in [
+        (e.power_loss_w, 1_957.799_606),
+        (e.electrical_power_w, 2_796.856_580),
+        (e.annual_energy_kwh, 13_984.282_90),
+        (e.annual_cost, 1_678.113_948),
+        (e.annual_co2_kg, 5_593.713_160),
+    ] {
+        assert!(rel(got, want) < REL_TOL_SAME_ARITHMETIC, "{want}: {e:?}");
+    }
 }
 
 #[test]

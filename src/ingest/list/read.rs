@@ -777,33 +777,22 @@ fn run_schedule(
     c: &mut Cells<'_>,
     schedule_text: Option<pipe::Schedule>,
 ) -> Option<pipe::Schedule> {
-    match c.text("schedule") {
-        Some(t) => match pipe::parse_schedule(&t) {
-            Some(s) => {
-                if let Some(d) = schedule_text.filter(|d| *d != s) {
-                    warn_both(
-                        c,
-                        "schedule",
-                        format!(
-                            "the Schedule column says {} but the description says {}: the column is used",
-                            s.label(),
-                            d.label()
-                        ),
-                    );
-                }
-                Some(s)
-            }
-            None => {
-                c.error(
-                    "schedule",
-                    format!("schedule '{t}' is not known"),
-                    Some("write e.g. 40, STD, XS, 80, 10S, 40S or SDR11".into()),
-                );
-                None
-            }
-        },
-        None => schedule_text,
+    let Some(t) = c.text("schedule") else {
+        return schedule_text;
+    };
+    let s = c.schedule_of(&t)?;
+    if let Some(d) = schedule_text.filter(|d| *d != s) {
+        warn_both(
+            c,
+            "schedule",
+            format!(
+                "the Schedule column says {} but the description says {}: the column is used",
+                s.label(),
+                d.label()
+            ),
+        );
     }
+    Some(s)
 }
 
 /// A run's material: the Material column (warning when the description says another), else the

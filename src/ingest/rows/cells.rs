@@ -97,6 +97,19 @@ impl Cells<'_> {
             .unwrap_or_else(|| key.to_string())
     }
 
+    /// Schedule text `t` from the Schedule cell read as a schedule; None after an error at the
+    /// cell when no schedule is spelled so.
+    pub(crate) fn schedule_of(&mut self, t: &str) -> Option<crate::physics::pipe::Schedule> {
+        crate::physics::pipe::parse_schedule(t).or_else(|| {
+            self.error(
+                "schedule",
+                format!("schedule '{t}' is not known"),
+                Some("write e.g. 40, STD, XS, 80, 10S, 40S or SDR11".into()),
+            );
+            None
+        })
+    }
+
     /// A number in SI units of the column's quantity (or plain), None for blank.
     pub(crate) fn number(&mut self, key: &str) -> Option<f64> {
         let mapped = self.col(key)?.clone();

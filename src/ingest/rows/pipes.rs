@@ -51,16 +51,7 @@ pub(super) fn read_pipes(input: &Input, sink: &mut Sink) -> Vec<PipeRow> {
         };
         let mut assumed = Vec::new();
         let size = c.size("size");
-        let schedule = c.text("schedule").and_then(|t| {
-            pipe::parse_schedule(&t).or_else(|| {
-                c.error(
-                    "schedule",
-                    format!("schedule '{t}' is not known"),
-                    Some("write e.g. 40, STD, XS, 80, 10S, 40S or SDR11".into()),
-                );
-                None
-            })
-        });
+        let schedule = c.text("schedule").and_then(|t| c.schedule_of(&t));
         let material = match c.text("material") {
             Some(t) => match pipe::material_from_text(&t) {
                 Some(m) => m,
