@@ -572,7 +572,8 @@ fn run_job(job: &AuditJob) -> Result<audit::Audit, u8> {
         say(d);
     }
     progress.set_message("computing losses");
-    let done = job.audit(&input).map_err(|e| {
+    // The parsed fitting rows are freed once placed and checked, before the audit's peak.
+    let done = job.audit_releasing_rows(&mut input).map_err(|e| {
         if let AuditError::Invalid { errors, .. } = &e {
             errors.iter().for_each(|d| say(d));
         }
@@ -589,8 +590,6 @@ fn run_job(job: &AuditJob) -> Result<audit::Audit, u8> {
         if e.is_internal() { 3 } else { 2 }
     };
     progress.set_message("writing the annotated workbook");
-    // The parsed fitting rows are not needed to write: free them before the sheets' peak.
-    input.release_fitting_rows();
     let prepared = job.prepare(&input, &done).map_err(written_or)?;
     // The input (every cell and row read) is not needed to save: free it before the save's
     // own peak (docs/reliability.md, memory).

@@ -306,6 +306,35 @@ impl AuditJob {
         audit(input, &self.rules).map_err(|errors| AuditError::invalid(input, errors))
     }
 
+    /// [`AuditJob::audit`], freeing the parsed fitting rows as soon as the audit no longer needs
+    /// them ([`audit::run_releasing_rows`]): what `lossledger audit` does, for the memory of big
+    /// registers. The audit and the workbook written from it are the same.
+    ///
+    /// # Errors
+    /// As [`AuditJob::audit`].
+    ///
+    /// # Example
+    /// ```
+    /// use lossledger::pipeline::AuditJob;
+    /// use lossledger::ingest::InputSource;
+    ///
+    /// let dir = std::env::temp_dir().join(format!("lossledger-doc-release-{}", std::process::id()));
+    /// std::fs::create_dir_all(&dir)?;
+    /// let input = dir.join("blank.xlsx");
+    /// lossledger::template::write(&input, Default::default(), Default::default())?;
+    /// let job = AuditJob::new(vec![InputSource::Path(input)], dir.join("out.xlsx"));
+    /// let mut read = job.read()?;
+    /// let audit = job.audit_releasing_rows(&mut read)?;
+    /// assert!(!audit.fittings.is_empty() && read.fittings.is_empty());
+    /// std::fs::remove_dir_all(&dir)?;
+    /// # Ok::<(), Box<dyn std::error::Error>>(())
+    /// ```
+    pub fn audit_releasing_rows(&self, input: &mut Input) -> Result<Audit, AuditError> {
+        audit::run_releasing_rows(input, &self.rules)
+            .and_then(|done| finite(input, done))
+            .map_err(|errors| AuditError::invalid(input, errors))
+    }
+
     /// Write the annotated workbook and the JSON: [`AuditJob::prepare`], then [`Prepared::save`].
     ///
     /// # Errors
@@ -542,7 +571,11 @@ pub fn check(sources: &[InputSource], options: &ReadOptions) -> Result<Checked, 
 /// # Errors
 /// The error diagnostics, each at its source cell.
 pub fn audit(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
-    let done = audit::run(input, rules)?;
+    finite(input, audit::run(input, rules)?)
+}
+
+/// The audit when every result is a finite number; the errors at the items that are not.
+fn finite(input: &Input, done: Audit) -> Result<Audit, Vec<Diagnostic>> {
     let overflow = non_finite_results(input, &done);
     if overflow.is_empty() {
         Ok(done)

@@ -78,6 +78,20 @@ impl Sentence {
     }
 }
 
+/// Sentences rendered in `units`, joined with `sep`.
+///
+/// # Example
+/// ```
+/// use lossledger::sentence::{Sentence, fig, join};
+/// use lossledger::units::UnitSystem;
+/// let notes = [Sentence::new(format!("lift {}", fig(2.0, "m", 1))), Sentence::from("no curve")];
+/// assert_eq!(join(&notes, "; ", UnitSystem::Us), "lift 6.6 ft; no curve");
+/// ```
+pub fn join(sentences: &[Sentence], sep: &str, units: UnitSystem) -> String {
+    let rendered: Vec<Cow<'_, str>> = sentences.iter().map(|s| s.render(units)).collect();
+    rendered.join(sep)
+}
+
 impl From<String> for Sentence {
     fn from(text: String) -> Sentence {
         Sentence(text)

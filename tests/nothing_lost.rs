@@ -311,6 +311,28 @@ fn releasing_fitting_rows_keeps_every_assumed_value() {
     assert_eq!(listed(&input), before);
 }
 
+/// Freeing the fitting rows during the audit, once the fittings are placed and checked (what
+/// `lossledger audit` does), leaves the audit as it is: the same JSON, and the same fittings,
+/// findings and systems down to the fields the JSON leaves out.
+#[test]
+fn releasing_rows_during_the_audit_changes_nothing_in_it() {
+    let dir = temp_dir("release-during");
+    let path = dir.join("demo.xlsx");
+    std::fs::write(&path, lossledger::demo::input_workbook().unwrap()).unwrap();
+    let sources = [lossledger::ingest::InputSource::Path(path)];
+    let mut input =
+        lossledger::ingest::read_inputs(&sources, &Default::default()).expect("demo reads");
+    let rules = lossledger::audit::Rules::default();
+    let kept = lossledger::audit::run(&input, &rules).expect("demo audits");
+    let released = lossledger::audit::run_releasing_rows(&mut input, &rules).expect("audits");
+    assert!(input.fittings.is_empty(), "the rows were not released");
+    let json = |a| lossledger::report::json::to_string(&input, a).unwrap();
+    assert_eq!(json(&kept), json(&released));
+    let all =
+        |a: &lossledger::audit::Audit| format!("{:?} {:?} {:?}", a.fittings, a.findings, a.systems);
+    assert_eq!(all(&kept), all(&released));
+}
+
 /// On a huge register the notes on one sheet stop at `MAX_NOTES_PER_SHEET` (2,000: each note
 /// costs the writer memory until the save), while every finding is still listed in Findings.
 #[test]

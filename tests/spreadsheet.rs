@@ -23,6 +23,8 @@ const SHOWN_TOL: f64 = 1e-5;
 const FT_PER_M: f64 = 1.0 / 0.3048;
 /// US gpm per m³/h, from 1 US gal = 3.785411784 L exactly (NIST SP 811 B.8).
 const GPM_PER_M3H: f64 = 1000.0 / 3.785411784 / 60.0;
+/// 1 psi = 6894.757 Pa (NIST SP 811, B.8).
+const PSI_PER_KPA: f64 = 1000.0 / 6894.757;
 
 /// The demo's input (written into `dir` on first use), and its audit written in `units`.
 fn demo_audited(dir: &Path, units: &str) -> Xlsx<std::io::BufReader<std::fs::File>> {
@@ -186,6 +188,71 @@ fn units_us_converts_the_summary_and_ranking_heads() {
     }
 }
 
+/// `--units us` writes the figures of the System checks sheet's notes (the defaults applied to
+/// NPSH, the notes, the savings' basis) in US units, each the SI figure converted.
+#[test]
+fn units_us_writes_the_system_notes_in_us_units() {
+    let dir = temp_dir("system-notes");
+    let (si, us) = (
+        system_notes(&mut demo_audited(&dir, "si")),
+        system_notes(&mut demo_audited(&dir, "us")),
+    );
+    let converted = assert_converted(&si, &us);
+    assert!(
+        converted >= 2,
+        "the demo's system notes hold only {converted} figures: {si:?}"
+    );
+}
+
+/// SI units of the figures in sentences, and the US units they become.
+const SI_UNITS: [&str; 4] = ["m/s", "m3/h", "kPa", "m"];
+const US_UNITS: [&str; 4] = ["ft/s", "US gpm", "psi", "ft"];
+
+/// Each US sentence has the SI one's figures, each converted (NIST SP 811 B.8 factors) within
+/// the rounding of both, and no SI figure is left in it. Returns the figures compared.
+fn assert_converted(si: &[String], us: &[String]) -> usize {
+    assert_eq!(si.len(), us.len());
+    let mut converted = 0;
+    for (a, b) in si.iter().zip(us) {
+        let (fa, fb) = (figures(a, &SI_UNITS), figures(b, &US_UNITS));
+        assert_eq!(fa.len(), fb.len(), "{a}\n{b}");
+        assert!(figures(b, &SI_UNITS).is_empty(), "SI figure left in: {b}");
+        for ((x, hx, ux), (y, hy, uy)) in fa.iter().zip(&fb) {
+            let factor = match ux.as_str() {
+                "m3/h" => GPM_PER_M3H,
+                "kPa" => PSI_PER_KPA,
+                _ => FT_PER_M,
+            };
+            assert_eq!(US_UNITS[SI_UNITS.iter().position(|u| u == ux).unwrap()], uy);
+            // Each side is rounded once: half a unit in the SI figure's last decimal, scaled,
+            // plus half a unit in the US figure's.
+            let slack = hx * factor + hy;
+            assert!((x * factor - y).abs() <= slack, "{x} {ux} vs {y} {uy}: {a}");
+            converted += 1;
+        }
+    }
+    converted
+}
+
+/// The System checks sheet's sentences: the text beside "Defaults applied", "Note" and the
+/// savings' basis, in row order.
+fn system_notes(book: &mut Xlsx<std::io::BufReader<std::fs::File>>) -> Vec<String> {
+    const LABELS: [&str; 3] = [
+        "Defaults applied",
+        "Note",
+        "Savings of the suggestions (estimate)",
+    ];
+    let sheet = book.worksheet_range("System checks").unwrap();
+    labelled(&sheet, 1)
+        .into_iter()
+        .filter(|(label, _)| LABELS.contains(&label.as_str()))
+        .filter_map(|(_, d)| match d {
+            Data::String(s) => Some(s),
+            _ => None,
+        })
+        .collect()
+}
+
 /// The figures in a message: (value, half a unit in its last decimal, unit) for each number
 /// followed by one of `units`. Gradients (`m per 100 m`) are ratios and left out.
 fn figures(message: &str, units: &[&str]) -> Vec<(f64, f64, String)> {
@@ -227,26 +294,7 @@ fn units_us_writes_the_finding_messages_in_us_units() {
         messages(&mut demo_audited(&dir, "si")),
         messages(&mut demo_audited(&dir, "us")),
     );
-    assert_eq!(si.len(), us.len());
-    let (si_units, us_units) = (["m/s", "m3/h", "m"], ["ft/s", "US gpm", "ft"]);
-    let mut converted = 0;
-    for (a, b) in si.iter().zip(&us) {
-        let (fa, fb) = (figures(a, &si_units), figures(b, &us_units));
-        assert_eq!(fa.len(), fb.len(), "{a}\n{b}");
-        assert!(figures(b, &si_units).is_empty(), "SI figure left in: {b}");
-        for ((x, hx, ux), (y, hy, uy)) in fa.iter().zip(&fb) {
-            let factor = match ux.as_str() {
-                "m3/h" => GPM_PER_M3H,
-                _ => FT_PER_M,
-            };
-            assert_eq!(us_units[si_units.iter().position(|u| u == ux).unwrap()], uy);
-            // Each side is rounded once: half a unit in the SI figure's last decimal, scaled,
-            // plus half a unit in the US figure's.
-            let slack = hx * factor + hy;
-            assert!((x * factor - y).abs() <= slack, "{x} {ux} vs {y} {uy}: {a}");
-            converted += 1;
-        }
-    }
+    let converted = assert_converted(&si, &us);
     assert!(
         converted >= 3,
         "the demo's findings hold only {converted} figures"
@@ -271,13 +319,13 @@ fn units_us_writes_the_finding_messages_in_us_units() {
     assert_eq!(json_messages.len(), si.len());
     for m in &json_messages {
         assert!(
-            figures(m, &us_units).is_empty(),
+            figures(m, &US_UNITS).is_empty(),
             "JSON message not in SI: {m}"
         );
     }
     let si_figures: usize = json_messages
         .iter()
-        .map(|m| figures(m, &si_units).len())
+        .map(|m| figures(m, &SI_UNITS).len())
         .sum();
     assert_eq!(si_figures, converted, "the JSON's messages lost figures");
 }

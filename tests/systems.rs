@@ -686,7 +686,7 @@ fn a_blank_site_elevation_is_assumed_sea_level_and_listed_among_the_defaults() {
     assert!(site[0].what.contains("site elevation 0 m"));
     assert!(
         s.defaults.iter().any(|d| d.contains("site elevation 0 m"))
-            && s.defaults.iter().any(|d| d.contains("101325 Pa")),
+            && s.defaults.iter().any(|d| d.contains("101.325 kPa")),
         "{:?}",
         s.defaults
     );

@@ -262,6 +262,32 @@ impl Audit {
 /// Run the audit on a parsed input. Returns the error diagnostics instead when the input has any,
 /// or when applying the physics reveals them.
 pub fn run(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
+    let placed = place(input, rules)?;
+    finish(input, rules, placed)
+}
+
+/// [`run`], freeing the parsed fitting rows ([`Input::release_fitting_rows`]) as soon as the
+/// fittings are placed and checked: the later stages (systems, energy, station) work from the
+/// results and the fitting models. The audit is the same as [`run`]'s; on a big register the
+/// rows are about a sixth of the audit's peak memory (docs/reliability.md).
+///
+/// # Errors
+/// As [`run`]; the rows are kept when the input has errors.
+pub fn run_releasing_rows(input: &mut Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
+    let placed = place(input, rules)?;
+    input.release_fitting_rows();
+    finish(input, rules, placed)
+}
+
+/// The audit up to the fitting findings: what still needs the parsed fitting rows.
+struct Placed {
+    audit: Audit,
+    // The fitting models (what re-evaluates an item at another flow or as another kind) live
+    // only while the audit runs: on huge registers they are a good share of the memory.
+    models: Vec<lines::FittingModel>,
+}
+
+fn place(input: &Input, rules: &Rules) -> Result<Placed, Vec<Diagnostic>> {
     if input.error_count() > 0 {
         return Err(input
             .diagnostics
@@ -272,8 +298,6 @@ pub fn run(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
     }
     crate::worker::enter(crate::worker::Phase::Audit, &input.file);
     crate::worker::fault::point(crate::worker::fault::Place::Audit);
-    // The fitting models (what re-evaluates an item at another flow or as another kind) live
-    // only while the audit runs: on huge registers they are a good share of the memory.
     let lines::Computed {
         mut audit,
         models,
@@ -281,6 +305,11 @@ pub fn run(input: &Input, rules: &Rules) -> Result<Audit, Vec<Diagnostic>> {
     } = lines::compute(input, rules)?;
     findings::placement(input, &mut audit, &placements);
     findings::apply(input, rules, &mut audit);
+    Ok(Placed { audit, models })
+}
+
+fn finish(input: &Input, rules: &Rules, placed: Placed) -> Result<Audit, Vec<Diagnostic>> {
+    let Placed { mut audit, models } = placed;
     system::apply(input, rules, &mut audit, &models);
     station::pump_curves(input, rules, &mut audit)?;
     energy::apply(input, rules, &mut audit, &models);

@@ -12,6 +12,7 @@ use super::system::{CurvePoint, SystemResult, interpolate, required_head_at};
 use super::{Audit, Rules};
 use crate::ingest::rows::Control;
 use crate::physics::fitting::Group;
+use crate::sentence::{Sentence, fig};
 
 /// Fixed-speed suggestions re-solved per system, the largest head savings first; the rest report
 /// no re-solved point (each re-solve recomputes the system curve some 250 times).
@@ -104,7 +105,7 @@ pub struct SystemSavings {
     /// Fixed-speed figures (fixed and throttled systems with a pump curve and operating point).
     pub fixed: Option<FixedCase>,
     /// What the saving rests on, in words.
-    pub note: String,
+    pub note: Sentence,
 }
 
 impl SavingCase {
@@ -234,13 +235,13 @@ fn note(
     s: &SystemResult,
     throttling_head_m: f64,
     fixed: Option<&FixedCase>,
-) -> String {
+) -> Sentence {
     let runs_out = fixed
         .map(|f| {
             format!(
-                "; until then the pump runs out to {:.1} m3/h at {:.2} m, drawing {:.1} kW instead of {:.1} kW",
-                f.after.flow_m3_s * 3600.0,
-                f.after.head_m,
+                "; until then the pump runs out to {} at {}, drawing {:.1} kW instead of {:.1} kW",
+                fig(f.after.flow_m3_s * 3600.0, "m3/h", 1),
+                fig(f.after.head_m, "m", 2),
                 f.power_after_w / 1e3,
                 f.power_before_w / 1e3
             )
@@ -251,7 +252,7 @@ fn note(
     } else {
         ""
     };
-    match case {
+    let text = match case {
         SavingCase::Speed => {
             format!("speed control holds the duty flow at the lower head: saved at once{curve}")
         }
@@ -259,13 +260,15 @@ fn note(
             "fixed speed: saved once the impeller is trimmed or a speed drive fitted{runs_out}{curve}"
         ),
         SavingCase::Throttled if throttling_head_m > 0.0 => format!(
-            "throttled: the throttling valves' {throttling_head_m:.2} m is saved once speed control or trimming replaces them; other savings likewise, the valve otherwise takes up the head{runs_out}"
+            "throttled: the throttling valves' {} is saved once speed control or trimming replaces them; other savings likewise, the valve otherwise takes up the head{runs_out}",
+            fig(throttling_head_m, "m", 2)
         ),
         SavingCase::Throttled => format!(
             "throttled, but no part-open valve is listed (Opening): the throttling loss is not known; savings are realised once speed control or trimming replaces the throttling{runs_out}"
         ),
         SavingCase::NoSystem => String::new(),
-    }
+    };
+    Sentence::new(text)
 }
 
 /// Wire-to-water efficiency at a flow: the pump curve's times the motor's, else the held value.

@@ -5,7 +5,7 @@
 //! from the `Systems` sheet (its `Lines` cell) or, failing that, from the `System` column of
 //! `Lines` (input order, pump-suction lines first). See `docs/energy.md`.
 
-use crate::sentence::fig;
+use crate::sentence::{Sentence, fig};
 use serde::Serialize;
 
 use super::lines::{FittingModel, line_heads_at};
@@ -133,10 +133,10 @@ pub struct SystemResult {
     pub fails_npsh: bool,
     /// What could not be checked, and why.
     #[serde(skip)]
-    pub notes: Vec<String>,
+    pub notes: Vec<Sentence>,
     /// Defaults that fed the NPSH figures (site elevation, atmosphere, temperature), in words.
     #[serde(skip)]
-    pub defaults: Vec<String>,
+    pub defaults: Vec<Sentence>,
     /// Cells assumed for the system (the blank Site elevation cell, or the system's id cell when
     /// there is no such column), marked in the copy.
     #[serde(skip)]
@@ -258,7 +258,7 @@ pub struct SystemCheck {
     /// The result.
     pub outcome: Outcome,
     /// Why a check was not made, or what it rests on.
-    pub note: String,
+    pub note: Sentence,
 }
 
 /// NPSH available against required at one flow.
@@ -729,14 +729,15 @@ fn one_system(
 
 /// Indices of the audited lines among a system's `names`; a note for each name that is not
 /// audited (left out of the system's head).
-fn audited_lines(audit: &Audit, names: &[String], notes: &mut Vec<String>) -> Vec<usize> {
+fn audited_lines(audit: &Audit, names: &[String], notes: &mut Vec<Sentence>) -> Vec<usize> {
     let mut idx = Vec::new();
     for n in names {
         match audit.line_of(n) {
             Some(i) => idx.push(i),
-            None => notes.push(format!(
-                "line {n} is not among the audited lines: left out of the system's head"
-            )),
+            None => notes.push(
+                format!("line {n} is not among the audited lines: left out of the system's head")
+                    .into(),
+            ),
         }
     }
     idx
@@ -749,7 +750,7 @@ fn crossing(
     pump_curve: &[CurvePoint],
     duty: f64,
     head_at: impl Fn(f64) -> f64,
-    notes: &mut Vec<String>,
+    notes: &mut Vec<Sentence>,
 ) -> Option<CurvePoint> {
     let usable = duty > 0.0 && pump_curve.len() >= 2;
     if !usable {
@@ -768,7 +769,7 @@ fn pump_head(
     row: Option<&SystemRow>,
     pump_curve: &[CurvePoint],
     duty: f64,
-    notes: &mut Vec<String>,
+    notes: &mut Vec<Sentence>,
 ) -> (Option<f64>, String) {
     if let Some(h) = row.and_then(|r| r.pump_head_m) {
         return (Some(h), "Systems sheet".to_string());
@@ -829,8 +830,11 @@ fn head_check(
         },
         note: match (pump_head_m, static_head_given) {
             (None, _) => "no pump head at duty flow".into(),
-            (Some(_), false) => "static head not given (taken as 0 m)".into(),
-            (Some(_), true) => String::new(),
+            (Some(_), false) => Sentence::new(format!(
+                "static head not given (taken as {})",
+                fig(0.0, "m", 0)
+            )),
+            (Some(_), true) => Sentence::default(),
         },
     }
 }
@@ -885,7 +889,7 @@ struct NpshOutcome {
     checks: Vec<SystemCheck>,
     site_elevation_m: f64,
     site_elevation_basis: String,
-    defaults: Vec<String>,
+    defaults: Vec<Sentence>,
     assumed: Vec<crate::ingest::rows::Assumed>,
 }
 
@@ -914,7 +918,7 @@ fn npsh(
     suction: &[usize],
     duty: f64,
     op: Option<CurvePoint>,
-    notes: &mut Vec<String>,
+    notes: &mut Vec<Sentence>,
     found: &mut Vec<Finding>,
 ) -> NpshOutcome {
     let (input, rules, audit, row) = (ctx.input, ctx.rules, ctx.audit, place.row);
@@ -937,20 +941,22 @@ fn npsh(
     out.required_at_duty = required_at_duty;
     let needed = |r: f64| npsh_needed(r, rules.npsh.margin_ratio, rules.npsh.margin_min_m);
     out.needed_at_duty = required_at_duty.map(needed);
-    let not_checked = |check: &'static str, flow: f64, note: &str| SystemCheck {
+    let not_checked = |check: &'static str, flow: f64, note: &Sentence| SystemCheck {
         check,
         flow_m3_s: flow,
         available_m: None,
         nominal_m: None,
         needed_m: None,
         outcome: Outcome::NotChecked,
-        note: note.to_string(),
+        note: note.clone(),
     };
     if suction.is_empty() {
         if required_at_duty.is_some() {
-            let why = "no pump-suction line leads the system: NPSH available not computed";
-            notes.push(why.into());
-            out.checks.push(not_checked("NPSH at duty", duty, why));
+            let why = Sentence::from(
+                "no pump-suction line leads the system: NPSH available not computed",
+            );
+            out.checks.push(not_checked("NPSH at duty", duty, &why));
+            notes.push(why);
         }
         return out;
     }
@@ -1038,7 +1044,7 @@ fn npshr_at_duty(
 
 /// The suction level (Systems sheet) and the vapour pressure of the first suction line's fluid;
 /// the reason NPSH available cannot be computed when one is missing.
-fn suction_inputs(row: Option<&SystemRow>, first: &LineResult) -> Result<(f64, f64), String> {
+fn suction_inputs(row: Option<&SystemRow>, first: &LineResult) -> Result<(f64, f64), Sentence> {
     let Some(level) = row.and_then(|r| r.suction_level_m) else {
         return Err("no Suction level given: NPSH available not computed".into());
     };
@@ -1046,23 +1052,25 @@ fn suction_inputs(row: Option<&SystemRow>, first: &LineResult) -> Result<(f64, f
         return Err(format!(
             "fluid of line {} has no vapour pressure: NPSH available not computed",
             first.line
-        ));
+        )
+        .into());
     };
     Ok((level, pv))
 }
 
 /// A default to list when the first suction line's temperature was assumed (it sets the
 /// vapour pressure).
-fn assumed_temperature(input: &Input, first: &LineResult) -> Option<String> {
+fn assumed_temperature(input: &Input, first: &LineResult) -> Option<Sentence> {
     let line = input.lines.iter().find(|l| l.line == first.line)?;
     line.assumed
         .iter()
         .any(|a| a.key == "temperature")
         .then(|| {
-            format!(
-                "temperature {} °C on suction line {} (Temperature blank: assumed)",
-                first.temperature_c, first.line
-            )
+            Sentence::new(format!(
+                "temperature {} on suction line {} (Temperature blank: assumed)",
+                fig(first.temperature_c, "°C", 1),
+                first.line
+            ))
         })
 }
 
@@ -1080,8 +1088,10 @@ fn source_pressure(
     let z = out.site_elevation_m;
     let p = atmospheric_pressure_pa(z);
     if elevation_assumed {
-        out.defaults
-            .push("site elevation 0 m assumed (sea level; no Site elevation given)".into());
+        out.defaults.push(Sentence::new(format!(
+            "site elevation {} assumed (sea level; no Site elevation given)",
+            fig(0.0, "m", 0)
+        )));
         let key = if place.has_column("site_elevation") {
             "site_elevation"
         } else {
@@ -1097,9 +1107,11 @@ fn source_pressure(
             });
         }
     }
-    out.defaults.push(format!(
-        "source pressure {p:.0} Pa, the ISO 2533 standard atmosphere at {z} m (no Source pressure given)"
-    ));
+    out.defaults.push(Sentence::new(format!(
+        "source pressure {}, the ISO 2533 standard atmosphere at {} (no Source pressure given)",
+        fig(p / 1e3, "kPa", 3),
+        fig(z, "m", 0)
+    )));
     (p, "standard atmosphere at site elevation")
 }
 
@@ -1148,7 +1160,7 @@ fn npsh_check_row(check: &'static str, c: &NpshCheck) -> SystemCheck {
         } else if c.required_basis.starts_with("the duty value") {
             "NPSH required: duty value".into()
         } else {
-            String::new()
+            Sentence::default()
         },
     }
 }
@@ -1283,7 +1295,7 @@ mod tests {
             nominal_m: None,
             needed_m: None,
             outcome,
-            note: String::new(),
+            note: Sentence::default(),
         }
     }
 

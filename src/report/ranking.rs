@@ -10,6 +10,7 @@ use crate::audit::energy::{OPERATING_POINT_CAUTION, RankBasis, SAVINGS_CAUTION};
 use crate::audit::system::{CurvePoint, Outcome, SystemResult};
 use crate::audit::{Audit, FittingResult};
 use crate::error::quote_sheet;
+use crate::sentence::{Sentence, join};
 use crate::units::{UnitSystem, console_unit, header_in};
 
 /// What the columns of a systems checks table mean (console, Summary).
@@ -612,16 +613,17 @@ fn write_system(
         ws.write_string_with_format(r, 1, text, fmt)?;
         r += 1;
     }
-    let station = super::station::station_figures(s, &audit.rules, &audit.energy.currency);
+    let station =
+        super::station::station_figures(s, &audit.rules, &audit.energy.currency, st.units);
     r = write_figures(ws, r, &station, st)?;
     if !s.defaults.is_empty() {
         ws.write_string_with_format(r, 0, "Defaults applied", &st.bold)?;
-        ws.write_string_with_format(r, 1, s.defaults.join("; "), &st.wrap)?;
+        ws.write_string_with_format(r, 1, join(&s.defaults, "; ", st.units), &st.wrap)?;
         r += 1;
     }
     for n in &s.notes {
         ws.write_string_with_format(r, 0, "Note", &st.bold)?;
-        ws.write_string_with_format(r, 1, n, &st.wrap)?;
+        ws.write_string_with_format(r, 1, n.render(st.units), &st.wrap)?;
         r += 1;
     }
     r += 1;
@@ -869,7 +871,7 @@ fn write_summary_systems(
                 Outcome::NotChecked => &st.bold,
             };
             ws.write_string_with_format(r, 6, c.outcome.label(), fmt)?;
-            ws.write_string(r, 7, &c.note)?;
+            ws.write_string(r, 7, c.note.render(st.units))?;
         }
     }
     r += 1;
@@ -884,7 +886,7 @@ fn write_summary_systems(
             if failing { &st.bad } else { &st.good },
         )?;
     }
-    for line in defaults_applied(audit) {
+    for line in defaults_applied(audit, st.units) {
         r += 1;
         ws.write_string(r, 0, line)?;
     }
@@ -968,8 +970,8 @@ pub fn console_energy(audit: &Audit, units: UnitSystem, width: Option<usize>) ->
 
 /// The defaults that fed NPSH available, one sentence per set of systems sharing them
 /// ("Defaults applied to NPSH (Duty A, Duty B): …").
-pub fn defaults_applied(audit: &Audit) -> Vec<String> {
-    let mut groups: Vec<(Vec<&str>, &Vec<String>)> = Vec::new();
+pub fn defaults_applied(audit: &Audit, units: UnitSystem) -> Vec<String> {
+    let mut groups: Vec<(Vec<&str>, &Vec<Sentence>)> = Vec::new();
     for s in audit.systems.iter().filter(|s| !s.defaults.is_empty()) {
         match groups.iter_mut().find(|(_, d)| **d == s.defaults) {
             Some((names, _)) => names.push(&s.system),
@@ -982,7 +984,7 @@ pub fn defaults_applied(audit: &Audit) -> Vec<String> {
             format!(
                 "Defaults applied to NPSH ({}): {}.",
                 names.join(", "),
-                d.join("; ")
+                join(d, "; ", units)
             )
         })
         .collect()
@@ -1064,7 +1066,7 @@ fn console_systems(audit: &Audit, units: UnitSystem, width: Option<usize>) -> St
                     .unwrap_or_default(),
                 f2(c.needed_m),
                 c.outcome.label().to_string(),
-                c.note.clone(),
+                c.note.render(units).into_owned(),
             ]);
         }
     }
@@ -1078,7 +1080,7 @@ fn console_systems(audit: &Audit, units: UnitSystem, width: Option<usize>) -> St
             width,
         ));
     }
-    for line in defaults_applied(audit) {
+    for line in defaults_applied(audit, units) {
         out.push_str(&fitted_text(&line, width));
     }
     for s in &audit.systems {

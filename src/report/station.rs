@@ -22,7 +22,12 @@ fn pct(x: f64) -> String {
 }
 
 /// The station-energy figures of one system (Systems sheet), in order; only those with values.
-pub(crate) fn station_figures(s: &SystemResult, rules: &Rules, cur: &str) -> Vec<Figure> {
+pub(crate) fn station_figures(
+    s: &SystemResult,
+    rules: &Rules,
+    cur: &str,
+    units: UnitSystem,
+) -> Vec<Figure> {
     let mut v = vec![
         text("Control", s.control.id(), &s.control_basis),
         figure(
@@ -96,7 +101,7 @@ pub(crate) fn station_figures(s: &SystemResult, rules: &Rules, cur: &str) -> Vec
         test_figures(&t, &mut v);
     }
     pump_figures(s, rules, &mut v);
-    savings_figures(s, rules, cur, &mut v);
+    savings_figures(s, rules, cur, units, &mut v);
     v.push(text("Caution on energy figures", STATION_CAUTION, ""));
     v
 }
@@ -201,12 +206,22 @@ fn pump_figures(s: &SystemResult, rules: &Rules, v: &mut Vec<Figure>) {
     v.push(text("Preferred region check", inside, &region));
 }
 
-fn savings_figures(s: &SystemResult, rules: &Rules, cur: &str, v: &mut Vec<Figure>) {
+fn savings_figures(
+    s: &SystemResult,
+    rules: &Rules,
+    cur: &str,
+    units: UnitSystem,
+    v: &mut Vec<Figure>,
+) {
     let Some(x) = &s.savings else { return };
     let lc = rules.life_cycle;
     let pv = format!("over {} years at {} %", lc.years, lc.discount_rate * 100.0);
     v.extend([
-        text("Savings of the suggestions (estimate)", &x.note, ""),
+        text(
+            "Savings of the suggestions (estimate)",
+            x.note.render(units),
+            "",
+        ),
         figure("Head saved at duty [m]", Some(x.head_saving_m), ""),
         figure("Of it throttling [m]", Some(x.throttling_head_m), ""),
         figure("Energy saved [kWh/yr]", Some(x.annual_saving_kwh), ""),

@@ -1161,7 +1161,7 @@ fn write_basis(
         );
     }
     basis_layouts(&mut rows, input);
-    basis_assumed(&mut rows, input, audit);
+    basis_assumed(&mut rows, input, audit, st.units);
     basis_reading(&mut rows, input);
     for d in &audit.notes {
         rows.row(d.severity.label(), d.to_string());
@@ -1295,7 +1295,7 @@ fn basis_layouts(rows: &mut BasisRows, input: &Input) {
 }
 
 /// Values assumed, by sheet, by system (with the NPSH defaults) and by line.
-fn basis_assumed(rows: &mut BasisRows, input: &Input, audit: &Audit) {
+fn basis_assumed(rows: &mut BasisRows, input: &Input, audit: &Audit, units: UnitSystem) {
     for ((sheet, what), n) in input.assumed_by_sheet() {
         rows.row(format!("assumed on {sheet}"), format!("{what}: {n} row(s)"));
     }
@@ -1309,7 +1309,7 @@ fn basis_assumed(rows: &mut BasisRows, input: &Input, audit: &Audit) {
         if !s.defaults.is_empty() {
             rows.row(
                 format!("defaults applied to NPSH, system {}", s.system),
-                s.defaults.join("; "),
+                crate::sentence::join(&s.defaults, "; ", units),
             );
         }
     }
