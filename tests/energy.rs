@@ -175,8 +175,8 @@ fn gravity_lines_cost_no_pump_energy_and_rank_after_by_head() {
     let g = a.lines.iter().find(|l| l.line == "G").unwrap();
     assert!(g.annual_cost.is_none() && g.annual_energy_kwh.is_none());
     assert!(g.power_loss_w.unwrap() > 0.0);
-    let gv = a.fittings.iter().find(|f| f.tag == "G-V").unwrap();
-    let pe = a.fittings.iter().find(|f| f.tag == "P-E").unwrap();
+    let gv = a.fittings.iter().find(|f| &*f.tag == "G-V").unwrap();
+    let pe = a.fittings.iter().find(|f| &*f.tag == "P-E").unwrap();
     assert!(gv.annual_cost.is_none());
     assert!(
         gv.head_m > pe.head_m,
@@ -351,7 +351,7 @@ fn a_throttled_valve_on_a_pumped_line_is_flagged_with_its_energy() {
         "{}",
         f.message
     );
-    let v = a.fittings.iter().find(|x| x.tag == "V1").unwrap();
+    let v = a.fittings.iter().find(|x| &*x.tag == "V1").unwrap();
     let s = v.suggestion.as_ref().expect("open fully is suggested");
     assert!(s.replace_with.contains("speed control"));
     assert!(s.k_after < v.k && s.annual_saving.unwrap() > 0.0);
@@ -369,7 +369,7 @@ fn a_throttled_valve_on_a_pumped_line_is_flagged_with_its_energy() {
         }
         assert!(text.contains("overload"), "{text}");
     }
-    let e1 = a.fittings.iter().find(|x| x.tag == "E1").unwrap();
+    let e1 = a.fittings.iter().find(|x| &*x.tag == "E1").unwrap();
     assert_eq!(
         e1.suggestion.as_ref().unwrap().caution,
         Some(OPERATING_POINT_CAUTION),
@@ -392,7 +392,7 @@ fn a_throttled_valve_on_a_pumped_line_is_flagged_with_its_energy() {
         !gravity.findings.iter().any(|f| f.code == "throttled-valve"),
         "gravity lines burn no pump energy"
     );
-    let g1 = gravity.fittings.iter().find(|x| x.tag == "E1").unwrap();
+    let g1 = gravity.fittings.iter().find(|x| &*x.tag == "E1").unwrap();
     assert_eq!(
         g1.suggestion.as_ref().unwrap().caution,
         None,
@@ -413,7 +413,7 @@ fn standard_elbows_get_long_radius_with_payback_and_long_radius_gets_nothing() {
         &valve_book("elbows", "pump-discharge", 100.0),
         &Rules::default(),
     );
-    let e1 = a.fittings.iter().find(|x| x.tag == "E1").unwrap();
+    let e1 = a.fittings.iter().find(|x| &*x.tag == "E1").unwrap();
     let s = e1
         .suggestion
         .as_ref()
@@ -427,7 +427,7 @@ fn standard_elbows_get_long_radius_with_payback_and_long_radius_gets_nothing() {
     let saving = s.annual_saving.unwrap();
     assert!(saving > 0.0 && saving < e1.annual_cost.unwrap());
     assert!(rel(s.payback_years.unwrap(), 400.0 / saving) < REL_TOL_EXACT);
-    let e2 = a.fittings.iter().find(|x| x.tag == "E2").unwrap();
+    let e2 = a.fittings.iter().find(|x| &*x.tag == "E2").unwrap();
     assert!(e2.suggestion.is_none());
 }
 

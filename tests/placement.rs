@@ -59,7 +59,7 @@ fn projecting_entrance_uses_the_schedule_wall_like_fluids_entrance_distance() {
     let a = audit(&path, &Rules::default());
     for (i, r) in rows.iter().enumerate() {
         let k_ref: f64 = r[5].parse().unwrap();
-        let f = a.fittings.iter().find(|f| f.line == LINES[i]).unwrap();
+        let f = a.fittings.iter().find(|f| &*f.line == LINES[i]).unwrap();
         // Source: fluids 1.3.1 piping.nearest_pipe + fittings.entrance_distance(method='Rennels').
         assert!(
             rel(f.k, k_ref) < WALL_TOL,
@@ -185,7 +185,7 @@ fn list_order_places_a_fitting_after_an_expansion() {
         ],
     );
     let a = audit(&path, &Rules::default());
-    let e = a.fittings.iter().find(|f| f.tag == "D-E1").unwrap();
+    let e = a.fittings.iter().find(|f| &*f.tag == "D-E1").unwrap();
     assert!(
         (e.reference_diameter_m - 0.2027).abs() < 1e-4,
         "{}",
@@ -249,8 +249,8 @@ fn bore_sized_fittings_match_bore_given_runs_without_a_warning() {
         "{:?}",
         a.findings
     );
-    let v = a.fittings.iter().find(|f| f.tag == "M-V").unwrap();
+    let v = a.fittings.iter().find(|f| &*f.tag == "M-V").unwrap();
     assert_eq!(v.reference_diameter_m, 0.4);
-    let e = a.fittings.iter().find(|f| f.tag == "M-E").unwrap();
+    let e = a.fittings.iter().find(|f| &*f.tag == "M-E").unwrap();
     assert_eq!(e.reference_diameter_m, 0.3);
 }

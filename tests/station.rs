@@ -406,7 +406,7 @@ fn throttled_counts_the_valve_and_present_values_follow_the_life_cycle_rules() {
     let s = &a.systems[0];
     assert_eq!(s.control, Control::Throttled);
     let v = s.savings.as_ref().unwrap();
-    let valve = a.fittings.iter().find(|f| f.tag == "D1-CV").unwrap();
+    let valve = a.fittings.iter().find(|f| &*f.tag == "D1-CV").unwrap();
     let vs = valve.suggestion.as_ref().unwrap();
     assert!(rel(v.throttling_head_m, vs.head_saving_m) < REL_TOL_EXACT);
     assert!(v.note.contains("throttling valves"));
@@ -431,7 +431,7 @@ fn throttled_counts_the_valve_and_present_values_follow_the_life_cycle_rules() {
     let bs = b
         .fittings
         .iter()
-        .find(|f| f.tag == "D1-CV")
+        .find(|f| &*f.tag == "D1-CV")
         .unwrap()
         .suggestion
         .clone()

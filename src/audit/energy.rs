@@ -9,6 +9,7 @@ use crate::sentence::fig;
 use serde::Serialize;
 
 use super::lines::{FittingModel, fitting_at};
+use super::models::Models;
 use super::{Audit, FittingResult, LineResult, Rules};
 use crate::error::{CellRef, Severity};
 use crate::ingest::{Input, Service, TableKind};
@@ -534,7 +535,7 @@ fn curve_efficiencies(audit: &Audit) -> std::collections::HashMap<usize, Option<
 
 /// Fill energy, cost, rank and suggestion on every line and fitting; raise `throttled-valve`.
 /// `models` are the fittings' models, in the order of `audit.fittings`.
-pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit, models: &[FittingModel]) {
+pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit, models: &Models) {
     let mut summary = EnergySummary {
         currency: rules.energy.currency.clone(),
         tariff_per_kwh: rules.energy.tariff_per_kwh,
@@ -589,7 +590,7 @@ pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit, models: &[FittingM
         let energy = basis.and_then(|b| loss_energy(f.dp_pa, line.flow_m3_s, &b));
         let suggestion = models
             .get(fi)
-            .and_then(|&m| suggest(f, m, line, basis.as_ref(), is_pumped(line.service)));
+            .and_then(|m| suggest(f, m, line, basis.as_ref(), is_pumped(line.service)));
         let scale = |x: f64| if f.head_m > 0.0 { x / f.head_m } else { 0.0 };
         items.push(RankItem {
             energy_kwh: energy.map(|e| {

@@ -4,6 +4,7 @@ use std::collections::HashMap;
 
 use polars::prelude::{Column, DataFrame, PolarsError, PolarsResult};
 
+use super::models::Models;
 use super::{Audit, FittingResult, FluidUsed, LineResult, Rules, RunResult};
 use crate::error::{CellRef, Diagnostic, Severity};
 use crate::ingest::parse::SizeSpec;
@@ -389,7 +390,7 @@ pub struct Computed {
     /// Lines, runs, fittings, fluids and kinds used.
     pub audit: Audit,
     /// Each fitting's model, in the order of `Audit::fittings`.
-    pub models: Vec<FittingModel>,
+    pub models: Models,
     /// Fittings placed off their size or by inference, and closed valves.
     pub placements: Placements,
 }
@@ -581,7 +582,7 @@ impl<'a> RunsOfLines<'a> {
         }
         let mut fittings: HashMap<&str, Vec<usize>> = HashMap::new();
         for (i, f) in input.fittings.iter().enumerate() {
-            fittings.entry(f.line.as_str()).or_default().push(i);
+            fittings.entry(&*f.line).or_default().push(i);
         }
         RunsOfLines {
             pipes,
@@ -605,7 +606,7 @@ impl<'a> RunsOfLines<'a> {
 /// The fittings computed, their models and kinds, and what the placement findings need.
 struct Fitted {
     results: Vec<FittingResult>,
-    models: Vec<FittingModel>,
+    models: Models,
     kinds_used: Vec<&'static str>,
     placements: Placements,
 }
@@ -621,13 +622,13 @@ fn fittings(
     let input = ctx.input;
     let mut out = Fitted {
         results: Vec::with_capacity(input.fittings.len()),
-        models: Vec::with_capacity(input.fittings.len()),
+        models: Models::with_capacity(input.fittings.len()),
         kinds_used: Vec::new(),
         placements: Placements::default(),
     };
     let mut same_cause = super::same_cause::SameCause::default();
     for (fi, f) in input.fittings.iter().enumerate() {
-        let Some(state) = states.get(&f.line) else {
+        let Some(state) = states.get(&*f.line) else {
             continue;
         };
         let Some((run, matched)) = place_fitting(ctx, on_runs, fi, &mut out.placements) else {
@@ -850,7 +851,7 @@ fn line_totals(
     states: &HashMap<String, LineState>,
 ) -> Result<Vec<LineResult>, Vec<Diagnostic>> {
     let totals = table::heads_frame(
-        fittings.iter().map(|f| f.line.as_str()).collect(),
+        fittings.iter().map(|f| &*f.line).collect(),
         fittings.iter().map(|f| f.head_m).collect(),
         fittings.iter().map(|f| f.head_low_m).collect(),
         fittings.iter().map(|f| f.head_high_m).collect(),
@@ -924,7 +925,7 @@ fn index_fittings(lines: &mut [LineResult], fittings: &[FittingResult]) -> HashM
         .map(|(i, l)| (l.line.clone(), i))
         .collect();
     for (i, f) in fittings.iter().enumerate() {
-        if let Some(&li) = line_index.get(&f.line) {
+        if let Some(&li) = line_index.get(&*f.line) {
             lines[li].fittings.push(i);
         }
     }
@@ -1088,7 +1089,7 @@ fn bore_of_key(key: SizeKey, p: &PipeRow, r: &ResolvedRun) -> Option<f64> {
 /// A fitting row's description for messages: tag, else item.
 pub fn fitting_label(f: &FittingRow) -> String {
     if f.tag.is_empty() {
-        f.item.clone()
+        f.item.to_string()
     } else {
         format!("{} ({})", f.tag, f.item)
     }
@@ -1225,7 +1226,7 @@ pub struct LineHeads {
 /// `models` are the fittings' models from [`compute`].
 pub fn line_heads_at(
     audit: &Audit,
-    models: &[FittingModel],
+    models: &Models,
     line: &LineResult,
     flow_m3_s: f64,
 ) -> LineHeads {
@@ -1261,7 +1262,7 @@ pub fn line_heads_at(
     let (fittings_head_m, fittings_head_high_m) = line
         .fittings
         .iter()
-        .filter_map(|&i| fitting_at(models.get(i)?, flow_m3_s, rho, mu).ok())
+        .filter_map(|&i| fitting_at(&models.get(i)?, flow_m3_s, rho, mu).ok())
         .fold((0.0, 0.0), |(h, hi), f| (h + f.head_m, hi + f.head_high_m));
     LineHeads {
         flow_m3_s,

@@ -7,6 +7,7 @@
 pub mod energy;
 pub mod findings;
 pub mod lines;
+pub mod models;
 pub mod pump;
 pub mod rules;
 pub(crate) mod same_cause;
@@ -15,6 +16,7 @@ pub mod station;
 pub mod system;
 
 use serde::Serialize;
+use std::sync::Arc;
 
 use crate::error::{CellRef, Diagnostic, Severity};
 use crate::ingest::{Input, Service};
@@ -68,12 +70,12 @@ pub struct RunResult {
 /// One fitting row's results (head and Δp for the whole quantity).
 #[derive(Clone, Debug, Serialize)]
 pub struct FittingResult {
-    /// Tag.
-    pub tag: String,
-    /// Line id.
-    pub line: String,
-    /// Item text as written.
-    pub item: String,
+    /// Tag (shared with the fitting's row).
+    pub tag: Arc<str>,
+    /// Line id (one string for every fitting of the line).
+    pub line: Arc<str>,
+    /// Item text as written (one string for every fitting written alike).
+    pub item: Arc<str>,
     /// Catalogue kind id.
     pub kind: &'static str,
     /// Source cell (the Item cell).
@@ -284,7 +286,7 @@ struct Placed {
     audit: Audit,
     // The fitting models (what re-evaluates an item at another flow or as another kind) live
     // only while the audit runs: on huge registers they are a good share of the memory.
-    models: Vec<lines::FittingModel>,
+    models: models::Models,
 }
 
 fn place(input: &Input, rules: &Rules) -> Result<Placed, Vec<Diagnostic>> {

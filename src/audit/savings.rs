@@ -5,7 +5,7 @@
 use serde::Serialize;
 use std::collections::HashMap;
 
-use super::lines::FittingModel;
+use super::models::Models;
 use super::pump;
 use super::station::density;
 use super::system::{CurvePoint, SystemResult, interpolate, required_head_at};
@@ -139,7 +139,7 @@ fn system_of_lines(audit: &Audit) -> HashMap<usize, usize> {
 
 /// Fill each suggestion's case and present value, each system's savings, and the fixed-speed
 /// re-solved point of the largest suggestions. `models` are the fittings' models.
-pub fn apply(rules: &Rules, audit: &mut Audit, models: &[FittingModel]) {
+pub fn apply(rules: &Rules, audit: &mut Audit, models: &Models) {
     let system_of = system_of_lines(audit);
     let lc = rules.life_cycle;
     let mut per_system: Vec<Vec<usize>> = vec![Vec::new(); audit.systems.len()];
@@ -184,7 +184,7 @@ pub fn apply(rules: &Rules, audit: &mut Audit, models: &[FittingModel]) {
 fn system_savings(
     rules: &Rules,
     audit: &Audit,
-    models: &[FittingModel],
+    models: &Models,
     si: usize,
     fis: &[usize],
 ) -> Option<SystemSavings> {
@@ -326,7 +326,7 @@ fn speed_case(
 fn fixed_case(
     rules: &Rules,
     audit: &Audit,
-    models: &[FittingModel],
+    models: &Models,
     s: &SystemResult,
     head_saving_m: f64,
 ) -> Option<FixedCase> {
@@ -347,12 +347,7 @@ fn fixed_case(
 }
 
 /// The fixed-speed operating point with a head removed (at duty flow, scaling with Q²).
-fn resolve(
-    audit: &Audit,
-    models: &[FittingModel],
-    s: &SystemResult,
-    head_m: f64,
-) -> Option<CurvePoint> {
+fn resolve(audit: &Audit, models: &Models, s: &SystemResult, head_m: f64) -> Option<CurvePoint> {
     if s.pump_curve.len() < 2 || s.flow_m3_s <= 0.0 {
         return None;
     }
@@ -371,7 +366,7 @@ fn resolve(
 /// sampled once ([`pump::scan_grid`]) and each point bracketed on it.
 fn resolve_each(
     audit: &Audit,
-    models: &[FittingModel],
+    models: &Models,
     si: usize,
     fis: &[usize],
 ) -> Vec<(usize, CurvePoint, Option<f64>)> {

@@ -9,7 +9,7 @@
 use crate::sentence::{fig, fig_signed};
 use serde::Serialize;
 
-use super::lines::FittingModel;
+use super::models::Models;
 use super::pump::{self, BestEfficiency};
 use super::system::{CurvePoint, SystemResult, interpolate, required_head_at};
 use super::{Audit, Finding, Rules};
@@ -281,7 +281,7 @@ pub fn apply(
     input: &Input,
     rules: &Rules,
     audit: &mut Audit,
-    models: &[FittingModel],
+    models: &Models,
 ) -> Result<(), Vec<Diagnostic>> {
     let mut errors = Vec::new();
     let mut found = Vec::new();
@@ -347,7 +347,7 @@ struct Measure<'a> {
     input: &'a Input,
     rules: &'a Rules,
     audit: &'a Audit,
-    models: &'a [FittingModel],
+    models: &'a Models,
     s: &'a SystemResult,
     rho: f64,
     errors: &'a mut Vec<Diagnostic>,

@@ -8,7 +8,8 @@
 use crate::sentence::{Sentence, fig};
 use serde::Serialize;
 
-use super::lines::{FittingModel, line_heads_at};
+use super::lines::line_heads_at;
+use super::models::Models;
 use super::{Audit, Finding, LineResult, Rules};
 use crate::error::{CellRef, Severity};
 use std::collections::HashSet;
@@ -411,7 +412,7 @@ pub fn operating_point(
 /// `models` are the fittings' models from [`super::lines::compute`].
 pub fn required_head_at(
     audit: &Audit,
-    models: &[FittingModel],
+    models: &Models,
     lines: &[usize],
     static_head_m: f64,
     fraction: f64,
@@ -485,12 +486,12 @@ struct Ctx<'a> {
     input: &'a Input,
     rules: &'a Rules,
     audit: &'a Audit,
-    models: &'a [FittingModel],
+    models: &'a Models,
 }
 
 /// Compute every system and raise `pump-head-short`, `static-head-missing`, `npsh-margin` and
 /// `suction-layout`. `models` are the fittings' models, in the order of `audit.fittings`.
-pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit, models: &[FittingModel]) {
+pub fn apply(input: &Input, rules: &Rules, audit: &mut Audit, models: &Models) {
     let mut found: Vec<Finding> = Vec::new();
     let results: Vec<SystemResult> = {
         let ctx = Ctx {
@@ -1239,7 +1240,7 @@ fn suction_layout(
                 severity: Severity::Warning,
                 code: "suction-layout",
                 line: Some(line.line.clone()),
-                tag: (!f.tag.is_empty()).then(|| f.tag.clone()),
+                tag: (!f.tag.is_empty()).then(|| f.tag.to_string()),
                 cell: Some(f.cell.clone()),
                 message: format!("{} ({}) is the last item listed on suction line {}, i.e. at the pump inlet: {why}", if f.tag.is_empty() { &f.item } else { &f.tag }, f.kind, line.line).into(),
                 action,

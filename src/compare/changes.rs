@@ -432,7 +432,7 @@ fn fitting_at<'a>(input: &'a Input, f: &'a FittingRow) -> At<'a> {
 
 fn fitting_fields(f: &FittingRow) -> Vec<(Field, Option<Value>)> {
     vec![
-        (fd::LINE, text(f.line.clone())),
+        (fd::LINE, text(&*f.line)),
         (fd::KIND, text(f.kind.id)),
         (fd::SIZE, f.size.as_ref().map(size_label).and_then(text)),
         (
@@ -452,7 +452,7 @@ fn fitting_name(f: &FittingRow) -> String {
     if f.tag.trim().is_empty() {
         format!("{} (untagged)", f.kind.id)
     } else {
-        f.tag.clone()
+        f.tag.to_string()
     }
 }
 
@@ -475,7 +475,7 @@ fn fitting_changes(out: &mut Vec<Change>, old: &Audited, new: &Audited, m: &Matc
         }
         let item = Item {
             kind,
-            line: Some(f.line.clone()),
+            line: Some(f.line.to_string()),
             item: fitting_name(f),
             old: fo.map(|f| fitting_at(&old.input, f)),
             new: fn_.map(|f| fitting_at(&new.input, f)),
@@ -581,12 +581,8 @@ fn signatures(input: &Input, lines: &std::collections::HashSet<&str>) -> HashMap
         let e = parts.entry(p.line.as_str()).or_default();
         e.0.push(format!("{:?}", run_fields(p)));
     }
-    for f in input
-        .fittings
-        .iter()
-        .filter(|f| lines.contains(f.line.as_str()))
-    {
-        if let Some(e) = parts.get_mut(f.line.as_str()) {
+    for f in input.fittings.iter().filter(|f| lines.contains(&*f.line)) {
+        if let Some(e) = parts.get_mut(&*f.line) {
             e.1.push(format!("{:?}", &fitting_fields(f)[1..]));
         }
     }

@@ -206,7 +206,7 @@ fn line_kind_size(f: &FittingRow) -> (String, &'static str, String) {
         .as_ref()
         .map(super::fields::size_label)
         .unwrap_or_default();
-    (f.line.clone(), f.kind.id, size)
+    (f.line.to_string(), f.kind.id, size)
 }
 
 fn match_fittings(old: &Input, new: &Input, m: &mut Matching) {

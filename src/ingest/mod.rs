@@ -792,7 +792,7 @@ impl Input {
         let fittings = self
             .fittings
             .iter()
-            .flat_map(|f| f.assumed.iter().map(move |a| (f.line.as_str(), a)));
+            .flat_map(|f| f.assumed.iter().map(move |a| (&*f.line, a)));
         let released = self.released_assumed.iter().map(|(l, a)| (l.as_str(), a));
         lines.chain(pipes).chain(fittings).chain(released)
     }
@@ -806,7 +806,7 @@ impl Input {
         for f in rows {
             let line = f.line;
             self.released_assumed
-                .extend(f.assumed.into_iter().map(|a| (line.clone(), a)));
+                .extend(f.assumed.into_iter().map(|a| (line.to_string(), a)));
         }
     }
 

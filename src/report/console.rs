@@ -115,11 +115,11 @@ pub fn summary_fitted(audit: &Audit, units: UnitSystem, width: Option<usize>) ->
         for (_, f) in &worst {
             t.row(vec![
                 if f.tag.is_empty() {
-                    f.item.clone()
+                    f.item.to_string()
                 } else {
-                    f.tag.clone()
+                    f.tag.to_string()
                 },
-                f.line.clone(),
+                f.line.to_string(),
                 f.kind.to_string(),
                 format!("{}", f.qty),
                 format!("{:.2}", f.k),

@@ -43,7 +43,7 @@ pub(crate) fn label(f: &FittingResult) -> String {
     if f.tag.is_empty() {
         format!("{} ({})", f.item, f.line)
     } else {
-        f.tag.clone()
+        f.tag.to_string()
     }
 }
 
@@ -801,7 +801,7 @@ pub(crate) fn write_summary_block(
         r += 1;
         opt(ws, r, 0, f.rank.map(|x| x as f64), &st.n0)?;
         ws.write_string(r, 1, label(f))?;
-        ws.write_string(r, 2, &f.line)?;
+        ws.write_string(r, 2, &*f.line)?;
         ws.write_string(r, 3, f.kind)?;
         opt(ws, r, 4, Some(f.head_m * fh), &st.n3)?;
         opt(ws, r, 5, f.annual_cost, &st.n2)?;
@@ -933,7 +933,7 @@ pub fn console_energy(audit: &Audit, units: UnitSystem, width: Option<usize>) ->
             t.row(vec![
                 f.rank.map(|r| r.to_string()).unwrap_or_default(),
                 label(f),
-                f.line.clone(),
+                f.line.to_string(),
                 format!("{:.3}", f.head_m * fh),
                 f.annual_cost
                     .map(|c| format!("{c:.0}"))

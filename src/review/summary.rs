@@ -195,7 +195,7 @@ fn figures(audit: &Audit) -> StationFigures {
         .first()
         .map(|f| WorstOfStation {
             fitting: crate::report::ranking::label(f),
-            line: f.line.clone(),
+            line: f.line.to_string(),
             annual_cost: f.annual_cost,
             head_m: f.head_m,
             cell: f.cell.clone(),

@@ -1,12 +1,14 @@
 //! Rows of `Fittings`: one per fitting or group of identical fittings.
 
 use super::cells::{Sink, for_each_row, format_number};
+use super::intern::Interner;
 use super::{Assumed, Origin};
 use crate::ingest::Input;
 use crate::ingest::parse::SizeSpec;
 use crate::ingest::quantity;
 use crate::ingest::schema::TableKind;
 use crate::physics::fitting::{self, Kind};
+use std::sync::Arc;
 
 /// A row of `Fittings`.
 #[derive(Clone, Debug)]
@@ -14,11 +16,11 @@ pub struct FittingRow {
     /// Source row.
     pub origin: Origin,
     /// Tag (may be blank).
-    pub tag: String,
-    /// Line id.
-    pub line: String,
-    /// Item text as written.
-    pub item: String,
+    pub tag: Arc<str>,
+    /// Line id (one string for every row of the line).
+    pub line: Arc<str>,
+    /// Item text as written (one string for every row written alike).
+    pub item: Arc<str>,
     /// Catalogue kind matched.
     pub kind: &'static Kind,
     /// Size.
@@ -53,6 +55,7 @@ pub struct FittingRow {
 
 pub(super) fn read_fittings(input: &Input, sink: &mut Sink) -> Vec<FittingRow> {
     let mut fittings = Vec::new();
+    let mut texts = Interner::default();
     for_each_row(input, sink, TableKind::Fittings, |c| {
         let Some(line) = c.text("line") else {
             c.error(
@@ -139,9 +142,9 @@ pub(super) fn read_fittings(input: &Input, sink: &mut Sink) -> Vec<FittingRow> {
                 sheet: c.layout.sheet.clone(),
                 row: c.row,
             },
-            tag,
-            line,
-            item,
+            tag: tag.into(),
+            line: texts.get(line),
+            item: texts.get(item),
             kind,
             size: c.size("size"),
             size_out: c.size("size_out"),

@@ -7,6 +7,7 @@
 mod cells;
 mod fittings;
 mod fluids;
+mod intern;
 mod lines;
 mod pipes;
 mod pump_curve;
@@ -138,9 +139,9 @@ fn orphan_fittings(
     for f in input
         .fittings
         .iter()
-        .filter(|f| !pipe_lines.contains(f.line.as_str()))
+        .filter(|f| !pipe_lines.contains(&*f.line))
     {
-        if let Some(e) = erred_runs.iter_mut().find(|(l, _, _)| *l == f.line) {
+        if let Some(e) = erred_runs.iter_mut().find(|(l, _, _)| *l == *f.line) {
             e.2 += 1;
             continue;
         }
