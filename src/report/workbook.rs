@@ -148,7 +148,11 @@ pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Wo
             }
         }
         let others = (|| -> Result<Vec<Worksheet>, XlsxError> {
-            let mut summary = named(Worksheet::new(), &summary_name)?;
+            // Summary and Basis are written top to bottom, so they stream as well: on a big
+            // register each holds a row per line. A streamed sheet drops any write to a row above
+            // the one being written, so both must stay in row order (the read-back tests of their
+            // figures would fail otherwise).
+            let mut summary = named(wb.new_worksheet_with_constant_memory()?, &summary_name)?;
             write_summary(&mut summary, input, audit, st)?;
             let invented = super::invented::marker(input).map(|c| super::invented::label(&c));
             write_findings(&mut findings_ws, audit, invented.as_deref(), st)?;
@@ -170,7 +174,7 @@ pub fn prepare(input: &Input, audit: &Audit, options: &BookOptions) -> Result<Wo
             for job in rest {
                 done.push(job()?);
             }
-            let mut basis = named(Worksheet::new(), &basis_name)?;
+            let mut basis = named(wb.new_worksheet_with_constant_memory()?, &basis_name)?;
             write_basis(&mut basis, input, audit, st)?;
             done.push(basis);
             Ok(done)
