@@ -42,7 +42,7 @@ pub fn fig_signed(value: f64, si_label: &'static str, decimals: usize) -> String
 }
 
 /// A sentence whose figures render in either unit system. Equality compares the SI figures.
-#[derive(Clone, Debug, Default, PartialEq, Eq)]
+#[derive(Clone, Debug, Default, PartialEq, Eq, PartialOrd, Ord, Hash)]
 pub struct Sentence(String);
 
 impl Sentence {

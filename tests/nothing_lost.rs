@@ -298,7 +298,7 @@ fn releasing_fitting_rows_keeps_every_assumed_value() {
     let listed = |input: &lossledger::ingest::Input| -> Vec<(String, String, String)> {
         input
             .assumed()
-            .map(|(l, a)| (l.to_string(), a.cell.to_string(), a.what.clone()))
+            .map(|(l, a)| (l.to_string(), a.cell.to_string(), a.what.to_string()))
             .collect()
     };
     let before = listed(&input);

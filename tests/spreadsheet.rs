@@ -23,6 +23,8 @@ const SHOWN_TOL: f64 = 1e-5;
 const FT_PER_M: f64 = 1.0 / 0.3048;
 /// US gpm per m³/h, from 1 US gal = 3.785411784 L exactly (NIST SP 811 B.8).
 const GPM_PER_M3H: f64 = 1000.0 / 3.785411784 / 60.0;
+/// Inches per millimetre, from 1 in = 25.4 mm exactly (NIST SP 811 B.8).
+const IN_PER_MM: f64 = 1.0 / 25.4;
 /// 1 psi = 6894.757 Pa (NIST SP 811, B.8).
 const PSI_PER_KPA: f64 = 1000.0 / 6894.757;
 
@@ -204,9 +206,37 @@ fn units_us_writes_the_system_notes_in_us_units() {
     );
 }
 
-/// SI units of the figures in sentences, and the US units they become.
-const SI_UNITS: [&str; 4] = ["m/s", "m3/h", "kPa", "m"];
-const US_UNITS: [&str; 4] = ["ft/s", "US gpm", "psi", "ft"];
+/// `--units us` writes the figures of the values assumed (the Basis sheet's "assumed on" rows:
+/// roughness, site elevation, standard atmosphere) in US units, each the SI figure converted.
+#[test]
+fn units_us_writes_the_assumed_values_in_us_units() {
+    let dir = temp_dir("assumed-values");
+    let assumed = |book: &mut Xlsx<std::io::BufReader<std::fs::File>>| -> Vec<String> {
+        let sheet = book.worksheet_range("Basis").unwrap();
+        labelled(&sheet, 1)
+            .into_iter()
+            .filter(|(label, _)| label.starts_with("assumed on"))
+            .filter_map(|(_, d)| match d {
+                Data::String(s) => Some(s),
+                _ => None,
+            })
+            .collect()
+    };
+    let (si, us) = (
+        assumed(&mut demo_audited(&dir, "si")),
+        assumed(&mut demo_audited(&dir, "us")),
+    );
+    let converted = assert_converted(&si, &us);
+    assert!(
+        converted >= 2,
+        "the demo's assumed values hold only {converted} figures: {si:?}"
+    );
+}
+
+/// SI units of the figures in sentences, and the US units they become ("mm" before "m", so a
+/// figure in mm is not read as one in m).
+const SI_UNITS: [&str; 5] = ["m/s", "m3/h", "kPa", "mm", "m"];
+const US_UNITS: [&str; 5] = ["ft/s", "US gpm", "psi", "in", "ft"];
 
 /// Each US sentence has the SI one's figures, each converted (NIST SP 811 B.8 factors) within
 /// the rounding of both, and no SI figure is left in it. Returns the figures compared.
@@ -221,6 +251,7 @@ fn assert_converted(si: &[String], us: &[String]) -> usize {
             let factor = match ux.as_str() {
                 "m3/h" => GPM_PER_M3H,
                 "kPa" => PSI_PER_KPA,
+                "mm" => IN_PER_MM,
                 _ => FT_PER_M,
             };
             assert_eq!(US_UNITS[SI_UNITS.iter().position(|u| u == ux).unwrap()], uy);

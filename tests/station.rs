@@ -381,7 +381,8 @@ fn fixed_speed_reports_the_run_out_point_and_a_conditional_saving() {
     assert!(
         s.assumed
             .iter()
-            .any(|m| m.what.starts_with("control fixed") && m.cell.to_string() == "Systems!A2")
+            .any(|m| m.what.to_string().starts_with("control fixed")
+                && m.cell.to_string() == "Systems!A2")
     );
     let v = s.savings.as_ref().unwrap();
     assert!(v.conditional && v.note.contains("trimmed"));

@@ -1102,9 +1102,11 @@ fn source_pressure(
             out.assumed.push(crate::ingest::rows::Assumed {
                 cell,
                 key,
-                what: format!(
-                    "site elevation 0 m (sea level): standard atmosphere {p:.0} Pa in NPSH available"
-                ),
+                what: Sentence::new(format!(
+                    "site elevation {} (sea level): standard atmosphere {} in NPSH available",
+                    fig(0.0, "m", 0),
+                    fig(p / 1e3, "kPa", 3)
+                )),
             });
         }
     }

@@ -811,7 +811,9 @@ impl Input {
     }
 
     /// Assumed values counted per sheet and what was assumed.
-    pub fn assumed_by_sheet(&self) -> std::collections::BTreeMap<(String, String), usize> {
+    pub fn assumed_by_sheet(
+        &self,
+    ) -> std::collections::BTreeMap<(String, crate::sentence::Sentence), usize> {
         let mut out = std::collections::BTreeMap::new();
         for (_, a) in self.assumed() {
             *out.entry((a.cell.sheet.clone(), a.what.clone()))

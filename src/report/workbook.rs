@@ -320,7 +320,7 @@ fn collect_marks(
             .entry((a.cell.row, a.cell.col))
             .or_default();
         m.assumed = true;
-        m.note.push(format!("assumed: {}", a.what));
+        m.note.push(format!("assumed: {}", a.what.render(units)));
     }
     marks
 }
@@ -1301,13 +1301,14 @@ fn basis_layouts(rows: &mut BasisRows, input: &Input) {
 /// Values assumed, by sheet, by system (with the NPSH defaults) and by line.
 fn basis_assumed(rows: &mut BasisRows, input: &Input, audit: &Audit, units: UnitSystem) {
     for ((sheet, what), n) in input.assumed_by_sheet() {
+        let what = what.render(units);
         rows.row(format!("assumed on {sheet}"), format!("{what}: {n} row(s)"));
     }
     for s in &audit.systems {
         for a in &s.assumed {
             rows.row(
                 format!("assumed on {}", a.cell.sheet),
-                format!("system {} ({}): {}", s.system, a.cell, a.what),
+                format!("system {} ({}): {}", s.system, a.cell, a.what.render(units)),
             );
         }
         if !s.defaults.is_empty() {

@@ -831,7 +831,7 @@ fn run_material(
         None => match d.material {
             Some(m) => m,
             None => {
-                assumed.push(c.assumed("material", "material carbon steel".into()));
+                assumed.push(c.assumed("material", "material carbon steel"));
                 Material::CarbonSteel
             }
         },
@@ -898,7 +898,7 @@ fn fitting_row(
         }
         Some(Ok(q)) => q,
         None => {
-            assumed.push(c.assumed("qty", "quantity 1".into()));
+            assumed.push(c.assumed("qty", "quantity 1"));
             1.0
         }
     };
@@ -913,7 +913,7 @@ fn fitting_row(
         );
     }
     if opening.is_none() && kind.is_valve() {
-        assumed.push(c.assumed("opening", "fully open".into()));
+        assumed.push(c.assumed("opening", "fully open"));
     }
     let tag = c
         .text("tag")

@@ -11,6 +11,7 @@ use crate::ingest::header::{Layout, MappedColumn};
 use crate::ingest::parse::{self, CellNumber, SizeSpec, SizeUnit};
 use crate::ingest::schema::{ColumnType, TableKind};
 use crate::ingest::{Conversion, ErredRow, Input, Skipped};
+use crate::sentence::Sentence;
 use crate::units::{self, Quantity};
 
 /// Reads cells of one row, pushing diagnostics.
@@ -47,11 +48,11 @@ impl Cells<'_> {
         });
     }
 
-    pub(crate) fn assumed(&self, key: &'static str, what: String) -> Assumed {
+    pub(crate) fn assumed(&self, key: &'static str, what: impl Into<Sentence>) -> Assumed {
         Assumed {
             cell: self.cell(key),
             key,
-            what,
+            what: what.into(),
         }
     }
 

@@ -117,7 +117,7 @@ pub(super) fn read_fittings(input: &Input, sink: &mut Sink) -> Vec<FittingRow> {
             }
             None => {
                 if c.errors == 0 {
-                    assumed.push(c.assumed("qty", "quantity 1".into()));
+                    assumed.push(c.assumed("qty", "quantity 1"));
                 }
                 1.0
             }
@@ -133,7 +133,7 @@ pub(super) fn read_fittings(input: &Input, sink: &mut Sink) -> Vec<FittingRow> {
             );
         }
         if opening.is_none() && kind.is_valve() {
-            assumed.push(c.assumed("opening", "fully open".into()));
+            assumed.push(c.assumed("opening", "fully open"));
         }
         let fouling = c.positive("fouling", false);
         let beta = c.positive("beta", false);

@@ -7,6 +7,7 @@ use super::{Assumed, Origin};
 use crate::error::CellRef;
 use crate::ingest::Input;
 use crate::ingest::schema::TableKind;
+use crate::sentence::fig;
 
 /// What a line is for; selects its velocity limits.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize)]
@@ -122,7 +123,7 @@ pub(super) fn read_lines(input: &Input, sink: &mut Sink) -> Vec<LineRow> {
                 Service::General
             }),
             None => {
-                assumed.push(c.assumed("service", "service general".into()));
+                assumed.push(c.assumed("service", "service general"));
                 Service::General
             }
         };
@@ -143,11 +144,11 @@ pub(super) fn read_lines(input: &Input, sink: &mut Sink) -> Vec<LineRow> {
             .text("fluid")
             .map(|s| s.to_lowercase())
             .unwrap_or_else(|| {
-                assumed.push(c.assumed("fluid", "fluid water".into()));
+                assumed.push(c.assumed("fluid", "fluid water"));
                 "water".into()
             });
         let temperature_c = c.number("temperature").unwrap_or_else(|| {
-            assumed.push(c.assumed("temperature", "temperature 20 °C".into()));
+            assumed.push(c.assumed("temperature", format!("temperature {}", fig(20.0, "°C", 0))));
             20.0
         });
         let efficiency = c.positive("efficiency", false);

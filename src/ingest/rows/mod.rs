@@ -29,6 +29,7 @@ use std::collections::HashSet;
 use super::Input;
 use super::schema::TableKind;
 use crate::error::{CellRef, Diagnostic, Severity};
+use crate::sentence::Sentence;
 use cells::Sink as TableSink;
 
 /// Where a row came from.
@@ -47,8 +48,8 @@ pub struct Assumed {
     pub cell: CellRef,
     /// Canonical column key.
     pub key: &'static str,
-    /// What was assumed, in words.
-    pub what: String,
+    /// What was assumed, in words (its figures in SI, rendered in the report's units).
+    pub what: Sentence,
 }
 
 /// Read all tables of an input into its row vectors. Fittings, the longest table of a register,

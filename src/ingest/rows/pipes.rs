@@ -6,6 +6,7 @@ use crate::ingest::Input;
 use crate::ingest::parse::SizeSpec;
 use crate::ingest::schema::TableKind;
 use crate::physics::pipe::{self, Material, Schedule};
+use crate::sentence::fig;
 
 /// A row of `Pipes`.
 #[derive(Clone, Debug, PartialEq)]
@@ -61,7 +62,7 @@ pub(super) fn read_pipes(input: &Input, sink: &mut Sink) -> Vec<PipeRow> {
                 }
             },
             None => {
-                assumed.push(c.assumed("material", "material carbon steel".into()));
+                assumed.push(c.assumed("material", "material carbon steel"));
                 Material::CarbonSteel
             }
         };
@@ -152,13 +153,13 @@ pub(crate) fn run_assumptions(
         let r = pipe::roughness(material);
         let what = match age.and_then(|a| pipe::aged_roughness(material, a).map(|e| (a, e))) {
             Some((a, e)) => format!(
-                "roughness {:.4} mm ({} aged {a} years)",
-                e * 1e3,
+                "roughness {} ({} aged {a} years)",
+                fig(e * 1e3, "mm", 4),
                 material.name()
             ),
             None => format!(
-                "roughness {:.4} mm (new {})",
-                r.epsilon_m * 1e3,
+                "roughness {} (new {})",
+                fig(r.epsilon_m * 1e3, "mm", 4),
                 material.name()
             ),
         };
