@@ -11,7 +11,7 @@ use lossledger::physics::pipe::{
 
 mod common;
 use common::csv::rows;
-use common::tol::REL_TOL_EXACT;
+use common::tol::{REL_TOL_EXACT, REL_TOL_THREE_FIGURES};
 
 const ASME_CSV: &str = include_str!(concat!(
     env!("CARGO_MANIFEST_DIR"),
@@ -625,16 +625,24 @@ fn roughness_against_fluids() {
     assert_relative_eq!(
         eps(Material::GalvanisedSteel),
         v.expect("v"),
-        max_relative = 0.01
+        max_relative = REL_TOL_THREE_FIGURES
     );
     let (v, _, _) = roughness_fixture(moody, "Cast iron");
-    assert_relative_eq!(eps(Material::CastIron), v.expect("v"), max_relative = 0.01);
+    assert_relative_eq!(
+        eps(Material::CastIron),
+        v.expect("v"),
+        max_relative = REL_TOL_THREE_FIGURES
+    );
     let (v, _, _) = roughness_fixture(moody, "Concrete");
-    assert_relative_eq!(eps(Material::Concrete), v.expect("v"), max_relative = 0.01);
+    assert_relative_eq!(
+        eps(Material::Concrete),
+        v.expect("v"),
+        max_relative = REL_TOL_THREE_FIGURES
+    );
     // Moody's "drawn tubing" (brass, lead, glass in fluids' table) for plastics and copper.
     let (v, _, _) = roughness_fixture(moody, "Brass");
     for m in [Material::Pvc, Material::Pe, Material::Copper] {
-        assert_relative_eq!(eps(m), v.expect("v"), max_relative = 0.01);
+        assert_relative_eq!(eps(m), v.expect("v"), max_relative = REL_TOL_THREE_FIGURES);
     }
     let (v, _, _) = roughness_fixture("fluids.friction._Farshad_roughness", "Cement lining");
     assert_relative_eq!(
@@ -643,7 +651,11 @@ fn roughness_against_fluids() {
         max_relative = REL_TOL_EXACT
     );
     // Commercial steel: Moody 1944 0.00015 ft = 0.046 mm (from memory; not in fluids' table).
-    assert_relative_eq!(eps(Material::CarbonSteel), 0.046e-3, max_relative = 0.01);
+    assert_relative_eq!(
+        eps(Material::CarbonSteel),
+        0.046e-3,
+        max_relative = REL_TOL_THREE_FIGURES
+    );
     // Stainless: common practice, and inside Idel'chik's range for new clean seamless steel
     // conduits (fluids.friction.HHR_roughness, Idel'chik & Ginevskii 2007).
     let (_, lo, hi) = roughness_fixture(

@@ -18,6 +18,10 @@ pub const REL_TOL_SAME_ARITHMETIC: f64 = 1e-9;
 /// 5e-6 relative.
 pub const REL_TOL_SIX_FIGURES: f64 = 5e-6;
 
+/// A published table printed to three significant figures (Moody 1944 roughness values in
+/// fluids' tables): half a unit in the third figure is up to 0.5 %, so 1 % relative.
+pub const REL_TOL_THREE_FIGURES: f64 = 0.01;
+
 /// A hand calculation (docs/worked-example.md and the worked examples of docs/energy.md): its
 /// figures are rounded to five or six significant figures and its properties read from tables,
 /// so 0.1 % is the agreement it can promise.
