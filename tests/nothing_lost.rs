@@ -285,16 +285,19 @@ fn every_fixture_workbook_keeps_every_cell() {
     }
 }
 
+/// The demo station read from its own folder.
+fn demo_input(name: &str) -> lossledger::ingest::Input {
+    let path = temp_dir(name).join("demo.xlsx");
+    std::fs::write(&path, lossledger::demo::input_workbook().unwrap()).unwrap();
+    let sources = [lossledger::ingest::InputSource::Path(path)];
+    lossledger::ingest::read_inputs(&sources, &Default::default()).expect("demo reads")
+}
+
 /// Releasing the parsed fitting rows before writing (as `lossledger audit` does, to save memory)
 /// loses none of their assumed values: every one is still listed, with its line, in order.
 #[test]
 fn releasing_fitting_rows_keeps_every_assumed_value() {
-    let dir = temp_dir("release-rows");
-    let path = dir.join("demo.xlsx");
-    std::fs::write(&path, lossledger::demo::input_workbook().unwrap()).unwrap();
-    let sources = [lossledger::ingest::InputSource::Path(path)];
-    let mut input =
-        lossledger::ingest::read_inputs(&sources, &Default::default()).expect("demo reads");
+    let mut input = demo_input("release-rows");
     let listed = |input: &lossledger::ingest::Input| -> Vec<(String, String, String)> {
         input
             .assumed()
@@ -316,12 +319,7 @@ fn releasing_fitting_rows_keeps_every_assumed_value() {
 /// findings and systems down to the fields the JSON leaves out.
 #[test]
 fn releasing_rows_during_the_audit_changes_nothing_in_it() {
-    let dir = temp_dir("release-during");
-    let path = dir.join("demo.xlsx");
-    std::fs::write(&path, lossledger::demo::input_workbook().unwrap()).unwrap();
-    let sources = [lossledger::ingest::InputSource::Path(path)];
-    let mut input =
-        lossledger::ingest::read_inputs(&sources, &Default::default()).expect("demo reads");
+    let mut input = demo_input("release-during");
     let rules = lossledger::audit::Rules::default();
     let kept = lossledger::audit::run(&input, &rules).expect("demo audits");
     let released = lossledger::audit::run_releasing_rows(&mut input, &rules).expect("audits");

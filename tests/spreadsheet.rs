@@ -29,7 +29,10 @@ const IN_PER_MM: f64 = 1.0 / 25.4;
 const PSI_PER_KPA: f64 = 1000.0 / 6894.757;
 
 /// The demo's input (written into `dir` on first use), and its audit written in `units`.
-fn demo_audited(dir: &Path, units: &str) -> Xlsx<std::io::BufReader<std::fs::File>> {
+/// A workbook read back.
+type Book = Xlsx<std::io::BufReader<std::fs::File>>;
+
+fn demo_audited(dir: &Path, units: &str) -> Book {
     // The demo is written once per folder; each call audits it again in its own units.
     if !dir.join("kestrel-ridge.xlsx").exists() {
         demo(dir);
@@ -194,43 +197,54 @@ fn units_us_converts_the_summary_and_ranking_heads() {
 /// NPSH, the notes, the savings' basis) in US units, each the SI figure converted.
 #[test]
 fn units_us_writes_the_system_notes_in_us_units() {
-    let dir = temp_dir("system-notes");
-    let (si, us) = (
-        system_notes(&mut demo_audited(&dir, "si")),
-        system_notes(&mut demo_audited(&dir, "us")),
-    );
-    let converted = assert_converted(&si, &us);
-    assert!(
-        converted >= 2,
-        "the demo's system notes hold only {converted} figures: {si:?}"
-    );
+    const LABELS: [&str; 3] = [
+        "Defaults applied",
+        "Note",
+        "Savings of the suggestions (estimate)",
+    ];
+    let notes = |book: &mut Book| labelled_texts(book, "System checks", |l| LABELS.contains(&l));
+    assert_demo_sentences_converted("system-notes", notes, 2);
 }
 
 /// `--units us` writes the figures of the values assumed (the Basis sheet's "assumed on" rows:
 /// roughness, site elevation, standard atmosphere) in US units, each the SI figure converted.
 #[test]
 fn units_us_writes_the_assumed_values_in_us_units() {
-    let dir = temp_dir("assumed-values");
-    let assumed = |book: &mut Xlsx<std::io::BufReader<std::fs::File>>| -> Vec<String> {
-        let sheet = book.worksheet_range("Basis").unwrap();
-        labelled(&sheet, 1)
-            .into_iter()
-            .filter(|(label, _)| label.starts_with("assumed on"))
-            .filter_map(|(_, d)| match d {
-                Data::String(s) => Some(s),
-                _ => None,
-            })
-            .collect()
-    };
+    let assumed = |book: &mut Book| labelled_texts(book, "Basis", |l| l.starts_with("assumed on"));
+    assert_demo_sentences_converted("assumed-values", assumed, 2);
+}
+
+/// The demo audited in SI and in US units: the sentences `read` takes from each workbook hold at
+/// least `at_least` figures, each converted ([`assert_converted`]). Returns the folder used.
+fn assert_demo_sentences_converted(
+    name: &str,
+    read: impl Fn(&mut Book) -> Vec<String>,
+    at_least: usize,
+) -> std::path::PathBuf {
+    let dir = temp_dir(name);
     let (si, us) = (
-        assumed(&mut demo_audited(&dir, "si")),
-        assumed(&mut demo_audited(&dir, "us")),
+        read(&mut demo_audited(&dir, "si")),
+        read(&mut demo_audited(&dir, "us")),
     );
     let converted = assert_converted(&si, &us);
     assert!(
-        converted >= 2,
-        "the demo's assumed values hold only {converted} figures: {si:?}"
+        converted >= at_least,
+        "{name}: the demo's sentences hold only {converted} figures: {si:?}"
     );
+    dir
+}
+
+/// The text cells of column B of `sheet` whose column-A label passes `keep`, in row order.
+fn labelled_texts(book: &mut Book, sheet: &str, keep: impl Fn(&str) -> bool) -> Vec<String> {
+    let sheet = book.worksheet_range(sheet).unwrap();
+    labelled(&sheet, 1)
+        .into_iter()
+        .filter(|(label, _)| keep(label))
+        .filter_map(|(_, d)| match d {
+            Data::String(s) => Some(s),
+            _ => None,
+        })
+        .collect()
 }
 
 /// SI units of the figures in sentences, and the US units they become ("mm" before "m", so a
@@ -265,25 +279,6 @@ fn assert_converted(si: &[String], us: &[String]) -> usize {
     converted
 }
 
-/// The System checks sheet's sentences: the text beside "Defaults applied", "Note" and the
-/// savings' basis, in row order.
-fn system_notes(book: &mut Xlsx<std::io::BufReader<std::fs::File>>) -> Vec<String> {
-    const LABELS: [&str; 3] = [
-        "Defaults applied",
-        "Note",
-        "Savings of the suggestions (estimate)",
-    ];
-    let sheet = book.worksheet_range("System checks").unwrap();
-    labelled(&sheet, 1)
-        .into_iter()
-        .filter(|(label, _)| LABELS.contains(&label.as_str()))
-        .filter_map(|(_, d)| match d {
-            Data::String(s) => Some(s),
-            _ => None,
-        })
-        .collect()
-}
-
 /// The figures in a message: (value, half a unit in its last decimal, unit) for each number
 /// followed by one of `units`. Gradients (`m per 100 m`) are ratios and left out.
 fn figures(message: &str, units: &[&str]) -> Vec<(f64, f64, String)> {
@@ -306,7 +301,7 @@ fn figures(message: &str, units: &[&str]) -> Vec<(f64, f64, String)> {
 }
 
 /// The Findings sheet's messages (column F), in row order.
-fn messages(book: &mut Xlsx<std::io::BufReader<std::fs::File>>) -> Vec<String> {
+fn messages(book: &mut Book) -> Vec<String> {
     let sheet = book.worksheet_range("Findings").unwrap();
     (1..sheet.height())
         .filter_map(|r| match sheet.get((r, 5)) {
@@ -320,16 +315,9 @@ fn messages(book: &mut Xlsx<std::io::BufReader<std::fs::File>>) -> Vec<String> {
 /// figure converted, to the decimals shown), while the JSON's messages stay SI.
 #[test]
 fn units_us_writes_the_finding_messages_in_us_units() {
-    let dir = temp_dir("messages");
-    let (si, us) = (
-        messages(&mut demo_audited(&dir, "si")),
-        messages(&mut demo_audited(&dir, "us")),
-    );
-    let converted = assert_converted(&si, &us);
-    assert!(
-        converted >= 3,
-        "the demo's findings hold only {converted} figures"
-    );
+    let dir = assert_demo_sentences_converted("messages", messages, 3);
+    let si = messages(&mut open(&dir.join("audit-si.xlsx")));
+    let converted: usize = si.iter().map(|m| figures(m, &SI_UNITS).len()).sum();
     let json = dir.join("audit-us.json");
     let out = bin()
         .arg("audit")
