@@ -59,8 +59,8 @@ impl Models {
     }
 }
 
-/// A [`FittingModel`] with its optional figures as NaN-for-none `f64`s, in the order of
-/// [`Packed::OPTIONAL`]. `re_in` is not kept: it is set per flow.
+/// A [`FittingModel`] with its optional figures as NaN-for-none `f64`s, in the order `From`
+/// packs them and `unpack` reads them back. `re_in` is not kept: it is set per flow.
 #[derive(Clone, Copy, Debug)]
 struct Packed {
     kind: &'static Kind,

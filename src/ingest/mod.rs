@@ -143,7 +143,7 @@ pub struct Input {
     pub fittings: Vec<FittingRow>,
     /// The values assumed on fitting rows released by [`Input::release_fitting_rows`], each with
     /// its line.
-    pub released_assumed: Vec<(String, rows::Assumed)>,
+    pub released_assumed: Vec<(std::sync::Arc<str>, rows::Assumed)>,
     /// Parsed rows.
     pub systems: Vec<SystemRow>,
     /// Parsed rows.
@@ -793,20 +793,22 @@ impl Input {
             .fittings
             .iter()
             .flat_map(|f| f.assumed.iter().map(move |a| (&*f.line, a)));
-        let released = self.released_assumed.iter().map(|(l, a)| (l.as_str(), a));
+        let released = self.released_assumed.iter().map(|(l, a)| (&**l, a));
         lines.chain(pipes).chain(fittings).chain(released)
     }
 
     /// Free the parsed fitting rows once the audit has used them, keeping what the annotated
     /// workbook still needs of them: the values assumed ([`Input::assumed`] is unchanged). The
     /// rows are the largest part of a big register's input after its cells (about 350 bytes a
-    /// fitting); `lossledger audit` releases them before writing (docs/reliability.md).
+    /// fitting); `lossledger audit` releases them once the fittings are placed and checked
+    /// ([`crate::audit::run_releasing_rows`], docs/reliability.md). The assumed values keep the
+    /// row's shared line id.
     pub fn release_fitting_rows(&mut self) {
         let rows = std::mem::take(&mut self.fittings);
         for f in rows {
             let line = f.line;
             self.released_assumed
-                .extend(f.assumed.into_iter().map(|a| (line.to_string(), a)));
+                .extend(f.assumed.into_iter().map(|a| (line.clone(), a)));
         }
     }
 
@@ -874,7 +876,7 @@ pub fn describe(input: &Input) -> String {
     out
 }
 
-/// [`describe`]: per table its sheet, file, header and units rows, and unit defaults.
+/// [`describe()`]: per table its sheet, file, header and units rows, and unit defaults.
 fn describe_tables(input: &Input, out: &mut String) {
     use std::fmt::Write;
     for l in input.layouts.iter().filter(|l| !list::is_view(input, l)) {
@@ -908,7 +910,7 @@ fn describe_tables(input: &Input, out: &mut String) {
     }
 }
 
-/// [`describe`]: the text-to-number conversions (the first 20).
+/// [`describe()`]: the text-to-number conversions (the first 20).
 fn describe_conversions(input: &Input, out: &mut String) {
     use std::fmt::Write;
     if !input.report.conversions.is_empty() {
@@ -940,7 +942,7 @@ fn describe_conversions(input: &Input, out: &mut String) {
     }
 }
 
-/// [`describe`]: what each list row became, rows left out by status, rows skipped.
+/// [`describe()`]: what each list row became, rows left out by status, rows skipped.
 fn describe_rows(input: &Input, out: &mut String) {
     use std::fmt::Write;
     if !input.report.classified.is_empty() {

@@ -3,7 +3,7 @@
 //!
 //! Every K returned here multiplies the velocity head `ρv²/2` of one stated bore
 //! ([`FittingK::reference_diameter_m`]); for area changes that is always the smaller bore.
-//! The catalogue itself is data ([`catalogue`]); the models are pure `f64` functions in
+//! The catalogue itself is data ([`catalogue()`]); the models are pure `f64` functions in
 //! [`models`] and [`opening`]. See `docs/fittings.md` for formulas, sources and validity.
 
 mod catalogue;
